@@ -1,0 +1,220 @@
+//! The command line: clap types (their doc comments are the `--help` text) and
+//! the dispatch to the library. No formulas here.
+
+use std::io::Write as _;
+use std::path::PathBuf;
+
+use clap::{Parser, Subcommand};
+
+use crate::config::{Config, Format};
+use crate::error::{Error, chain};
+use crate::las::{self, ReadOptions};
+use crate::{export, field, inspect};
+
+/// flowzone: field-scale petrophysics from LAS logs, core, capillary-pressure
+/// and pressure data. Messages go to stderr; data to stdout or files.
+#[derive(Debug, Parser)]
+#[command(name = "flowzone", version, about, long_about = None)]
+pub struct Args {
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Show each LAS file's well header, curves with units, depth range and
+    /// step, missing-value fraction per curve, and warnings.
+    Inspect {
+        /// LAS files to inspect.
+        #[arg(required = true)]
+        files: Vec<PathBuf>,
+        /// Print JSON (one array of file summaries) instead of text.
+        #[arg(long)]
+        json: bool,
+        /// Refuse files whose header contradicts their data.
+        #[arg(long)]
+        strict: bool,
+    },
+    /// Write each LAS file's curves as read (original mnemonics and units) to
+    /// CSV, LAS 2.0 or Parquet, one output file per input.
+    Export {
+        /// LAS files to export.
+        #[arg(required = true)]
+        files: Vec<PathBuf>,
+        /// Output format.
+        #[arg(long, value_enum)]
+        format: Format,
+        /// Output folder (created if needed).
+        #[arg(long)]
+        out: PathBuf,
+        /// Refuse files whose header contradicts their data.
+        #[arg(long)]
+        strict: bool,
+    },
+    /// Run the field: every well of the config through the stages, into an
+    /// output folder.
+    Run {
+        /// Project config (TOML).
+        #[arg(long)]
+        config: PathBuf,
+        /// Output folder; overrides [output] dir of the config.
+        #[arg(long)]
+        out: Option<PathBuf>,
+        /// Worker threads (default: one per core).
+        #[arg(long)]
+        threads: Option<usize>,
+        /// No progress lines.
+        #[arg(long)]
+        quiet: bool,
+        /// Exit 0 even when some wells failed (they are still reported).
+        #[arg(long)]
+        keep_going: bool,
+    },
+    /// Write the invented demo field (LAS wells and CSV tables) made by the
+    /// synthetic forward model.
+    Demo {
+        /// Output folder.
+        #[arg(long)]
+        out: PathBuf,
+        /// Random seed of the model.
+        #[arg(long, default_value_t = crate::synth::DEMO_SEED)]
+        seed: u64,
+    },
+}
+
+/// Run a parsed command; returns the process exit code.
+pub fn run(args: Args) -> Result<(), Error> {
+    match args.command {
+        Command::Inspect {
+            files,
+            json,
+            strict,
+        } => cmd_inspect(&files, json, strict),
+        Command::Export {
+            files,
+            format,
+            out,
+            strict,
+        } => cmd_export(&files, format, &out, strict),
+        Command::Run {
+            config,
+            out,
+            threads,
+            quiet,
+            keep_going,
+        } => cmd_run(&config, out, threads, quiet, keep_going),
+        Command::Demo { out, seed } => crate::demo::write_demo(&out, seed),
+    }
+}
+
+fn cmd_inspect(files: &[PathBuf], json: bool, strict: bool) -> Result<(), Error> {
+    let mut summaries = Vec::new();
+    let mut failed = 0;
+    let stdout = std::io::stdout();
+    let mut out = stdout.lock();
+    for f in files {
+        match las::read_path(f, ReadOptions { strict }) {
+            Ok(file) => {
+                let s = inspect::summarise(&f.display().to_string(), &file);
+                if json {
+                    summaries.push(s);
+                } else {
+                    let _ = writeln!(out, "{}", inspect::to_text(&s));
+                }
+            }
+            Err(e) => {
+                failed += 1;
+                eprintln!("error: {}", chain(&e));
+            }
+        }
+    }
+    if json {
+        let _ = serde_json::to_writer_pretty(&mut out, &summaries);
+        let _ = writeln!(out);
+    }
+    if failed > 0 {
+        return Err(Error::Partial {
+            failed,
+            total: files.len(),
+            what: "files",
+        });
+    }
+    Ok(())
+}
+
+fn cmd_export(files: &[PathBuf], format: Format, out: &PathBuf, strict: bool) -> Result<(), Error> {
+    std::fs::create_dir_all(out).map_err(|source| Error::Io {
+        path: out.clone(),
+        source,
+    })?;
+    let mut failed = 0;
+    for f in files {
+        let result = las::read_path(f, ReadOptions { strict })
+            .map_err(Error::from)
+            .and_then(|file| {
+                for w in &file.warnings {
+                    eprintln!("warning: {}: {w}", f.display());
+                }
+                export::export_file(&file, f, out, format)
+            });
+        match result {
+            Ok(p) => eprintln!("wrote {}", p.display()),
+            Err(e) => {
+                failed += 1;
+                eprintln!("error: {}", chain(&e));
+            }
+        }
+    }
+    if failed > 0 {
+        return Err(Error::Partial {
+            failed,
+            total: files.len(),
+            what: "files",
+        });
+    }
+    Ok(())
+}
+
+fn cmd_run(
+    config_path: &PathBuf,
+    out: Option<PathBuf>,
+    threads: Option<usize>,
+    quiet: bool,
+    keep_going: bool,
+) -> Result<(), Error> {
+    let config = Config::load(config_path)?;
+    let out = match out.or_else(|| config.output.dir.as_ref().map(|d| config.resolve_path(d))) {
+        Some(o) => o,
+        None => {
+            return Err(Error::Usage(
+                "no output folder: give --out DIR or set [output] dir in the config".into(),
+            ));
+        }
+    };
+    if let Some(n) = threads {
+        // a second call in the same process fails; the first pool stays in use
+        let _ = rayon::ThreadPoolBuilder::new()
+            .num_threads(n.max(1))
+            .build_global();
+    }
+    let summary = field::run(&config, &out, !quiet)?;
+    for w in summary.wells.iter().filter(|w| !w.ok) {
+        eprintln!("error: {}", w.error.as_deref().unwrap_or("unknown error"));
+    }
+    if !quiet {
+        eprintln!(
+            "{} wells, {} failed; outputs in {} (summary: run-summary.json)",
+            summary.wells_total,
+            summary.wells_failed,
+            out.display()
+        );
+    }
+    if summary.wells_failed > 0 && !keep_going {
+        return Err(Error::Partial {
+            failed: summary.wells_failed,
+            total: summary.wells_total,
+            what: "wells",
+        });
+    }
+    Ok(())
+}

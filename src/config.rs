@@ -1,0 +1,312 @@
+//! Project configuration, read from TOML.
+//!
+//! Keys are kebab-case; unknown keys are refused with their name and the list
+//! of valid keys (serde `deny_unknown_fields`). Paths are relative to the
+//! config file's folder. Units are in the key name or its doc comment;
+//! `config/default.toml` documents every key with its default.
+
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+
+use serde::Deserialize;
+
+use crate::curves::{AliasTable, LogicalCurve};
+use crate::units::DepthUnit;
+
+/// An error loading a config file.
+#[derive(Debug, thiserror::Error)]
+pub enum ConfigError {
+    #[error("cannot read config `{}`", .path.display())]
+    Io {
+        path: PathBuf,
+        #[source]
+        source: std::io::Error,
+    },
+    #[error("config `{}`", .path.display())]
+    Parse {
+        path: PathBuf,
+        #[source]
+        source: Box<toml::de::Error>,
+    },
+    #[error("config `{}`: key `{key}`: {message}", .path.display())]
+    Invalid {
+        path: PathBuf,
+        key: String,
+        message: String,
+    },
+}
+
+/// The whole config file.
+#[derive(Debug, Clone, Deserialize, Default)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct Config {
+    #[serde(default)]
+    pub project: Project,
+    #[serde(default)]
+    pub input: Input,
+    #[serde(default)]
+    pub output: Output,
+    #[serde(default)]
+    pub curves: Curves,
+    /// The folder the config file is in; relative paths start here.
+    #[serde(skip)]
+    pub base_dir: PathBuf,
+}
+
+/// `[project]`
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct Project {
+    /// A name for reports. Default: "flowzone project".
+    #[serde(default = "default_name")]
+    pub name: String,
+    /// Depth unit of every output: "m" or "ft". Default "m". Wells logged in the
+    /// other unit are converted when read (1 ft = 0.3048 m).
+    #[serde(default)]
+    pub depth_unit: DepthUnit,
+}
+
+fn default_name() -> String {
+    "flowzone project".into()
+}
+
+impl Default for Project {
+    fn default() -> Self {
+        Project {
+            name: default_name(),
+            depth_unit: DepthUnit::default(),
+        }
+    }
+}
+
+/// `[input]`
+#[derive(Debug, Clone, Deserialize, Default)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct Input {
+    /// LAS files or folders (every `*.las` / `*.LAS` inside, not recursive).
+    #[serde(default)]
+    pub wells: Vec<PathBuf>,
+    /// Refuse files whose header contradicts the data instead of warning.
+    #[serde(default)]
+    pub strict: bool,
+}
+
+/// `[output]`
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct Output {
+    /// Output folder, used when `--out` is not given.
+    #[serde(default)]
+    pub dir: Option<PathBuf>,
+    /// Per-well formats: any of "las", "csv", "parquet". Default ["las", "csv"].
+    #[serde(default = "default_formats")]
+    pub formats: Vec<Format>,
+    /// Decimals written for computed curves in CSV and LAS. Default 4.
+    #[serde(default = "default_decimals")]
+    pub decimals: usize,
+}
+
+fn default_formats() -> Vec<Format> {
+    vec![Format::Las, Format::Csv]
+}
+
+fn default_decimals() -> usize {
+    4
+}
+
+impl Default for Output {
+    fn default() -> Self {
+        Output {
+            dir: None,
+            formats: default_formats(),
+            decimals: default_decimals(),
+        }
+    }
+}
+
+/// An output table format.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, clap::ValueEnum)]
+#[serde(rename_all = "kebab-case")]
+pub enum Format {
+    Las,
+    Csv,
+    Parquet,
+}
+
+impl Format {
+    pub fn extension(self) -> &'static str {
+        match self {
+            Format::Las => "las",
+            Format::Csv => "csv",
+            Format::Parquet => "parquet",
+        }
+    }
+}
+
+/// `[curves]`
+#[derive(Debug, Clone, Deserialize, Default)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct Curves {
+    /// Alias lists that replace the defaults, by logical curve
+    /// (`gamma-ray = ["GR", "SGR"]`).
+    #[serde(default)]
+    pub aliases: BTreeMap<LogicalCurve, Vec<String>>,
+    /// Units for mnemonics whose header unit is blank or wrong (`PHIN = "v/v"`).
+    #[serde(default)]
+    pub units: BTreeMap<String, String>,
+}
+
+impl Config {
+    /// Read and validate a config file.
+    pub fn load(path: &Path) -> Result<Config, ConfigError> {
+        let text = std::fs::read_to_string(path).map_err(|source| ConfigError::Io {
+            path: path.to_path_buf(),
+            source,
+        })?;
+        let base = path
+            .parent()
+            .map_or_else(|| PathBuf::from("."), Path::to_path_buf);
+        Config::from_toml(&text, path, base)
+    }
+
+    /// Parse config text; `path` names it in errors, `base_dir` anchors relative paths.
+    pub fn from_toml(text: &str, path: &Path, base_dir: PathBuf) -> Result<Config, ConfigError> {
+        let mut config: Config = toml::from_str(text).map_err(|source| ConfigError::Parse {
+            path: path.to_path_buf(),
+            source: Box::new(source),
+        })?;
+        config.base_dir = base_dir;
+        config.validate(path)?;
+        Ok(config)
+    }
+
+    fn validate(&self, path: &Path) -> Result<(), ConfigError> {
+        let invalid = |key: &str, message: String| ConfigError::Invalid {
+            path: path.to_path_buf(),
+            key: key.into(),
+            message,
+        };
+        if self.output.decimals > 10 {
+            return Err(invalid(
+                "output.decimals",
+                format!("{} is more than 10", self.output.decimals),
+            ));
+        }
+        for (curve, list) in &self.curves.aliases {
+            if list.is_empty() {
+                return Err(invalid(
+                    &format!("curves.aliases.{}", curve.key()),
+                    "alias list is empty".into(),
+                ));
+            }
+        }
+        Ok(())
+    }
+
+    /// A path from the config, anchored at the config's folder.
+    pub fn resolve_path(&self, p: &Path) -> PathBuf {
+        if p.is_absolute() {
+            p.to_path_buf()
+        } else {
+            self.base_dir.join(p)
+        }
+    }
+
+    /// The alias table for curve resolution.
+    pub fn alias_table(&self) -> AliasTable {
+        AliasTable {
+            aliases: self.curves.aliases.clone(),
+            units: self.curves.units.clone(),
+        }
+    }
+
+    /// The LAS files named by `[input] wells`, sorted, folders expanded.
+    pub fn well_files(&self) -> Result<Vec<PathBuf>, ConfigError> {
+        let mut files = Vec::new();
+        for entry in &self.input.wells {
+            let p = self.resolve_path(entry);
+            if p.is_dir() {
+                let dir = std::fs::read_dir(&p).map_err(|source| ConfigError::Io {
+                    path: p.clone(),
+                    source,
+                })?;
+                for e in dir {
+                    let e = e.map_err(|source| ConfigError::Io {
+                        path: p.clone(),
+                        source,
+                    })?;
+                    let f = e.path();
+                    let is_las = f
+                        .extension()
+                        .and_then(|x| x.to_str())
+                        .is_some_and(|x| x.eq_ignore_ascii_case("las"));
+                    if is_las && f.is_file() {
+                        files.push(f);
+                    }
+                }
+            } else {
+                files.push(p);
+            }
+        }
+        files.sort();
+        files.dedup();
+        Ok(files)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn parse(text: &str) -> Result<Config, ConfigError> {
+        Config::from_toml(text, Path::new("t.toml"), PathBuf::from("."))
+    }
+
+    fn chain(e: &dyn std::error::Error) -> String {
+        let mut s = e.to_string();
+        let mut cur = e.source();
+        while let Some(c) = cur {
+            s.push_str(": ");
+            s.push_str(&c.to_string());
+            cur = c.source();
+        }
+        s
+    }
+
+    #[test]
+    fn empty_config_has_defaults() {
+        let c = parse("").expect("empty is valid");
+        assert_eq!(c.project.depth_unit, DepthUnit::Metre);
+        assert_eq!(c.output.formats, vec![Format::Las, Format::Csv]);
+    }
+
+    #[test]
+    fn unknown_key_names_the_key_and_the_valid_ones() {
+        let err = parse("[project]\ndepth-units = \"m\"\n").expect_err("typo");
+        let text = chain(&err);
+        assert!(
+            text.starts_with("config `t.toml`: TOML parse error at line 2, column 1"),
+            "{text}"
+        );
+        assert!(
+            text.contains("unknown field `depth-units`, expected `name` or `depth-unit`"),
+            "{text}"
+        );
+    }
+
+    #[test]
+    fn aliases_by_logical_curve() {
+        let c = parse("[curves.aliases]\ngamma-ray = [\"SGR\"]\n[curves.units]\nPHIN = \"v/v\"\n")
+            .expect("valid");
+        assert_eq!(
+            c.alias_table().aliases(LogicalCurve::GammaRay),
+            vec!["SGR".to_string()]
+        );
+        let err = parse("[curves.aliases]\ngamma-rays = [\"SGR\"]\n").expect_err("bad key");
+        assert!(
+            chain(&err).contains("unknown variant `gamma-rays`"),
+            "{}",
+            chain(&err)
+        );
+    }
+}

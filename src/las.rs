@@ -1,0 +1,755 @@
+//! Reads and writes LAS 2.0 well-log files, and reads LAS 1.2.
+//!
+//! Follows CWLS, *LAS Version 2.0: A Digital Standard for Logs* (January 2014
+//! update), with the 1992 original for LAS 1.2 habits. A file is made of
+//! sections, each opened by a line starting with `~` and a letter:
+//!
+//! ```text
+//! ~V  version: VERS (1.2 or 2.0) and WRAP (YES or NO)
+//! ~W  well: STRT, STOP, STEP (index unit), NULL, COMP, WELL, FLD, LOC, ...
+//! ~C  curves, one line per ~A column, index first: MNEM.UNIT API : DESCRIPTION
+//! ~P  parameters (optional), same line syntax
+//! ~O  other (optional), free text kept as it is
+//! ~A  the data, last: numbers separated by spaces
+//! ```
+//!
+//! The reader is strict where a wrong answer could pass for a right one: a row
+//! with the wrong number of values, text in a numeric column, a ~C line that
+//! cannot be split, a file without ~V, ~W, ~C or ~A are errors that name the
+//! file and line. Where the file is readable but contradicts itself (STRT/STOP
+//! against the index, STEP against the spacing, a non-monotonic index, ~A
+//! column names against ~C) it reads the data and records a [`Warning`] with the
+//! line number; [`ReadOptions::strict`] turns those contradictions into errors.
+//!
+//! After reading, the index increases: a file written with decreasing depth is
+//! reversed (and says so in [`LasFile::index_reversed`]).
+
+pub mod data;
+pub mod error;
+pub mod header;
+pub mod writer;
+
+use std::path::{Path, PathBuf};
+
+pub use error::{FileError, LasError, LineError, Warning};
+pub use header::HeaderItem;
+
+/// LAS versions this reader reads.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+pub enum Version {
+    /// LAS 1.2 (1990): ~W values sit in the description field.
+    #[serde(rename = "1.2")]
+    V1_2,
+    /// LAS 2.0.
+    #[serde(rename = "2.0")]
+    V2_0,
+}
+
+/// One curve of ~C.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct CurveInfo {
+    /// Unique mnemonic: the file's own, or with `_2`, `_3`... when the file repeats it.
+    pub mnemonic: String,
+    /// The mnemonic as written in the file.
+    pub original_mnemonic: String,
+    pub unit: String,
+    /// The data field of the ~C line (an API log code in most files).
+    pub api_code: String,
+    pub description: String,
+    /// 1-based line number of the ~C line.
+    pub line: usize,
+}
+
+/// A LAS file as read: header sections, curves and data (column per curve).
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct LasFile {
+    pub version: Version,
+    /// Whether ~A was wrapped in the file.
+    pub wrapped: bool,
+    pub version_items: Vec<HeaderItem>,
+    pub well_items: Vec<HeaderItem>,
+    pub curves: Vec<CurveInfo>,
+    pub params: Vec<HeaderItem>,
+    /// ~O text, as written.
+    pub other: String,
+    /// The NULL value declared in ~W.
+    pub null_value: Option<f64>,
+    /// One column per curve, index first; missing samples are NaN.
+    #[serde(skip)]
+    pub columns: Vec<Vec<f64>>,
+    /// True when the file's index decreased and the rows were reversed.
+    pub index_reversed: bool,
+    pub warnings: Vec<Warning>,
+}
+
+/// Options of the reader.
+#[derive(Debug, Clone, Copy, Default)]
+pub struct ReadOptions {
+    /// Turn header/data contradictions (STRT, STOP, STEP, a non-monotonic index,
+    /// ~A column names) into errors instead of warnings.
+    pub strict: bool,
+}
+
+/// Mnemonics the 2017 update allows for the index curve, plus common depth names.
+const INDEX_MNEMONICS: [&str; 6] = ["DEPT", "DEPTH", "TIME", "INDEX", "MD", "ETIM"];
+
+impl LasFile {
+    /// The index column (the first curve).
+    pub fn index(&self) -> &[f64] {
+        self.columns.first().map_or(&[], Vec::as_slice)
+    }
+
+    /// Number of depth steps.
+    pub fn n_rows(&self) -> usize {
+        self.index().len()
+    }
+
+    /// The unit of the index, from its ~C line, else from STRT.
+    pub fn index_unit(&self) -> &str {
+        match self.curves.first() {
+            Some(c) if !c.unit.is_empty() => &c.unit,
+            _ => self.well_item("STRT").map_or("", |i| i.unit.as_str()),
+        }
+    }
+
+    /// A ~W item by mnemonic (case-insensitive).
+    pub fn well_item(&self, mnemonic: &str) -> Option<&HeaderItem> {
+        self.well_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case(mnemonic))
+    }
+
+    /// A ~P item by mnemonic (case-insensitive).
+    pub fn param(&self, mnemonic: &str) -> Option<&HeaderItem> {
+        self.params
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case(mnemonic))
+    }
+
+    /// A ~W value by mnemonic, if present and not empty.
+    pub fn well_value(&self, mnemonic: &str) -> Option<&str> {
+        self.well_item(mnemonic)
+            .map(|i| i.value.as_str())
+            .filter(|v| !v.is_empty())
+    }
+
+    /// Position of a curve by its (unique) mnemonic, case-insensitive.
+    pub fn curve_position(&self, mnemonic: &str) -> Option<usize> {
+        self.curves
+            .iter()
+            .position(|c| c.mnemonic.eq_ignore_ascii_case(mnemonic))
+    }
+
+    /// A curve's data by its (unique) mnemonic.
+    pub fn curve_data(&self, mnemonic: &str) -> Option<&[f64]> {
+        self.curve_position(mnemonic)
+            .map(|i| self.columns[i].as_slice())
+    }
+
+    /// The well name: WELL, else UWI, else the caller's fallback.
+    pub fn well_name(&self) -> Option<&str> {
+        self.well_value("WELL").or_else(|| self.well_value("UWI"))
+    }
+}
+
+/// Read a LAS file from disk.
+pub fn read_path(path: &Path, options: ReadOptions) -> Result<LasFile, LasError> {
+    let bytes = std::fs::read(path).map_err(|source| LasError::Io {
+        path: path.to_path_buf(),
+        source,
+    })?;
+    read_bytes(&bytes, path, options)
+}
+
+/// Read a LAS file from bytes; `name` is used in errors.
+pub fn read_bytes(bytes: &[u8], name: &Path, options: ReadOptions) -> Result<LasFile, LasError> {
+    Reader {
+        name,
+        options,
+        warnings: Vec::new(),
+    }
+    .read(bytes)
+}
+
+/// Which header section a line belongs to.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Section {
+    None,
+    Version,
+    Well,
+    Curve,
+    Param,
+    Other,
+    Unknown,
+}
+
+struct Reader<'a> {
+    name: &'a Path,
+    options: ReadOptions,
+    warnings: Vec<Warning>,
+}
+
+impl Reader<'_> {
+    fn path(&self) -> PathBuf {
+        self.name.to_path_buf()
+    }
+
+    fn line_err(&self, line: usize, source: LineError) -> LasError {
+        LasError::Line {
+            path: self.path(),
+            line,
+            source,
+        }
+    }
+
+    fn file_err(&self, source: FileError) -> LasError {
+        LasError::File {
+            path: self.path(),
+            source,
+        }
+    }
+
+    fn warn(&mut self, line: Option<usize>, message: impl Into<String>) {
+        self.warnings.push(Warning {
+            line,
+            message: message.into(),
+        });
+    }
+
+    /// A header/data contradiction: a warning, or an error in strict mode.
+    fn contradiction(&mut self, line: Option<usize>, message: String) -> Result<(), LasError> {
+        if self.options.strict {
+            return Err(match line {
+                Some(line) => self.line_err(line, LineError::Contradiction(message)),
+                None => self.file_err(FileError::Contradiction(message)),
+            });
+        }
+        self.warn(line, message);
+        Ok(())
+    }
+
+    fn read(mut self, bytes: &[u8]) -> Result<LasFile, LasError> {
+        let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
+        if bytes.starts_with(b"LASF") {
+            return Err(self.file_err(FileError::BinaryLidar));
+        }
+        if bytes.iter().all(|b| b.is_ascii_whitespace()) {
+            return Err(self.file_err(FileError::Empty));
+        }
+
+        let mut section = Section::None;
+        let mut seen = [false; 6]; // V W C P O A
+        let mut version_items = Vec::new();
+        let mut well_items = Vec::new();
+        let mut curve_items: Vec<HeaderItem> = Vec::new();
+        let mut params = Vec::new();
+        let mut other = String::new();
+        let mut non_utf8: Option<(usize, usize)> = None; // first line, count
+        let mut data_start: Option<(usize, usize, String)> = None; // byte offset, line, ~A title
+
+        let mut pos = 0usize;
+        let mut line_no = 0usize;
+        while pos < bytes.len() {
+            line_no += 1;
+            let end = memchr_newline(bytes, pos);
+            let raw = &bytes[pos..end];
+            let next = (end + 1).min(bytes.len());
+            let raw = raw.strip_suffix(b"\r").unwrap_or(raw);
+            let text = match std::str::from_utf8(raw) {
+                Ok(t) => std::borrow::Cow::Borrowed(t),
+                Err(_) => {
+                    if let Some(&b) = raw.iter().find(|&&b| b < 0x20 && b != b'\t') {
+                        return Err(self.file_err(FileError::BadText {
+                            line: line_no,
+                            byte: b,
+                        }));
+                    }
+                    non_utf8 = Some(non_utf8.map_or((line_no, 1), |(l, n)| (l, n + 1)));
+                    let (decoded, _, _) = encoding_rs::WINDOWS_1252.decode(raw);
+                    std::borrow::Cow::Owned(decoded.into_owned())
+                }
+            };
+            let trimmed = text.trim();
+            if let Some(title) = trimmed.strip_prefix('~') {
+                let letter = title
+                    .chars()
+                    .next()
+                    .map(|c| c.to_ascii_uppercase())
+                    .unwrap_or(' ');
+                let upper = title.to_ascii_uppercase();
+                if upper.contains("_DEFINITION")
+                    || upper.contains("_DATA")
+                    || upper.contains("_PARAMETER")
+                    || upper.contains('|')
+                {
+                    return Err(self.line_err(line_no, LineError::Las3Section(format!("~{title}"))));
+                }
+                let slot = match letter {
+                    'V' => Some((0, Section::Version)),
+                    'W' => Some((1, Section::Well)),
+                    'C' => Some((2, Section::Curve)),
+                    'P' => Some((3, Section::Param)),
+                    'O' => Some((4, Section::Other)),
+                    'A' => Some((5, Section::None)),
+                    _ => None,
+                };
+                match slot {
+                    Some((i, s)) => {
+                        if seen[i] {
+                            return Err(self.line_err(line_no, LineError::RepeatedSection(letter)));
+                        }
+                        seen[i] = true;
+                        if letter == 'A' {
+                            data_start = Some((next, line_no + 1, title[1..].trim().to_string()));
+                            break;
+                        }
+                        section = s;
+                        if section == Section::Version {
+                            // the version section's title may carry text (a producer banner)
+                        }
+                    }
+                    None => {
+                        self.warn(
+                            Some(line_no),
+                            format!(
+                                "section `~{title}` is not a LAS 2.0 section; its lines are skipped"
+                            ),
+                        );
+                        section = Section::Unknown;
+                    }
+                }
+                pos = next;
+                continue;
+            }
+            match section {
+                Section::Other => {
+                    other.push_str(&text);
+                    other.push('\n');
+                }
+                _ if trimmed.is_empty() => {}
+                _ if trimmed.starts_with('#') => {}
+                Section::None => {
+                    self.warn(Some(line_no), "text before the first section is skipped");
+                }
+                Section::Unknown => {}
+                Section::Curve => {
+                    let clean = text.replace('\t', " ");
+                    let (item, note) = header::parse_curve_line(&clean, line_no)
+                        .map_err(|e| self.line_err(line_no, e))?;
+                    if note == header::SplitNote::UnitWithSpace {
+                        self.warn(
+                            Some(line_no),
+                            format!(
+                                "unit of {} read as `{}` (a unit written with a space)",
+                                item.mnemonic, item.unit
+                            ),
+                        );
+                    }
+                    curve_items.push(item);
+                }
+                Section::Version | Section::Well | Section::Param => {
+                    let clean = text.replace('\t', " ");
+                    match header::split_header_line(&clean) {
+                        Some(split) if !split.mnemonic.is_empty() => {
+                            let item = header::to_item(&split, line_no);
+                            match section {
+                                Section::Version => version_items.push(item),
+                                Section::Well => well_items.push(item),
+                                _ => params.push(item),
+                            }
+                        }
+                        _ if section == Section::Version => {
+                            return Err(self.line_err(line_no, LineError::VersionLineNoDot));
+                        }
+                        _ => self.warn(
+                            Some(line_no),
+                            format!("header line `{trimmed}` has no `MNEM.` part; skipped"),
+                        ),
+                    }
+                }
+            }
+            pos = next;
+        }
+
+        if let Some((line, count)) = non_utf8 {
+            self.warn(
+                Some(line),
+                format!("{count} header line(s) are not UTF-8; read as Windows-1252"),
+            );
+        }
+
+        // ~V: version and wrap
+        if !seen[0] {
+            return Err(self.file_err(FileError::MissingSection('V')));
+        }
+        let vers = version_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("VERS"))
+            .ok_or_else(|| self.file_err(FileError::MissingVersion))?;
+        let version = match vers.value.parse::<f64>() {
+            Ok(v) if (v - 1.2).abs() < 1e-9 => Version::V1_2,
+            Ok(v) if (v - 2.0).abs() < 1e-9 => Version::V2_0,
+            _ => {
+                return Err(
+                    self.line_err(vers.line, LineError::UnsupportedVersion(vers.value.clone()))
+                );
+            }
+        };
+        let wrap = version_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("WRAP"))
+            .ok_or_else(|| self.file_err(FileError::MissingWrap))?;
+        let wrapped = match wrap.value.to_ascii_uppercase().as_str() {
+            "YES" => true,
+            "NO" => false,
+            _ => return Err(self.line_err(wrap.line, LineError::BadWrap(wrap.value.clone()))),
+        };
+        if !seen[1] {
+            return Err(self.file_err(FileError::MissingSection('W')));
+        }
+        if !seen[2] {
+            return Err(self.file_err(FileError::MissingSection('C')));
+        }
+        if curve_items.is_empty() {
+            return Err(self.file_err(FileError::NoCurves));
+        }
+        let Some((data_pos, data_line, a_title)) = data_start else {
+            return Err(self.file_err(FileError::MissingSection('A')));
+        };
+
+        // LAS 1.2 keeps the ~W value in the description field (except the index
+        // and NULL lines): move it to the value.
+        if version == Version::V1_2 {
+            for item in &mut well_items {
+                let keep = ["STRT", "STOP", "STEP", "NULL"]
+                    .iter()
+                    .any(|m| item.mnemonic.eq_ignore_ascii_case(m));
+                if !keep && !item.description.is_empty() {
+                    std::mem::swap(&mut item.value, &mut item.description);
+                }
+            }
+        }
+
+        let null_value = match well_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("NULL"))
+        {
+            Some(item) if !item.value.is_empty() => {
+                Some(item.value.parse::<f64>().map_err(|_| {
+                    self.line_err(
+                        item.line,
+                        LineError::BadHeaderNumber {
+                            mnemonic: "NULL".into(),
+                            text: item.value.clone(),
+                        },
+                    )
+                })?)
+            }
+            _ => {
+                self.warn(
+                    None,
+                    "~W declares no NULL value; only NaN is read as missing",
+                );
+                None
+            }
+        };
+
+        let curves = self.unique_curves(curve_items);
+
+        // ~A: the data, up to the next section line (LAS 2.0 puts ~A last)
+        let rest = &bytes[data_pos.min(bytes.len())..];
+        let (data_bytes, trailing) = split_at_next_section(rest);
+        if let Some(off) = trailing {
+            let line = data_line + rest[..off].iter().filter(|&&b| b == b'\n').count();
+            self.warn(
+                Some(line),
+                "a section follows ~A; LAS 2.0 puts ~A last, so the rest of the file is skipped",
+            );
+        }
+        let hint = rows_hint(&well_items, data_bytes.len(), curves.len(), wrapped);
+        let parsed = data::parse_data(
+            data_bytes,
+            data_line,
+            curves.len(),
+            wrapped,
+            null_value,
+            hint,
+        )
+        .map_err(|(line, e)| self.line_err(line, e))?;
+        if parsed.scan.blank_lines > 0 {
+            self.warn(
+                None,
+                format!(
+                    "{} blank line(s) inside ~A skipped",
+                    parsed.scan.blank_lines
+                ),
+            );
+        }
+        let mut columns = parsed.columns;
+        if columns[0].is_empty() {
+            return Err(self.file_err(FileError::NoRows));
+        }
+
+        self.check_a_title(&a_title, &curves, data_line - 1)?;
+        self.check_index_name(&curves)?;
+
+        let mut index_reversed = false;
+        if let Some((line, prev, value)) = parsed.scan.first_break {
+            self.contradiction(
+                Some(line),
+                format!("index is not monotonic: {value} follows {prev}"),
+            )?;
+        } else if columns[0].len() > 1 && columns[0][0] > columns[0][columns[0].len() - 1] {
+            for c in &mut columns {
+                c.reverse();
+            }
+            index_reversed = true;
+        }
+
+        let mut file = LasFile {
+            version,
+            wrapped,
+            version_items,
+            well_items,
+            curves,
+            params,
+            other,
+            null_value,
+            columns,
+            index_reversed,
+            warnings: Vec::new(),
+        };
+        self.check_range(&file, parsed.scan.first_break.is_none())?;
+        file.warnings = self.warnings;
+        Ok(file)
+    }
+
+    /// Make mnemonics unique: the first keeps its name, repeats get `_2`, `_3`...
+    fn unique_curves(&mut self, items: Vec<HeaderItem>) -> Vec<CurveInfo> {
+        let mut curves: Vec<CurveInfo> = Vec::with_capacity(items.len());
+        for item in items {
+            let mut name = item.mnemonic.clone();
+            let mut k = 1;
+            while curves
+                .iter()
+                .any(|c| c.mnemonic.eq_ignore_ascii_case(&name))
+            {
+                k += 1;
+                name = format!("{}_{k}", item.mnemonic);
+            }
+            if name != item.mnemonic {
+                self.warn(
+                    Some(item.line),
+                    format!(
+                        "curve {} appears again; this one is named {name}",
+                        item.mnemonic
+                    ),
+                );
+            }
+            curves.push(CurveInfo {
+                mnemonic: name,
+                original_mnemonic: item.mnemonic,
+                unit: item.unit,
+                api_code: item.value,
+                description: item.description,
+                line: item.line,
+            });
+        }
+        curves
+    }
+
+    /// The `~A` line may repeat the curve names; they must agree with ~C.
+    fn check_a_title(
+        &mut self,
+        title: &str,
+        curves: &[CurveInfo],
+        line: usize,
+    ) -> Result<(), LasError> {
+        let names: Vec<&str> = title.split_whitespace().collect();
+        if names.is_empty()
+            || (names.len() == 1 && names[0].eq_ignore_ascii_case(&curves[0].original_mnemonic))
+        {
+            return Ok(());
+        }
+        // a single word such as "~ASCII" or "~A DEPTH" labels the section
+        if names.len() == 1 {
+            return Ok(());
+        }
+        let strip = |s: &str| s.split('[').next().unwrap_or(s).to_ascii_uppercase();
+        let same = names.len() == curves.len()
+            && names
+                .iter()
+                .zip(curves)
+                .all(|(n, c)| strip(n) == c.original_mnemonic.to_ascii_uppercase());
+        if !same {
+            let declared: Vec<&str> = curves
+                .iter()
+                .map(|c| c.original_mnemonic.as_str())
+                .collect();
+            self.contradiction(
+                Some(line),
+                format!(
+                    "~A line names {} columns ({}) but ~C declares {} ({})",
+                    names.len(),
+                    names.join(" "),
+                    curves.len(),
+                    declared.join(" ")
+                ),
+            )?;
+        }
+        Ok(())
+    }
+
+    fn check_index_name(&mut self, curves: &[CurveInfo]) -> Result<(), LasError> {
+        let first = &curves[0];
+        let is_index = INDEX_MNEMONICS
+            .iter()
+            .any(|m| first.original_mnemonic.eq_ignore_ascii_case(m));
+        if !is_index {
+            if let Some(c) = curves.iter().skip(1).find(|c| {
+                INDEX_MNEMONICS
+                    .iter()
+                    .any(|m| c.original_mnemonic.eq_ignore_ascii_case(m))
+            }) {
+                self.contradiction(
+                    Some(c.line),
+                    format!("index curve {} is not first in ~C; the first curve, {}, is used as the index", c.mnemonic, first.mnemonic),
+                )?;
+            } else {
+                self.warn(Some(first.line), format!("first curve {} is not a usual index mnemonic (DEPT, DEPTH, TIME, INDEX); used as the index", first.mnemonic));
+            }
+        }
+        Ok(())
+    }
+
+    /// STRT, STOP and STEP against the index column.
+    fn check_range(&mut self, file: &LasFile, monotonic: bool) -> Result<(), LasError> {
+        let index = file.index();
+        let n = index.len();
+        let number = |m: &str| {
+            file.well_item(m)
+                .map(|i| (i.line, i.value.trim().parse::<f64>()))
+        };
+        // in file order: first and last as written
+        let (first, last) = if file.index_reversed {
+            (index[n - 1], index[0])
+        } else {
+            (index[0], index[n - 1])
+        };
+        let spacing = median_step(index);
+        let step_tol = spacing.abs().max(1e-6) * 0.5;
+        for (m, actual) in [("STRT", first), ("STOP", last)] {
+            match number(m) {
+                Some((line, Ok(v))) => {
+                    let tol = step_tol.max(1e-6 * v.abs());
+                    if (v - actual).abs() > tol {
+                        self.contradiction(
+                            Some(line),
+                            format!(
+                                "{m} is {v} but the index {} at {actual}",
+                                if m == "STRT" { "starts" } else { "ends" }
+                            ),
+                        )?;
+                    }
+                }
+                Some((line, Err(_))) => self.warn(Some(line), format!("{m} is not a number")),
+                None => self.warn(None, format!("~W has no {m}")),
+            }
+        }
+        if n < 2 || !monotonic {
+            return Ok(());
+        }
+        let (min_d, max_d) = step_range(index);
+        match number("STEP") {
+            Some((line, Ok(step))) if step != 0.0 => {
+                let written = if file.index_reversed {
+                    -spacing
+                } else {
+                    spacing
+                };
+                if (step - written).abs() > 1e-3 * step.abs().max(1e-9) {
+                    self.contradiction(
+                        Some(line),
+                        format!("STEP is {step} but the index steps by {written}"),
+                    )?;
+                } else if (max_d - min_d) > 0.01 * spacing.abs() {
+                    self.contradiction(
+                        Some(line),
+                        format!(
+                            "STEP is {step} but the index spacing varies from {min_d} to {max_d}"
+                        ),
+                    )?;
+                }
+            }
+            Some((_, Ok(_))) => {} // STEP 0 declares irregular spacing
+            Some((line, Err(_))) => self.warn(Some(line), "STEP is not a number"),
+            None => self.warn(None, "~W has no STEP"),
+        }
+        Ok(())
+    }
+}
+
+/// End of the line starting at `pos` (position of `\n`, or the buffer length).
+fn memchr_newline(bytes: &[u8], pos: usize) -> usize {
+    bytes[pos..]
+        .iter()
+        .position(|&b| b == b'\n')
+        .map_or(bytes.len(), |n| pos + n)
+}
+
+/// Split ~A bytes at the first line that starts a new section (`~` first non-blank).
+fn split_at_next_section(rest: &[u8]) -> (&[u8], Option<usize>) {
+    let mut pos = 0;
+    while pos < rest.len() {
+        let mut p = pos;
+        while p < rest.len() && (rest[p] == b' ' || rest[p] == b'\t') {
+            p += 1;
+        }
+        if p < rest.len() && rest[p] == b'~' {
+            return (&rest[..pos], Some(pos));
+        }
+        pos = memchr_newline(rest, pos) + 1;
+    }
+    (rest, None)
+}
+
+/// Expected number of rows, to size the column vectors once.
+fn rows_hint(well: &[HeaderItem], data_len: usize, n_curves: usize, wrapped: bool) -> usize {
+    let get = |m: &str| {
+        well.iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case(m))
+            .and_then(|i| i.value.parse::<f64>().ok())
+    };
+    if let (Some(a), Some(b), Some(s)) = (get("STRT"), get("STOP"), get("STEP")) {
+        if s != 0.0 {
+            let n = ((b - a) / s).round();
+            if n.is_finite() && n >= 0.0 && n < 1e8 {
+                return n as usize + 1;
+            }
+        }
+    }
+    // about 10 bytes per value
+    let per_row = (n_curves * 10 + if wrapped { 8 } else { 1 }).max(1);
+    data_len / per_row + 1
+}
+
+/// Median of the index steps (0 for fewer than two rows).
+pub fn median_step(index: &[f64]) -> f64 {
+    if index.len() < 2 {
+        return 0.0;
+    }
+    let mut d: Vec<f64> = index.windows(2).map(|w| w[1] - w[0]).collect();
+    let mid = d.len() / 2;
+    d.select_nth_unstable_by(mid, f64::total_cmp);
+    d[mid]
+}
+
+/// Smallest and largest index step.
+pub fn step_range(index: &[f64]) -> (f64, f64) {
+    index
+        .windows(2)
+        .map(|w| w[1] - w[0])
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), d| {
+            (lo.min(d), hi.max(d))
+        })
+}

@@ -1,0 +1,255 @@
+//! LAS 2.0 writer.
+//!
+//! Writes what LAS readers accept: `VERS. 2.0`, `WRAP. NO`, ~W with STRT, STOP,
+//! STEP and NULL taken from the data, ~C in column order with the index first,
+//! ~P and ~O when present, and ~A in right-aligned fixed-width columns with a
+//! precision per curve. Missing samples are written as the NULL value. Every
+//! header line ends with ` : DESCRIPTION`, so that the last colon on the line is
+//! the writer's own (CWLS LAS 2.0 line rule); colons inside a description are
+//! written as `;`.
+
+use std::io::{self, Write};
+
+use super::{HeaderItem, LasFile, median_step, step_range};
+
+/// The NULL value written for missing samples: the usual LAS value.
+pub const WRITE_NULL: f64 = -999.25;
+const WRITE_NULL_TEXT: &str = "-999.25";
+
+/// Most decimals [`decimals_needed`] returns.
+pub const MAX_DECIMALS: usize = 8;
+
+/// Fewest decimals (at most `cap`) that write every value of the column exactly
+/// as it reads back, to within 1e-9 relative.
+pub fn decimals_needed(values: &[f64], cap: usize) -> usize {
+    let mut need = 0usize;
+    for &v in values {
+        if !v.is_finite() {
+            continue;
+        }
+        while need < cap {
+            let scale = 10f64.powi(need as i32);
+            let back = (v * scale).round() / scale;
+            if (back - v).abs() <= 1e-9 * v.abs().max(1e-300) || (back - v).abs() < 1e-12 {
+                break;
+            }
+            need += 1;
+        }
+        if need == cap {
+            break;
+        }
+    }
+    need
+}
+
+/// A header field may not break the line syntax: no colon in the description.
+fn clean_description(text: &str) -> String {
+    text.replace(':', ";")
+}
+
+/// A mnemonic may hold no space, dot or colon.
+fn clean_mnemonic(text: &str) -> String {
+    text.chars()
+        .map(|c| {
+            if c == ' ' || c == '.' || c == ':' {
+                '_'
+            } else {
+                c
+            }
+        })
+        .collect()
+}
+
+fn header_line(
+    out: &mut impl Write,
+    mnemonic: &str,
+    unit: &str,
+    value: &str,
+    description: &str,
+) -> io::Result<()> {
+    let left = format!(" {}.{}", clean_mnemonic(mnemonic), unit.replace(' ', "_"));
+    writeln!(
+        out,
+        "{left:<16} {value:<28} : {}",
+        clean_description(description)
+    )
+}
+
+/// Write a LAS 2.0 file. `decimals[i]` is the precision of column `i`
+/// (missing entries default to what [`decimals_needed`] finds).
+pub fn write_las(mut out: impl Write, file: &LasFile, decimals: &[usize]) -> io::Result<()> {
+    let index = file.index();
+    let n = index.len();
+    let unit = file.index_unit().to_string();
+    let decimals: Vec<usize> = (0..file.columns.len())
+        .map(|i| {
+            decimals
+                .get(i)
+                .copied()
+                .unwrap_or_else(|| decimals_needed(&file.columns[i], MAX_DECIMALS))
+        })
+        .collect();
+    let d0 = decimals.first().copied().unwrap_or(4).max(1);
+    let fmt = |v: f64, d: usize| format!("{v:.d$}");
+
+    writeln!(out, "~VERSION INFORMATION")?;
+    header_line(
+        &mut out,
+        "VERS",
+        "",
+        "2.0",
+        "CWLS LOG ASCII STANDARD - VERSION 2.0",
+    )?;
+    header_line(&mut out, "WRAP", "", "NO", "ONE LINE PER DEPTH STEP")?;
+    writeln!(out, "~WELL INFORMATION")?;
+    let (strt, stop) = if n > 0 {
+        (index[0], index[n - 1])
+    } else {
+        (0.0, 0.0)
+    };
+    let spacing = median_step(index);
+    let (lo, hi) = step_range(index);
+    let regular = n > 1 && (hi - lo) <= 1e-6 * spacing.abs().max(1e-9);
+    let step = if regular { spacing } else { 0.0 };
+    header_line(&mut out, "STRT", &unit, &fmt(strt, d0), "START DEPTH")?;
+    header_line(&mut out, "STOP", &unit, &fmt(stop, d0), "STOP DEPTH")?;
+    header_line(
+        &mut out,
+        "STEP",
+        &unit,
+        &fmt(step, d0),
+        if regular {
+            "STEP"
+        } else {
+            "STEP (0: IRREGULAR SPACING)"
+        },
+    )?;
+    header_line(&mut out, "NULL", "", WRITE_NULL_TEXT, "NULL VALUE")?;
+    let skip = ["STRT", "STOP", "STEP", "NULL"];
+    for item in file
+        .well_items
+        .iter()
+        .filter(|i| !skip.iter().any(|s| i.mnemonic.eq_ignore_ascii_case(s)))
+    {
+        write_item(&mut out, item)?;
+    }
+    writeln!(out, "~CURVE INFORMATION")?;
+    for c in &file.curves {
+        header_line(&mut out, &c.mnemonic, &c.unit, &c.api_code, &c.description)?;
+    }
+    if !file.params.is_empty() {
+        writeln!(out, "~PARAMETER INFORMATION")?;
+        for item in &file.params {
+            write_item(&mut out, item)?;
+        }
+    }
+    let other = file.other.trim_end();
+    if !other.is_empty() {
+        writeln!(out, "~OTHER")?;
+        for line in other.lines() {
+            // a line starting with `~` would open a section
+            let line = line.trim_start_matches('~');
+            writeln!(out, "{line}")?;
+        }
+    }
+
+    // column widths from the extremes, the NULL text and the mnemonic
+    let widths: Vec<usize> = file
+        .columns
+        .iter()
+        .zip(&decimals)
+        .zip(&file.curves)
+        .map(|((col, &d), c)| {
+            let (lo, hi) = col
+                .iter()
+                .filter(|v| v.is_finite())
+                .fold((0.0f64, 0.0f64), |(a, b), &v| (a.min(v), b.max(v)));
+            fmt(lo, d)
+                .len()
+                .max(fmt(hi, d).len())
+                .max(WRITE_NULL_TEXT.len())
+                .max(c.mnemonic.len())
+                + 1
+        })
+        .collect();
+    write!(out, "~A")?;
+    for (c, w) in file.curves.iter().zip(&widths) {
+        write!(out, " {:>w$}", clean_mnemonic(&c.mnemonic), w = w - 1)?;
+    }
+    writeln!(out)?;
+    let mut line = String::with_capacity(widths.iter().sum::<usize>() + 2);
+    for row in 0..n {
+        line.clear();
+        line.push(' ');
+        for (col, (&d, &w)) in file.columns.iter().zip(decimals.iter().zip(&widths)) {
+            let v = col[row];
+            use std::fmt::Write as _;
+            if v.is_finite() {
+                let _ = write!(line, " {v:>w$.d$}", w = w - 1);
+            } else {
+                let _ = write!(line, " {WRITE_NULL_TEXT:>w$}", w = w - 1);
+            }
+        }
+        line.push('\n');
+        out.write_all(line.as_bytes())?;
+    }
+    Ok(())
+}
+
+fn write_item(out: &mut impl Write, item: &HeaderItem) -> io::Result<()> {
+    header_line(
+        out,
+        &item.mnemonic,
+        &item.unit,
+        &item.value,
+        &item.description,
+    )
+}
+
+/// Build a [`LasFile`] from curves, for writing computed results. The first
+/// curve is the index.
+pub fn new_file(
+    well_items: Vec<HeaderItem>,
+    params: Vec<HeaderItem>,
+    curves: Vec<(super::CurveInfo, Vec<f64>)>,
+) -> LasFile {
+    let (curves, columns): (Vec<_>, Vec<_>) = curves.into_iter().unzip();
+    LasFile {
+        version: super::Version::V2_0,
+        wrapped: false,
+        version_items: Vec::new(),
+        well_items,
+        curves,
+        params,
+        other: String::new(),
+        null_value: Some(WRITE_NULL),
+        columns,
+        index_reversed: false,
+        warnings: Vec::new(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn decimals_found() {
+        assert_eq!(decimals_needed(&[1.0, 2.0], 8), 0);
+        assert_eq!(decimals_needed(&[0.21, 1500.5], 8), 2);
+        assert_eq!(decimals_needed(&[1.0 / 3.0], 5), 5);
+        assert_eq!(decimals_needed(&[f64::NAN, 0.125], 8), 3);
+    }
+
+    #[test]
+    fn descriptions_keep_the_last_colon_ours() {
+        let mut out = Vec::new();
+        header_line(&mut out, "TIME", "", "14:30:00", "TIME: STARTED").expect("write to memory");
+        let text = String::from_utf8(out).expect("ascii");
+        let split = crate::las::header::split_header_line(&text).expect("dot");
+        assert_eq!(
+            (split.value, split.description),
+            ("14:30:00", "TIME; STARTED")
+        );
+    }
+}

@@ -1,0 +1,37 @@
+//! flowzone: field-scale petrophysics from well logs, core, capillary-pressure
+//! and formation-pressure data.
+//!
+//! ```text
+//! LAS files ──► las (read, check) ──► curves (aliases, units) ──► stages ──► output
+//!                                                                  │          (LAS, CSV, Parquet)
+//!   config (TOML) ──────────────────────────────────────────────────┘
+//! ```
+//!
+//! Modules:
+//! - [`las`]: LAS 2.0 / 1.2 reader and LAS 2.0 writer, strict with file:line errors.
+//! - [`units`]: unit spellings and conversion to the canonical units.
+//! - [`curves`]: logical curves found by alias lists, converted to canonical units.
+//! - [`config`]: the project config (TOML).
+//! - [`well`]: one well through the stages; [`field`]: many wells in parallel.
+//! - [`output`]: depth-indexed tables written as CSV, Parquet and LAS.
+//! - [`inspect`], [`export`]: the `inspect` and `export` commands.
+//! - [`synth`], [`demo`]: the synthetic forward model behind the invented demo field.
+//! - [`cli`]: the command line.
+//!
+//! Results are interpretations: they must be reviewed by a qualified
+//! petrophysicist before they inform reserves, well or investment decisions,
+//! and used under local regulation and licensed practice.
+
+pub mod cli;
+pub mod config;
+pub mod curves;
+pub mod demo;
+pub mod error;
+pub mod export;
+pub mod field;
+pub mod inspect;
+pub mod las;
+pub mod output;
+pub mod synth;
+pub mod units;
+pub mod well;

@@ -1,0 +1,247 @@
+//! Depth-indexed tables and how they are written: CSV and Parquet (polars),
+//! LAS 2.0 (the crate's own writer).
+//!
+//! Every write goes to a temporary file in the target folder that is renamed
+//! into place when complete, so an interrupted run never leaves a half-written
+//! file under a final name. Missing samples are an empty CSV field, a Parquet
+//! null and the NULL value in LAS.
+
+use std::fs::File;
+use std::io::{BufWriter, Write};
+use std::path::{Path, PathBuf};
+
+use polars::prelude::{Column, CsvWriter, DataFrame, ParquetCompression, ParquetWriter, SerWriter};
+
+use crate::config::Format;
+use crate::las::{CurveInfo, HeaderItem, writer};
+
+/// An error writing an output file.
+#[derive(Debug, thiserror::Error)]
+pub enum OutputError {
+    #[error("cannot write `{}`", .path.display())]
+    Io {
+        path: PathBuf,
+        #[source]
+        source: std::io::Error,
+    },
+    #[error("cannot write `{}`", .path.display())]
+    Table {
+        path: PathBuf,
+        #[source]
+        source: polars::error::PolarsError,
+    },
+}
+
+/// One output column.
+#[derive(Debug, Clone)]
+pub struct OutColumn {
+    pub name: String,
+    pub unit: String,
+    pub description: String,
+    /// Missing samples are NaN.
+    pub values: Vec<f64>,
+}
+
+/// A depth-indexed table: the first column is the index.
+#[derive(Debug, Clone, Default)]
+pub struct Table {
+    pub columns: Vec<OutColumn>,
+    /// ~W items for LAS output (WELL, UWI, COMP...), excluding STRT/STOP/STEP/NULL.
+    pub well_items: Vec<HeaderItem>,
+    /// ~P items for LAS output.
+    pub params: Vec<HeaderItem>,
+}
+
+impl Table {
+    pub fn n_rows(&self) -> usize {
+        self.columns.first().map_or(0, |c| c.values.len())
+    }
+
+    fn data_frame(&self) -> Result<DataFrame, polars::error::PolarsError> {
+        let height = self.n_rows();
+        let columns: Vec<Column> = self
+            .columns
+            .iter()
+            .map(|c| {
+                let v: Vec<Option<f64>> = c
+                    .values
+                    .iter()
+                    .map(|&x| if x.is_finite() { Some(x) } else { None })
+                    .collect();
+                Column::new(c.name.as_str().into(), v)
+            })
+            .collect();
+        DataFrame::new(height, columns)
+    }
+}
+
+/// Write `path` through a temporary file in the same folder, renamed when done.
+pub fn write_atomic(
+    path: &Path,
+    write: impl FnOnce(&mut BufWriter<File>) -> Result<(), OutputError>,
+) -> Result<(), OutputError> {
+    let io = |source| OutputError::Io {
+        path: path.to_path_buf(),
+        source,
+    };
+    let dir = path
+        .parent()
+        .filter(|p| !p.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    let tmp = dir.join(format!(".{name}.partial-{}", std::process::id()));
+    let file = File::create(&tmp).map_err(io)?;
+    let mut out = BufWriter::new(file);
+    let result = write(&mut out).and_then(|()| out.flush().map_err(io));
+    match result {
+        Ok(()) => {
+            drop(out);
+            std::fs::rename(&tmp, path).map_err(io)
+        }
+        Err(e) => {
+            drop(out);
+            let _ = std::fs::remove_file(&tmp);
+            Err(e)
+        }
+    }
+}
+
+/// Write a table as CSV. `decimals`: fixed decimals for every float, or `None`
+/// for the shortest text that reads back to the same value.
+pub fn write_csv(table: &Table, path: &Path, decimals: Option<usize>) -> Result<(), OutputError> {
+    let table_err = |source| OutputError::Table {
+        path: path.to_path_buf(),
+        source,
+    };
+    let mut df = table.data_frame().map_err(table_err)?;
+    write_atomic(path, |out| {
+        CsvWriter::new(out)
+            .include_header(true)
+            .with_float_precision(decimals)
+            .finish(&mut df)
+            .map_err(table_err)
+    })
+}
+
+/// Write a table as Parquet (zstd).
+pub fn write_parquet(table: &Table, path: &Path) -> Result<(), OutputError> {
+    let table_err = |source| OutputError::Table {
+        path: path.to_path_buf(),
+        source,
+    };
+    let mut df = table.data_frame().map_err(table_err)?;
+    write_atomic(path, |out| {
+        ParquetWriter::new(out)
+            .with_compression(ParquetCompression::Zstd(None))
+            .finish(&mut df)
+            .map(|_| ())
+            .map_err(table_err)
+    })
+}
+
+/// Write a table as LAS 2.0; `decimals` as in [`write_csv`].
+pub fn write_las(table: &Table, path: &Path, decimals: Option<usize>) -> Result<(), OutputError> {
+    let curves: Vec<(CurveInfo, Vec<f64>)> = table
+        .columns
+        .iter()
+        .map(|c| {
+            let info = CurveInfo {
+                mnemonic: c.name.clone(),
+                original_mnemonic: c.name.clone(),
+                unit: c.unit.clone(),
+                api_code: String::new(),
+                description: c.description.clone(),
+                line: 0,
+            };
+            (info, c.values.clone())
+        })
+        .collect();
+    let file = writer::new_file(table.well_items.clone(), table.params.clone(), curves);
+    let precision: Vec<usize> = match decimals {
+        Some(d) => vec![d; table.columns.len()],
+        None => Vec::new(),
+    };
+    write_atomic(path, |out| {
+        writer::write_las(out, &file, &precision).map_err(|source| OutputError::Io {
+            path: path.to_path_buf(),
+            source,
+        })
+    })
+}
+
+/// Write a table in `format` to `dir/stem.ext`; returns the path written.
+pub fn write_table(
+    table: &Table,
+    dir: &Path,
+    stem: &str,
+    format: Format,
+    decimals: Option<usize>,
+) -> Result<PathBuf, OutputError> {
+    let path = dir.join(format!("{stem}.{}", format.extension()));
+    match format {
+        Format::Csv => write_csv(table, &path, decimals)?,
+        Format::Parquet => write_parquet(table, &path)?,
+        Format::Las => write_las(table, &path, decimals)?,
+    }
+    Ok(path)
+}
+
+/// A file name from a well name: lower case, letters, digits, `-` and `_`.
+pub fn file_stem(name: &str) -> String {
+    let s: String = name
+        .trim()
+        .chars()
+        .map(|c| {
+            if c.is_ascii_alphanumeric() || c == '-' || c == '_' {
+                c.to_ascii_lowercase()
+            } else {
+                '-'
+            }
+        })
+        .collect();
+    let s = s.trim_matches('-').to_string();
+    if s.is_empty() { "well".into() } else { s }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn stems() {
+        assert_eq!(file_stem("Tarnby-3"), "tarnby-3");
+        assert_eq!(file_stem(" 1-28 / A "), "1-28---a");
+        assert_eq!(file_stem("//"), "well");
+    }
+
+    #[test]
+    fn csv_missing_is_empty_and_shortest_text() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let t = Table {
+            columns: vec![
+                OutColumn {
+                    name: "DEPT".into(),
+                    unit: "M".into(),
+                    description: String::new(),
+                    values: vec![1.0, 1.5],
+                },
+                OutColumn {
+                    name: "GR".into(),
+                    unit: "GAPI".into(),
+                    description: String::new(),
+                    values: vec![f64::NAN, 0.21],
+                },
+            ],
+            ..Table::default()
+        };
+        let p = dir.path().join("a.csv");
+        write_csv(&t, &p, None).expect("written");
+        let text = std::fs::read_to_string(&p).expect("read back");
+        assert_eq!(text, "DEPT,GR\n1.0,\n1.5,0.21\n");
+        // no temporary file is left behind
+        assert_eq!(std::fs::read_dir(dir.path()).expect("list").count(), 1);
+    }
+}

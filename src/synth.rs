@@ -1,0 +1,2 @@
+//! Placeholder until the forward model lands.
+pub const DEMO_SEED: u64 = 20261202;
