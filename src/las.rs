@@ -300,7 +300,7 @@ impl Reader<'_> {
                         }
                         seen[i] = true;
                         if letter == 'A' {
-                            data_start = Some((next, line_no + 1, title[1..].trim().to_string()));
+                            data_start = Some((next, line_no + 1, title.trim().to_string()));
                             break;
                         }
                         section = s;
@@ -558,24 +558,20 @@ impl Reader<'_> {
         curves
     }
 
-    /// The `~A` line may repeat the curve names; they must agree with ~C.
+    /// The `~A` line may repeat the curve names; when it does (two or more
+    /// words after the section word, the first naming the index), they must
+    /// agree with ~C. Other text on the line is a label.
     fn check_a_title(
         &mut self,
         title: &str,
         curves: &[CurveInfo],
         line: usize,
     ) -> Result<(), LasError> {
-        let names: Vec<&str> = title.split_whitespace().collect();
-        if names.is_empty()
-            || (names.len() == 1 && names[0].eq_ignore_ascii_case(&curves[0].original_mnemonic))
-        {
-            return Ok(());
-        }
-        // a single word such as "~ASCII" or "~A DEPTH" labels the section
-        if names.len() == 1 {
-            return Ok(());
-        }
         let strip = |s: &str| s.split('[').next().unwrap_or(s).to_ascii_uppercase();
+        let names: Vec<&str> = title.split_whitespace().skip(1).collect();
+        if names.len() < 2 || strip(names[0]) != curves[0].original_mnemonic.to_ascii_uppercase() {
+            return Ok(());
+        }
         let same = names.len() == curves.len()
             && names
                 .iter()

@@ -1,0 +1,104 @@
+use std::path::{Path, PathBuf};
+use std::process::Command;
+
+/// The crate root.
+pub fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+/// ../shared beside the checkout (FLOWZONE_SHARED overrides).
+pub fn shared() -> PathBuf {
+    match std::env::var_os("FLOWZONE_SHARED") {
+        Some(p) => PathBuf::from(p),
+        None => root().join("..").join("shared"),
+    }
+}
+
+/// The Python that has lasio: FLOWZONE_PYTHON, else the project's .venv.
+/// The interop tests fail, never skip, when it is missing: .ci/run installs it.
+pub fn python() -> PathBuf {
+    let p = match std::env::var_os("FLOWZONE_PYTHON") {
+        Some(p) => PathBuf::from(p),
+        None => root().join(".venv").join("bin").join("python"),
+    };
+    assert!(
+        p.exists(),
+        "no Python with lasio at {}: run `bash .ci/run`, or `python3 -m venv .venv && .venv/bin/pip install lasio`",
+        p.display()
+    );
+    p
+}
+
+/// Run the lasio oracle: `dump FILE` → JSON, or an Err with lasio's last error line.
+pub fn lasio_dump(file: &Path) -> Result<serde_json::Value, String> {
+    let out = Command::new(python())
+        .arg(root().join("tests/py/lasio_oracle.py"))
+        .arg("dump")
+        .arg(file)
+        .output()
+        .expect("python runs");
+    if !out.status.success() {
+        let err = String::from_utf8_lossy(&out.stderr);
+        return Err(err.lines().last().unwrap_or("").to_string());
+    }
+    Ok(serde_json::from_slice(&out.stdout).expect("oracle prints JSON"))
+}
+
+/// Write a LAS file with lasio from a JSON spec.
+pub fn lasio_write(spec: &serde_json::Value, out: &Path) {
+    let spec_path = out.with_extension("json");
+    std::fs::write(&spec_path, serde_json::to_vec(spec).expect("json")).expect("write spec");
+    let status = Command::new(python())
+        .arg(root().join("tests/py/lasio_oracle.py"))
+        .arg("write")
+        .arg(&spec_path)
+        .arg(out)
+        .status()
+        .expect("python runs");
+    assert!(status.success(), "lasio failed to write {}", out.display());
+}
+
+/// The values of a lasio curve, null as NaN.
+pub fn json_values(curve: &serde_json::Value) -> Vec<f64> {
+    curve["data"]
+        .as_array()
+        .expect("data array")
+        .iter()
+        .map(|v| v.as_f64().unwrap_or(f64::NAN))
+        .collect()
+}
+
+/// Same length, NaN in the same places, values within `rel` relative tolerance.
+#[track_caller]
+pub fn assert_same_values(context: &str, ours: &[f64], theirs: &[f64], rel: f64) {
+    assert_eq!(
+        ours.len(),
+        theirs.len(),
+        "{context}: {} rows vs {}",
+        ours.len(),
+        theirs.len()
+    );
+    for (i, (a, b)) in ours.iter().zip(theirs).enumerate() {
+        if a.is_nan() || b.is_nan() {
+            assert!(
+                a.is_nan() && b.is_nan(),
+                "{context}: row {i}: ours {a}, theirs {b}"
+            );
+        } else {
+            assert!(
+                (a - b).abs() <= rel * a.abs().max(b.abs()).max(1e-12),
+                "{context}: row {i}: ours {a}, theirs {b}"
+            );
+        }
+    }
+}
+
+/// The flowzone binary built for these tests.
+pub fn flowzone() -> Command {
+    Command::new(env!("CARGO_BIN_EXE_flowzone"))
+}
+
+/// The error text with its cause chain, as the CLI prints it.
+pub fn chain(e: &dyn std::error::Error) -> String {
+    flowzone::error::chain(e)
+}

@@ -1,0 +1,249 @@
+//! Every file in ../shared/las-samples (real, openly licensed; provenance in
+//! ../shared/las-samples/PROVENANCE.md) is either read and checked against the
+//! Python reader lasio 0.32, or refused with the error written here, and the
+//! reason for the refusal is stated beside it.
+
+use std::path::Path;
+
+use flowzone::las::{ReadOptions, read_bytes};
+
+use crate::common::{assert_same_values, chain, json_values, lasio_dump, shared};
+
+/// Files flowzone refuses, with the whole error and why that is right.
+const REFUSED: &[(&str, &str)] = &[
+    // LAS 3.0 (VERS 3.0) is not supported yet; said so at the VERS line.
+    (
+        "0-d Array #1 (MS).las",
+        "0-d Array #1 (MS).las:2: LAS version `3.0` is not supported (this reader reads LAS 1.2 and 2.0; LAS 3.0 is not supported yet)",
+    ),
+    (
+        "Good File (SS).las",
+        "Good File (SS).las:2: LAS version `3` is not supported (this reader reads LAS 1.2 and 2.0; LAS 3.0 is not supported yet)",
+    ),
+    // LAS 3.0 data-set sections: refused at the section line.
+    (
+        "Curve-Param Error #1 (MS).LAS",
+        "Curve-Param Error #1 (MS).LAS:50: section `~Phase_A_Definition` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet",
+    ),
+    (
+        "Curve-Param Error #2 (MS).LAS",
+        "Curve-Param Error #2 (MS).LAS:50: section `~Phase_A_Definition` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet",
+    ),
+    (
+        "Curve-Param Error #3 (MS).LAS",
+        "Curve-Param Error #3 (MS).LAS:49: section `~Phase_A_Definition` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet",
+    ),
+    (
+        "Curve-Param Error #5 (MS).LAS",
+        "Curve-Param Error #5 (MS).LAS:50: section `~Phase_A_Definition` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet",
+    ),
+    (
+        "Curve-Param Error #6 (SS).LAS",
+        "Curve-Param Error #6 (SS).LAS:42: section `~Phase_Definition_RMDATA` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet",
+    ),
+    (
+        "Curve-Param Unknown #2 (SS).LAS",
+        "Curve-Param Unknown #2 (SS).LAS:52: section `~Drilling_Definition` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet",
+    ),
+    (
+        "Reshape Error #1 (SS).las",
+        "Reshape Error #1 (SS).las:52: section `~Drilling_Definition` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet",
+    ),
+    (
+        "ex8_1046089355.las",
+        "ex8_1046089355.las:54: section `~Log_Parameter[1]` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet",
+    ),
+    (
+        "sample_las3.0_spec.las",
+        "sample_las3.0_spec.las:136: section `~Drilling_Definition` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet",
+    ),
+    // A stray value `59` on the last line: the row is short. lasio fails to reshape too.
+    (
+        "ex10_1046102494.las",
+        "ex10_1046102494.las:6315: row has 1 values, ~C declares 4 curves",
+    ),
+];
+
+/// Units lasio reports differently, and why ours is the file's text.
+/// (file, unit as written, unit as lasio gives it).
+const UNIT_EXCEPTIONS: &[(&str, &str, &str)] = &[
+    // lasio drops the outer brackets of `(m/s)*(kg/m3)`; we keep the unit as written.
+    ("F02-1_logs.las", "(m/s)*(kg/m3)", "m/s)*(kg/m3"),
+];
+
+/// Header facts checked per file, from PROVENANCE.md (what the file holds, read
+/// there independently of both readers): rows, first and last index in file order.
+const FACTS: &[(&str, usize, f64, f64)] = &[
+    ("1001178549.las", 5, 1783.5, 1784.5),
+    ("6038187_v1.2.las", 2732, 0.05, 136.6),
+    ("alog.las", 24, 0.0, 0.0),
+    ("multi_channel.las", 5, 7508.0, 7506.0),
+    ("sample_2.0_wrapped.las", 2, 910.0, 909.875),
+    ("ex1_1045399775.las", 4520, 48.5, 2308.0),
+    ("ex2_1044839000.las", 641, 5270.5, 4950.5),
+    ("ex4_1044782786.las", 64, 173.0, 5580.0),
+    ("ex7_1045627887.las", 7481, 1650.0, 5390.0),
+    ("00-10-26-083-05W4-0.LAS", 814, 60.9, 304.8),
+    ("00-10-04-081-05W4-0.LAS", 508, 122.1, 274.2),
+    ("Pechelbronn.las", 141, 139.0, 279.0),
+    ("F02-1_logs.las", 9680, 48.0, 1499.85),
+];
+
+fn sample_files() -> Vec<std::path::PathBuf> {
+    let dir = shared().join("las-samples");
+    let mut files: Vec<_> = std::fs::read_dir(&dir)
+        .unwrap_or_else(|e| {
+            panic!(
+                "{} must exist (../shared beside the checkout): {e}",
+                dir.display()
+            )
+        })
+        .map(|e| e.expect("dir entry").path())
+        .filter(|p| p.extension().is_some_and(|x| x.eq_ignore_ascii_case("las")))
+        .collect();
+    files.sort();
+    files
+}
+
+#[test]
+fn every_real_file_is_read_like_lasio_or_refused_with_a_reason() {
+    let files = sample_files();
+    assert!(
+        files.len() >= 25,
+        "expected the 25 sample files, found {}",
+        files.len()
+    );
+    let mut compared = 0;
+    for path in &files {
+        let name = path
+            .file_name()
+            .expect("name")
+            .to_string_lossy()
+            .into_owned();
+        let bytes = std::fs::read(path).expect("readable");
+        let result = read_bytes(&bytes, Path::new(&name), ReadOptions::default());
+        if let Some((_, expected)) = REFUSED.iter().find(|(n, _)| *n == name) {
+            let err = result.expect_err(&format!("{name} should be refused"));
+            assert_eq!(chain(&err), *expected);
+            continue;
+        }
+        let ours = result.unwrap_or_else(|e| panic!("{name}: {}", chain(&e)));
+        let theirs = lasio_dump(path).unwrap_or_else(|e| panic!("lasio fails on {name}: {e}"));
+        let curves = theirs["curves"].as_array().expect("curves");
+        assert_eq!(ours.curves.len(), curves.len(), "{name}: curve count");
+        for (i, (c, t)) in ours.curves.iter().zip(curves).enumerate() {
+            // lasio upper-cases mnemonics by default; we keep the case as written
+            assert_eq!(
+                c.original_mnemonic.to_ascii_uppercase(),
+                t["original"].as_str().unwrap_or_default(),
+                "{name}: curve {i} mnemonic"
+            );
+            let lasio_unit = t["unit"].as_str().unwrap_or_default();
+            let exception = UNIT_EXCEPTIONS
+                .iter()
+                .find(|(f, ours, theirs)| *f == name && *ours == c.unit && *theirs == lasio_unit);
+            if exception.is_none() {
+                assert_eq!(c.unit, lasio_unit, "{name}: {} unit", c.mnemonic);
+            }
+            let mut theirs_v = json_values(t);
+            if ours.index_reversed {
+                theirs_v.reverse();
+            }
+            assert_same_values(
+                &format!("{name}: {}", c.mnemonic),
+                &ours.columns[i],
+                &theirs_v,
+                1e-12,
+            );
+        }
+        if let Some((_, rows, first, last)) = FACTS.iter().find(|(n, ..)| *n == name) {
+            let idx = ours.index();
+            assert_eq!(idx.len(), *rows, "{name}: rows");
+            let (f, l) = if ours.index_reversed {
+                (idx[idx.len() - 1], idx[0])
+            } else {
+                (idx[0], idx[idx.len() - 1])
+            };
+            // PROVENANCE.md prints the index rounded (1499.8501 as 1499.85): tolerance 5e-4
+            assert!(
+                (f - first).abs() < 5e-4 && (l - last).abs() < 5e-4,
+                "{name}: index {f}..{l}, expected {first}..{last}"
+            );
+        }
+        compared += 1;
+    }
+    assert_eq!(compared + REFUSED.len(), files.len());
+    assert_eq!(compared, 13);
+}
+
+/// Header rules on real files, checked by hand against the file text.
+#[test]
+fn real_header_details() {
+    let read = |name: &str| {
+        let p = shared().join("las-samples").join(name);
+        flowzone::las::read_path(&p, ReadOptions::default())
+            .unwrap_or_else(|e| panic!("{}", chain(&e)))
+    };
+    // LAS 1.2: the ~W value sits in the description field (`COMP . COMPANY: McElvain Energy, Inc.`).
+    let ex1 = read("ex1_1045399775.las");
+    assert_eq!(ex1.well_value("COMP"), Some("McElvain Energy, Inc."));
+    assert_eq!(ex1.well_value("WELL"), Some("JW 10-11"));
+    // cp1252 degree sign decoded.
+    assert_eq!(ex1.well_value("LATI"), Some("37\u{b0} 48' 2.2\" N"));
+    // decreasing depth normalised to increasing.
+    let ex2 = read("ex2_1044839000.las");
+    assert!(ex2.index_reversed);
+    assert!(ex2.index().windows(2).all(|w| w[1] > w[0]));
+    // duplicate mnemonics kept and renamed, with a warning naming the line.
+    assert!(ex2.curve_position("NPHI_LIM_2").is_some());
+    assert!(
+        ex2.warnings
+            .iter()
+            .any(|w| w.message == "curve NPHI_LIM appears again; this one is named NPHI_LIM_2")
+    );
+    // header inconsistent with data (PROVENANCE.md): three warnings with lines.
+    let p = read("Pechelbronn.las");
+    let w: Vec<String> = p.warnings.iter().map(ToString::to_string).collect();
+    assert_eq!(
+        w,
+        vec![
+            "line 8: STRT is 279 but the index starts at 139",
+            "line 9: STOP is 129 but the index ends at 279",
+            "line 10: STEP is 0.125 but the index steps by 1",
+        ]
+    );
+    // wrapped CWLS example: 36 curves, 2 steps; RHOB unit `K/M` as distributed.
+    let s = read("sample_2.0_wrapped.las");
+    assert!(s.wrapped);
+    assert_eq!(s.curves.len(), 36);
+    assert_eq!(
+        s.curves[s.curve_position("RHOB").expect("RHOB")].unit,
+        "K/M"
+    );
+    // non-standard NULL -99999 applied.
+    let sa = read("6038187_v1.2.las");
+    assert_eq!(sa.null_value, Some(-99999.0));
+    assert!(
+        sa.curve_data("NEUT")
+            .expect("NEUT")
+            .iter()
+            .any(|v| v.is_nan())
+    );
+}
+
+/// Strict mode turns header contradictions into errors with the line.
+#[test]
+fn strict_mode_refuses_contradictions() {
+    let p = shared().join("las-samples").join("Pechelbronn.las");
+    let bytes = std::fs::read(p).expect("readable");
+    let err = read_bytes(
+        &bytes,
+        Path::new("Pechelbronn.las"),
+        ReadOptions { strict: true },
+    )
+    .expect_err("contradiction");
+    assert_eq!(
+        chain(&err),
+        "Pechelbronn.las:8: STRT is 279 but the index starts at 139"
+    );
+}
