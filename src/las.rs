@@ -572,26 +572,29 @@ impl Reader<'_> {
         if names.len() < 2 || strip(names[0]) != curves[0].original_mnemonic.to_ascii_uppercase() {
             return Ok(());
         }
-        let same = names.len() == curves.len()
-            && names
-                .iter()
-                .zip(curves)
-                .all(|(n, c)| strip(n) == c.original_mnemonic.to_ascii_uppercase());
-        if !same {
-            let declared: Vec<&str> = curves
-                .iter()
-                .map(|c| c.original_mnemonic.as_str())
-                .collect();
-            self.contradiction(
-                Some(line),
-                format!(
-                    "~A line names {} columns ({}) but ~C declares {} ({})",
-                    names.len(),
-                    names.join(" "),
-                    curves.len(),
-                    declared.join(" ")
-                ),
-            )?;
+        let matches = |n: &str, c: &CurveInfo| {
+            n.eq_ignore_ascii_case(&c.original_mnemonic)
+                || strip(n) == c.original_mnemonic.to_ascii_uppercase()
+        };
+        if names.len() != curves.len() {
+            let message = format!(
+                "~A line names {} columns but ~C declares {} curves",
+                names.len(),
+                curves.len()
+            );
+            self.contradiction(Some(line), message)?;
+        } else if let Some((k, (n, c))) = names
+            .iter()
+            .zip(curves)
+            .enumerate()
+            .find(|(_, (n, c))| !matches(n, c))
+        {
+            let message = format!(
+                "~A line names column {} `{n}` where ~C declares `{}`",
+                k + 1,
+                c.original_mnemonic
+            );
+            self.contradiction(Some(line), message)?;
         }
         Ok(())
     }

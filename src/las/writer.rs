@@ -67,10 +67,16 @@ fn header_line(
     value: &str,
     description: &str,
 ) -> io::Result<()> {
-    let left = format!(" {}.{}", clean_mnemonic(mnemonic), unit.replace(' ', "_"));
+    // a space before the dot keeps a unit that starts with a dot (`.1IN`) apart
+    // from the mnemonic for readers that split on a run of dots
+    let left = format!(
+        " {:<8} .{}",
+        clean_mnemonic(mnemonic),
+        unit.replace(' ', "_")
+    );
     writeln!(
         out,
-        "{left:<16} {value:<28} : {}",
+        "{left:<20} {value:<28} : {}",
         clean_description(description)
     )
 }

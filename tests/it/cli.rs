@@ -1,1 +1,213 @@
-// todo
+//! The binary as a user runs it: help text, exit codes, stdout for data and
+//! stderr for messages, and the files each command writes.
+
+use crate::common::{flowzone, root, shared};
+
+#[test]
+fn every_command_has_help() {
+    for cmd in [
+        &["--help"][..],
+        &["inspect", "--help"],
+        &["export", "--help"],
+        &["run", "--help"],
+        &["demo", "--help"],
+    ] {
+        let out = flowzone().args(cmd).output().expect("runs");
+        assert!(out.status.success(), "{cmd:?}");
+        let text = String::from_utf8_lossy(&out.stdout);
+        assert!(text.contains("Usage: flowzone"), "{cmd:?}: {text}");
+    }
+}
+
+/// Good files are reported on stdout, bad ones refused on stderr with file:line,
+/// and the exit code says that something failed.
+#[test]
+fn inspect_reports_good_files_and_refuses_bad_ones() {
+    let good = root().join("tests/data/las/header-traps.las");
+    let bad = root().join("tests/data/las-bad/text-in-column.las");
+    let out = flowzone()
+        .arg("inspect")
+        .arg(&good)
+        .arg(&bad)
+        .output()
+        .expect("runs");
+    assert_eq!(out.status.code(), Some(2));
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(stdout.contains("TRAP 1-2"), "{stdout}");
+    assert!(
+        stdout.contains("1000 to 1001 FT , 3 rows, step 0.5 (regular)"),
+        "{stdout}"
+    );
+    assert_eq!(
+        stderr.lines().collect::<Vec<_>>(),
+        vec![
+            format!(
+                "error: {}:17: value 2 of the row, `abc`, is not a number",
+                bad.display()
+            ),
+            "error: 1 of 2 files failed".to_string(),
+        ]
+    );
+}
+
+#[test]
+fn inspect_json_is_machine_readable() {
+    let f = root().join("tests/data/las/irregular-decreasing-duplicates.las");
+    let out = flowzone()
+        .args(["inspect", "--json"])
+        .arg(&f)
+        .output()
+        .expect("runs");
+    assert!(out.status.success());
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).expect("JSON on stdout");
+    let s = &v[0];
+    assert_eq!(s["rows"], 3);
+    assert_eq!(s["index_reversed"], true);
+    assert_eq!(s["step_regular"], false);
+    assert_eq!(s["curves"][1]["mnemonic"], "NPHI");
+    // one of three NPHI samples is NULL
+    assert!((s["curves"][1]["null_fraction"].as_f64().expect("number") - 1.0 / 3.0).abs() < 1e-12);
+    assert_eq!(s["warnings"][0]["line"], 14);
+}
+
+/// `export` writes one file per input in each format, values as read.
+#[test]
+fn export_csv_las_parquet() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let src = shared().join("las-samples/multi_channel.las");
+    for format in ["csv", "las", "parquet"] {
+        let out = flowzone()
+            .args(["export", "--format", format, "--out"])
+            .arg(dir.path())
+            .arg(&src)
+            .output()
+            .expect("runs");
+        assert!(
+            out.status.success(),
+            "{format}: {}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        assert!(
+            out.stdout.is_empty(),
+            "data goes to files, messages to stderr"
+        );
+        assert!(dir.path().join(format!("multi_channel.{format}")).is_file());
+    }
+    let ours =
+        flowzone::las::read_path(&src, flowzone::las::ReadOptions::default()).expect("readable");
+    // CSV: header = mnemonics, values parse back to what was read
+    let csv = std::fs::read_to_string(dir.path().join("multi_channel.csv")).expect("csv");
+    let mut lines = csv.lines();
+    let header: Vec<&str> = lines.next().expect("header").split(',').collect();
+    assert_eq!(
+        header,
+        ours.curves
+            .iter()
+            .map(|c| c.mnemonic.as_str())
+            .collect::<Vec<_>>()
+    );
+    for (r, line) in lines.enumerate() {
+        for (c, field) in line.split(',').enumerate() {
+            let v: f64 = field.parse().expect("number");
+            assert_eq!(v, ours.columns[c][r], "row {r} col {c}");
+        }
+    }
+    // Parquet: read back with polars
+    use polars::prelude::{ParquetReader, SerReader};
+    let file = std::fs::File::open(dir.path().join("multi_channel.parquet")).expect("parquet");
+    let df = ParquetReader::new(file).finish().expect("valid parquet");
+    assert_eq!(df.height(), ours.n_rows());
+    assert_eq!(df.width(), ours.curves.len());
+    // an input is never overwritten: exporting LAS into its own folder is refused
+    let copy_dir = tempfile::tempdir().expect("temp dir");
+    let copy = copy_dir.path().join("w.las");
+    std::fs::copy(&src, &copy).expect("copy");
+    let before = std::fs::read(&copy).expect("read");
+    let out = flowzone()
+        .args(["export", "--format", "las", "--out"])
+        .arg(copy_dir.path())
+        .arg(&copy)
+        .output()
+        .expect("runs");
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("would overwrite the input"));
+    assert_eq!(std::fs::read(&copy).expect("read"), before);
+}
+
+/// `run` with a config: per-well outputs, a summary, one bad well reported
+/// without stopping the others, exit code 2 unless --keep-going.
+#[test]
+fn run_isolates_a_bad_well() {
+    let wells = tempfile::tempdir().expect("temp dir");
+    std::fs::copy(
+        root().join("tests/data/las/header-traps.las"),
+        wells.path().join("a.las"),
+    )
+    .expect("copy");
+    std::fs::copy(
+        root().join("tests/data/las-bad/truncated-row.las"),
+        wells.path().join("b.las"),
+    )
+    .expect("copy");
+    std::fs::copy(
+        root().join("tests/data/las/las12.las"),
+        wells.path().join("c.las"),
+    )
+    .expect("copy");
+    let cfg = wells.path().join("project.toml");
+    std::fs::write(&cfg, "[project]\nname = \"t\"\n[input]\nwells = [\".\"]\n").expect("config");
+    // the output may not be inside an input folder
+    let out = flowzone()
+        .args(["run", "--quiet", "--config"])
+        .arg(&cfg)
+        .arg("--out")
+        .arg(wells.path().join("out"))
+        .output()
+        .expect("runs");
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("is inside the input folder"));
+
+    let out_dir = tempfile::tempdir().expect("temp dir");
+    let out = flowzone()
+        .args(["run", "--quiet", "--config"])
+        .arg(&cfg)
+        .arg("--out")
+        .arg(out_dir.path())
+        .output()
+        .expect("runs");
+    assert_eq!(
+        out.status.code(),
+        Some(2),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let summary: serde_json::Value = serde_json::from_slice(
+        &std::fs::read(out_dir.path().join("run-summary.json")).expect("summary"),
+    )
+    .expect("json");
+    assert_eq!(summary["wells_total"], 3);
+    assert_eq!(summary["wells_failed"], 1);
+    assert_eq!(summary["wells"][1]["ok"], false);
+    assert!(
+        summary["wells"][1]["error"]
+            .as_str()
+            .expect("error")
+            .ends_with("b.las:18: row has 2 values, ~C declares 3 curves")
+    );
+    // the good wells are written; c.las is in feet and converted to metres
+    let csv = std::fs::read_to_string(out_dir.path().join("wells/c.csv")).expect("c.csv");
+    let first: Vec<&str> = csv.lines().nth(1).expect("row").split(',').collect();
+    assert_eq!(csv.lines().next(), Some("DEPTH,GR"));
+    // 48.5 ft = 14.7828 m exactly (1 ft = 0.3048 m), written to 4 decimals
+    assert_eq!(first, vec!["14.7828", "10.0000"]);
+    assert!(out_dir.path().join("wells/a.las").is_file());
+    let keep = flowzone()
+        .args(["run", "--quiet", "--keep-going", "--config"])
+        .arg(&cfg)
+        .arg("--out")
+        .arg(out_dir.path())
+        .output()
+        .expect("runs");
+    assert_eq!(keep.status.code(), Some(0));
+}

@@ -78,7 +78,7 @@ const BAD: &[(&str, &str)] = &[
 const WARN: &[(&str, &[&str])] = &[
     (
         "a-names-disagree.las",
-        &["line 15: ~A line names 3 columns (DEPT RHOB GR) but ~C declares 3 (DEPT GR RHOB)"],
+        &["line 15: ~A line names column 2 `RHOB` where ~C declares `GR`"],
     ),
     (
         "index-not-first.las",

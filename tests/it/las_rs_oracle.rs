@@ -1,1 +1,40 @@
-// todo
+//! las_rs 0.2.1 (crates.io), an independent Rust LAS reader, as a second
+//! oracle on well-formed files: the same curves and the same values. It is
+//! used only here, because it misreads several layouts our reader handles
+//! (see DEVELOPERS.md, "The LAS reader").
+
+use flowzone::las::{ReadOptions, read_path};
+
+use crate::common::{assert_same_values, chain, root, shared};
+
+#[test]
+fn las_rs_agrees_on_well_formed_files() {
+    let files = [
+        shared().join("las-samples/6038187_v1.2.las"),
+        shared().join("las-samples/ex7_1045627887.las"),
+        shared().join("las-samples/F02-1_logs.las"),
+        shared().join("las-samples/00-10-26-083-05W4-0.LAS"),
+        shared().join("las-samples/multi_channel.las"),
+        root().join("tests/data/las/irregular-decreasing-duplicates.las"),
+    ];
+    for path in files {
+        let ours =
+            read_path(&path, ReadOptions::default()).unwrap_or_else(|e| panic!("{}", chain(&e)));
+        let theirs = las_rs::read_file(&path)
+            .unwrap_or_else(|e| panic!("las_rs: {}: {e:?}", path.display()));
+        let names = theirs.curve_mnemonics();
+        assert_eq!(names.len(), ours.curves.len(), "{}", path.display());
+        for (i, name) in names.iter().enumerate() {
+            let mut v = theirs.curve_data(name).expect("curve data").to_vec();
+            if ours.index_reversed {
+                v.reverse();
+            }
+            assert_same_values(
+                &format!("{} {name}", path.display()),
+                &ours.columns[i],
+                &v,
+                1e-12,
+            );
+        }
+    }
+}

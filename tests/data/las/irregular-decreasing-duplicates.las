@@ -1,0 +1,18 @@
+# LAS 2.0 (CWLS 2014): STEP 0 for irregular spacing, decreasing depth normalised to increasing, a repeated mnemonic renamed
+~V
+ VERS. 2.0 : CWLS LOG ASCII STANDARD - VERSION 2.0
+ WRAP. NO  : ONE LINE PER DEPTH STEP
+~W
+ STRT.M 1503.0 : START DEPTH
+ STOP.M 1500.0 : STOP DEPTH
+ STEP.M 0      : STEP
+ NULL.  -999.25 : NULL VALUE
+ WELL.  IRREGULAR 1 : WELL
+~C
+ DEPT.M : DEPTH
+ NPHI.PU : NEUTRON LIMESTONE
+ NPHI.PU : NEUTRON SANDSTONE
+~A
+1503.0 20.0 22.0
+1502.2 21.0 23.0
+1500.0 -999.25 24.0
