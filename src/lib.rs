@@ -26,12 +26,18 @@ pub mod cli;
 pub mod config;
 pub mod curves;
 pub mod demo;
+pub mod depth;
 pub mod error;
 pub mod export;
 pub mod field;
 pub mod inspect;
 pub mod las;
 pub mod output;
+pub mod petro;
+pub mod saturation;
 pub mod synth;
 pub mod units;
 pub mod well;
+
+#[cfg(test)]
+mod testutil;
