@@ -1,6 +1,128 @@
-//! Writes the demo field.
-use crate::error::Error;
+//! `flowzone demo`: writes the invented demo field (see `demo-wells/README.md`)
+//! from the synthetic forward model in [`crate::synth`]: one LAS 2.0 file per
+//! well, the CSV tables (core, capillary pressure, pressures, zone tops,
+//! survey), the model's truth per well under `truth/`, and the README.
+
+use std::io::Write as _;
 use std::path::Path;
-pub fn write_demo(_out: &Path, _seed: u64) -> Result<(), Error> {
-    Err(Error::Usage("not yet".into()))
+
+use crate::error::Error;
+use crate::las::{CurveInfo, HeaderItem, writer};
+use crate::output::{OutColumn, Table, write_atomic, write_csv};
+use crate::synth::{self, HeaderEntry, SynthCurve, SynthWell};
+
+fn item(h: &HeaderEntry) -> HeaderItem {
+    HeaderItem {
+        mnemonic: h.mnemonic.clone(),
+        unit: h.unit.clone(),
+        value: h.value.clone(),
+        description: h.description.clone(),
+        line: 0,
+    }
+}
+
+fn curve_info(mnemonic: &str, unit: &str, description: &str) -> CurveInfo {
+    CurveInfo {
+        mnemonic: mnemonic.into(),
+        original_mnemonic: mnemonic.into(),
+        unit: unit.into(),
+        api_code: String::new(),
+        description: description.into(),
+        line: 0,
+    }
+}
+
+/// The well as a LAS file, and the precision of each column.
+pub fn well_las(w: &SynthWell) -> (crate::las::LasFile, Vec<usize>) {
+    let depth_decimals = 4;
+    let mut curves = vec![(
+        curve_info("DEPT", &w.depth_unit, "MEASURED DEPTH"),
+        w.depth.clone(),
+    )];
+    let mut decimals = vec![depth_decimals];
+    for c in &w.curves {
+        curves.push((
+            curve_info(&c.mnemonic, &c.unit, &c.description),
+            c.values.clone(),
+        ));
+        decimals.push(c.decimals);
+    }
+    let file = writer::new_file(
+        w.well_items.iter().map(item).collect(),
+        w.params.iter().map(item).collect(),
+        curves,
+    );
+    (file, decimals)
+}
+
+fn truth_table(w: &SynthWell) -> Table {
+    let mut columns = vec![OutColumn {
+        name: "DEPTH".into(),
+        unit: w.depth_unit.clone(),
+        description: "MEASURED DEPTH".into(),
+        values: w.depth.clone(),
+    }];
+    columns.extend(w.truth.iter().map(|c: &SynthCurve| OutColumn {
+        name: c.mnemonic.clone(),
+        unit: c.unit.clone(),
+        description: c.description.clone(),
+        values: c.values.clone(),
+    }));
+    Table {
+        columns,
+        ..Table::default()
+    }
+}
+
+/// Write the demo field into `out`.
+pub fn write_demo(out: &Path, seed: u64) -> Result<(), Error> {
+    let io = |path: &Path| {
+        let path = path.to_path_buf();
+        move |source| Error::Io { path, source }
+    };
+    let field = synth::generate(seed);
+    for sub in ["", "surveys", "truth"] {
+        let d = out.join(sub);
+        std::fs::create_dir_all(&d).map_err(io(&d))?;
+    }
+    for w in &field.wells {
+        let (las, decimals) = well_las(w);
+        let path = out.join(format!("{}.las", w.file_stem));
+        write_atomic(&path, |f| {
+            writer::write_las(f, &las, &decimals).map_err(|source| crate::output::OutputError::Io {
+                path: path.clone(),
+                source,
+            })
+        })?;
+        write_csv(
+            &truth_table(w),
+            &out.join("truth").join(format!("{}.csv", w.file_stem)),
+            Some(6),
+        )?;
+    }
+    for (name, text) in &field.tables {
+        let path = out.join(name);
+        write_atomic(&path, |f| {
+            f.write_all(text.as_bytes())
+                .map_err(|source| crate::output::OutputError::Io {
+                    path: path.clone(),
+                    source,
+                })
+        })?;
+    }
+    let readme = out.join("README.md");
+    let text = synth::scenario_markdown(&field);
+    write_atomic(&readme, |f| {
+        f.write_all(text.as_bytes())
+            .map_err(|source| crate::output::OutputError::Io {
+                path: readme.clone(),
+                source,
+            })
+    })?;
+    eprintln!(
+        "wrote the demo field ({} wells, seed {seed}) to {}",
+        field.wells.len(),
+        out.display()
+    );
+    Ok(())
 }

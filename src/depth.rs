@@ -9,7 +9,7 @@
 //! All lengths in one unit (the project's depth unit).
 
 /// Dogleg below which the ratio factor is taken as 1 (radians).
-const SMALL_DOGLEG: f64 = 1e-9;
+const SMALL_DOGLEG: f64 = 1e-6;
 
 /// A directional survey: stations of MD (project depth unit), inclination and
 /// azimuth (degrees).
@@ -24,7 +24,8 @@ pub struct Survey {
 /// station (a survey starts vertical at the top).
 ///
 /// Between stations 1 and 2: ΔTVD = ΔMD/2·(cos I1 + cos I2)·RF, where the dogleg
-/// β = acos(cos(I2 − I1) − sin I1·sin I2·(1 − cos(A2 − A1))) and the ratio
+/// β = acos(cos(I2 − I1) − sin I1·sin I2·(1 − cos(A2 − A1))) (computed in the
+/// equivalent haversine form) and the ratio
 /// factor RF = (2/β)·tan(β/2) (RF → 1 as β → 0).
 ///
 /// # Source
