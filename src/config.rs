@@ -48,6 +48,12 @@ pub struct Config {
     pub output: Output,
     #[serde(default)]
     pub curves: Curves,
+    #[serde(default)]
+    pub depth: DepthConfig,
+    #[serde(default)]
+    pub zones: ZonesConfig,
+    #[serde(default)]
+    pub parameters: crate::params::Parameters,
     /// The folder the config file is in; relative paths start here.
     #[serde(skip)]
     pub base_dir: PathBuf,
@@ -156,6 +162,55 @@ pub struct Curves {
     pub units: BTreeMap<String, String>,
 }
 
+/// `[depth]`: how measured depth becomes TVD and TVDSS.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct DepthConfig {
+    /// ~P/~W mnemonics tried, in order, for the elevation of the depth reference
+    /// above sea level (kelly bushing, drill floor, ground). Default EKB, KB,
+    /// EREF, EDF, DFE, ELEV, EGL, GL.
+    #[serde(default = "default_elevation_mnemonics")]
+    pub elevation_mnemonics: Vec<String>,
+    /// Per-well settings, by well name.
+    #[serde(default)]
+    pub well: BTreeMap<String, WellDepth>,
+}
+
+fn default_elevation_mnemonics() -> Vec<String> {
+    ["EKB", "KB", "EREF", "EDF", "DFE", "ELEV", "EGL", "GL"]
+        .iter()
+        .map(|s| s.to_string())
+        .collect()
+}
+
+impl Default for DepthConfig {
+    fn default() -> Self {
+        DepthConfig {
+            elevation_mnemonics: default_elevation_mnemonics(),
+            well: BTreeMap::new(),
+        }
+    }
+}
+
+/// `[depth.well."NAME"]`
+#[derive(Debug, Clone, Deserialize, Default)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct WellDepth {
+    /// Elevation of the depth reference above sea level, in the project's depth
+    /// unit; overrides the header.
+    pub elevation: Option<f64>,
+    /// Directional survey CSV with columns MD_M or MD_FT, INC_DEG, AZI_DEG.
+    pub survey: Option<PathBuf>,
+}
+
+/// `[zones]`
+#[derive(Debug, Clone, Deserialize, Default)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct ZonesConfig {
+    /// Zone-tops CSV with columns WELL, ZONE, TOP_MD and optional DEPTH_UNIT (m or ft).
+    pub tops: Option<PathBuf>,
+}
+
 impl Config {
     /// Read and validate a config file.
     pub fn load(path: &Path) -> Result<Config, ConfigError> {
@@ -191,6 +246,9 @@ impl Config {
                 "output.decimals",
                 format!("{} is more than 10", self.output.decimals),
             ));
+        }
+        if let Err((key, message)) = self.parameters.validate() {
+            return Err(invalid(&key, message));
         }
         for (curve, list) in &self.curves.aliases {
             if list.is_empty() {

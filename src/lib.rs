@@ -33,11 +33,15 @@ pub mod field;
 pub mod inspect;
 pub mod las;
 pub mod output;
+pub mod params;
 pub mod petro;
 pub mod saturation;
+pub mod stages;
 pub mod synth;
+pub mod tables;
 pub mod units;
 pub mod well;
+pub mod zones;
 
 #[cfg(test)]
 mod testutil;

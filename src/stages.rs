@@ -1,0 +1,443 @@
+//! The per-well petrophysics chain: quality flags, shale volume, porosity,
+//! formation water and water saturation, applied depth by depth over slices.
+//!
+//! Input: curves in canonical units (GR gAPI, RHOB g/cm3, NPHI v/v, DT us/ft,
+//! RT ohm.m, CALI/BS in), TVD in metres for temperature, the zone of each
+//! sample and the resolved parameters of each zone.
+//! Output: VSH, PHIT, PHIE, SW, BVW (fractions v/v) and the FLAG curve, plus
+//! counts of what was clipped, flagged or undefined.
+//!
+//! Formulas are in [`crate::petro`] and [`crate::saturation`]; this module
+//! only applies them, clips to physical bounds (counting every clip) and
+//! flags. No allocation per sample: one output vector per curve.
+
+use serde::Serialize;
+
+use crate::params::{PorosityMethod, ZoneParams};
+use crate::petro::porosity::{
+    density_porosity, neutron_density_porosity, neutron_density_porosity_gas,
+    shale_corrected_porosity, sonic_porosity_rhg, sonic_porosity_wyllie,
+};
+use crate::petro::shale::{gamma_ray_index, shale_volume_neutron_density};
+use crate::petro::water::rw_at_temperature;
+use crate::saturation::bulk_volume_water;
+
+/// FLAG bit: caliper exceeds bit size by more than the bad-hole tolerance.
+pub const FLAG_BAD_HOLE: u32 = 1;
+/// FLAG bit: an input curve is outside its physical range (the sample is not interpreted).
+pub const FLAG_OUT_OF_RANGE: u32 = 2;
+/// FLAG bit: an input the chain needs is missing at this depth.
+pub const FLAG_MISSING_INPUT: u32 = 4;
+/// FLAG bit: the depth is outside every zone (not interpreted).
+pub const FLAG_OUTSIDE_ZONE: u32 = 8;
+/// FLAG bit: a computed value was clipped to its physical bounds.
+pub const FLAG_CLIPPED: u32 = 16;
+
+/// Physical ranges of input curves (common practice: values outside cannot be
+/// measurements of rock and usually mark tool or depth-matching problems).
+pub const RANGE_GR_GAPI: (f64, f64) = (0.0, 1000.0);
+pub const RANGE_RHOB_GCC: (f64, f64) = (1.0, 3.2);
+pub const RANGE_NPHI_VV: (f64, f64) = (-0.15, 1.0);
+pub const RANGE_DT_USFT: (f64, f64) = (40.0, 250.0);
+pub const RANGE_RT_OHMM: (f64, f64) = (0.01, 100_000.0);
+
+/// The input curves of one well, canonical units; absent curves are `None`.
+#[derive(Debug, Clone, Copy, Default)]
+pub struct Inputs<'a> {
+    pub gr: Option<&'a [f64]>,
+    pub rhob: Option<&'a [f64]>,
+    pub nphi: Option<&'a [f64]>,
+    pub dt: Option<&'a [f64]>,
+    pub rt: Option<&'a [f64]>,
+    pub cali: Option<&'a [f64]>,
+    pub bs: Option<&'a [f64]>,
+    /// True vertical depth below the surface, m (for temperature).
+    pub tvd_m: &'a [f64],
+}
+
+/// One zone as the chain sees it: resolved parameters and the gamma-ray picks.
+#[derive(Debug, Clone, Serialize)]
+pub struct ZoneSetup {
+    pub name: String,
+    pub params: ZoneParams,
+    /// Clean and shale gamma ray used, gAPI.
+    pub gr_clean_gapi: f64,
+    pub gr_shale_gapi: f64,
+    /// Whether the values above were picked from the well's GR (percentiles).
+    pub gr_picked: bool,
+    /// Geothermal gradient used, °C/m, when Rw is carried to formation temperature.
+    pub gradient_c_per_m: Option<f64>,
+}
+
+/// What the chain clipped, flagged and could not define.
+#[derive(Debug, Clone, Default, PartialEq, Eq, Serialize)]
+pub struct Counts {
+    pub samples: usize,
+    pub vsh_clipped: usize,
+    pub phit_clipped: usize,
+    pub phie_clipped: usize,
+    pub sw_clipped: usize,
+    pub bad_hole: usize,
+    pub out_of_range: usize,
+    pub missing_input: usize,
+    pub outside_zone: usize,
+    /// SW undefined by the method (zero effective porosity), not missing in the file.
+    pub sw_undefined: usize,
+}
+
+/// The chain's output curves.
+#[derive(Debug, Clone, Default)]
+pub struct Outputs {
+    pub vsh: Vec<f64>,
+    pub phit: Vec<f64>,
+    pub phie: Vec<f64>,
+    pub sw: Vec<f64>,
+    pub bvw: Vec<f64>,
+    pub flag: Vec<u32>,
+    pub counts: Counts,
+}
+
+/// Clip `v` to [lo, hi]; returns the value and whether it was clipped. NaN passes.
+#[inline]
+fn clip(v: f64, lo: f64, hi: f64) -> (f64, bool) {
+    if v < lo {
+        (lo, true)
+    } else if v > hi {
+        (hi, true)
+    } else {
+        (v, false)
+    }
+}
+
+#[inline]
+fn at(c: Option<&[f64]>, i: usize) -> f64 {
+    c.map_or(f64::NAN, |c| c[i])
+}
+
+#[inline]
+fn outside(v: f64, r: (f64, f64)) -> bool {
+    v.is_finite() && (v < r.0 || v > r.1)
+}
+
+/// Percentile (0-100) of the finite values, by linear interpolation between
+/// order statistics; NaN when there are none.
+pub fn percentile(values: &[f64], p: f64) -> f64 {
+    let mut v: Vec<f64> = values.iter().copied().filter(|x| x.is_finite()).collect();
+    if v.is_empty() {
+        return f64::NAN;
+    }
+    v.sort_by(f64::total_cmp);
+    let pos = p / 100.0 * (v.len() - 1) as f64;
+    let lo = pos.floor() as usize;
+    let hi = pos.ceil() as usize;
+    v[lo] + (pos - lo as f64) * (v[hi] - v[lo])
+}
+
+/// Run the chain. `zone_of[i]` indexes `zones`, or is `None` outside every zone.
+pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) -> Outputs {
+    let n = zone_of.len();
+    let mut out = Outputs {
+        vsh: Vec::with_capacity(n),
+        phit: Vec::with_capacity(n),
+        phie: Vec::with_capacity(n),
+        sw: Vec::with_capacity(n),
+        bvw: Vec::with_capacity(n),
+        flag: Vec::with_capacity(n),
+        counts: Counts {
+            samples: n,
+            ..Counts::default()
+        },
+    };
+    let c = &mut out.counts;
+    for i in 0..n {
+        let mut flag = 0u32;
+        let (gr, rhob, nphi, dt, rt) = (
+            at(inputs.gr, i),
+            at(inputs.rhob, i),
+            at(inputs.nphi, i),
+            at(inputs.dt, i),
+            at(inputs.rt, i),
+        );
+        let Some(z) = zone_of[i].and_then(|z| zones.get(usize::from(z))) else {
+            c.outside_zone += 1;
+            out.vsh.push(f64::NAN);
+            out.phit.push(f64::NAN);
+            out.phie.push(f64::NAN);
+            out.sw.push(f64::NAN);
+            out.bvw.push(f64::NAN);
+            out.flag.push(FLAG_OUTSIDE_ZONE);
+            continue;
+        };
+        let p = &z.params;
+        let bs = match inputs.bs {
+            Some(b) => b[i],
+            None => p.bit_size_in.unwrap_or(f64::NAN),
+        };
+        let cali = at(inputs.cali, i);
+        if cali.is_finite() && bs.is_finite() && cali - bs > p.bad_hole_in {
+            flag |= FLAG_BAD_HOLE;
+            c.bad_hole += 1;
+        }
+        let uses_density = matches!(
+            p.porosity_method,
+            PorosityMethod::Density
+                | PorosityMethod::NeutronDensity
+                | PorosityMethod::NeutronDensityGas
+        ) || p.neutron_density_shale;
+        let uses_neutron = matches!(
+            p.porosity_method,
+            PorosityMethod::NeutronDensity | PorosityMethod::NeutronDensityGas
+        ) || p.neutron_density_shale;
+        let uses_sonic = matches!(
+            p.porosity_method,
+            PorosityMethod::SonicWyllie | PorosityMethod::SonicRhg
+        );
+        let bad = outside(gr, RANGE_GR_GAPI)
+            || (uses_density && outside(rhob, RANGE_RHOB_GCC))
+            || (uses_neutron && outside(nphi, RANGE_NPHI_VV))
+            || (uses_sonic && outside(dt, RANGE_DT_USFT))
+            || outside(rt, RANGE_RT_OHMM);
+        if bad {
+            flag |= FLAG_OUT_OF_RANGE;
+            c.out_of_range += 1;
+        }
+        let missing = !gr.is_finite()
+            || !rt.is_finite()
+            || (uses_density && !rhob.is_finite())
+            || (uses_neutron && !nphi.is_finite())
+            || (uses_sonic && !dt.is_finite());
+        if missing {
+            flag |= FLAG_MISSING_INPUT;
+            c.missing_input += 1;
+        }
+        if bad {
+            out.vsh.push(f64::NAN);
+            out.phit.push(f64::NAN);
+            out.phie.push(f64::NAN);
+            out.sw.push(f64::NAN);
+            out.bvw.push(f64::NAN);
+            out.flag.push(flag);
+            continue;
+        }
+
+        // shale volume
+        let (igr, _) = clip(
+            gamma_ray_index(gr, z.gr_clean_gapi, z.gr_shale_gapi),
+            0.0,
+            1.0,
+        );
+        let mut vsh = p.shale_model.vsh(igr);
+        let phi_d = density_porosity(rhob, p.rho_matrix_gcc, p.rho_fluid_gcc);
+        let phi_d_sh = p.rho_shale_gcc.map_or(f64::NAN, |r| {
+            density_porosity(r, p.rho_matrix_gcc, p.rho_fluid_gcc)
+        });
+        if p.neutron_density_shale {
+            let v_nd = shale_volume_neutron_density(
+                nphi,
+                phi_d,
+                p.nphi_shale_vv.unwrap_or(f64::NAN),
+                phi_d_sh,
+            );
+            vsh = if vsh.is_nan() {
+                v_nd
+            } else if v_nd.is_nan() {
+                vsh
+            } else {
+                vsh.min(v_nd)
+            };
+        }
+        let (vsh, vc) = clip(vsh, 0.0, 1.0);
+        c.vsh_clipped += usize::from(vc);
+
+        // porosity
+        let (phit, phi_sh) = match p.porosity_method {
+            PorosityMethod::Density => (phi_d, phi_d_sh),
+            PorosityMethod::NeutronDensity => (
+                neutron_density_porosity(nphi, phi_d),
+                neutron_density_porosity(p.nphi_shale_vv.unwrap_or(f64::NAN), phi_d_sh),
+            ),
+            PorosityMethod::NeutronDensityGas => (
+                neutron_density_porosity_gas(nphi, phi_d),
+                neutron_density_porosity_gas(p.nphi_shale_vv.unwrap_or(f64::NAN), phi_d_sh),
+            ),
+            PorosityMethod::SonicWyllie => (
+                sonic_porosity_wyllie(dt, p.dt_matrix_usft, p.dt_fluid_usft),
+                p.dt_shale_usft.map_or(f64::NAN, |d| {
+                    sonic_porosity_wyllie(d, p.dt_matrix_usft, p.dt_fluid_usft)
+                }),
+            ),
+            PorosityMethod::SonicRhg => (
+                sonic_porosity_rhg(dt, p.dt_matrix_usft, p.dt_fluid_usft),
+                p.dt_shale_usft.map_or(f64::NAN, |d| {
+                    sonic_porosity_rhg(d, p.dt_matrix_usft, p.dt_fluid_usft)
+                }),
+            ),
+        };
+        let (phit, tc) = clip(phit, 0.0, p.phi_max_vv);
+        c.phit_clipped += usize::from(tc);
+        let (phie, ec) = clip(shale_corrected_porosity(phit, vsh, phi_sh), 0.0, phit);
+        c.phie_clipped += usize::from(ec);
+
+        // formation water and saturation
+        let rw = match (p.rw_ohmm, p.rw_temperature_c, z.gradient_c_per_m) {
+            (Some(rw), Some(t_ref), Some(g)) => {
+                rw_at_temperature(rw, t_ref, p.surface_temperature_c + g * inputs.tvd_m[i])
+            }
+            (Some(rw), _, _) => rw,
+            (None, _, _) => f64::NAN,
+        };
+        let rsh = p.rsh_ohmm.unwrap_or(f64::NAN);
+        let sw_raw = if phie > 0.0 {
+            p.saturation_model.sw(phie, rt, rw, vsh, rsh, p.archie)
+        } else {
+            f64::NAN
+        };
+        if phie.is_finite() && phie <= 0.0 && rt.is_finite() {
+            c.sw_undefined += 1;
+        }
+        let (sw, sc) = clip(sw_raw, 0.0, 1.0);
+        c.sw_clipped += usize::from(sc);
+        if vc || tc || ec || sc {
+            flag |= FLAG_CLIPPED;
+        }
+        out.vsh.push(vsh);
+        out.phit.push(phit);
+        out.phie.push(phie);
+        out.sw.push(sw);
+        out.bvw.push(bulk_volume_water(phie, sw));
+        out.flag.push(flag);
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::params::ParamSet;
+    use crate::testutil::assert_close;
+
+    fn zone(p: ParamSet) -> ZoneSetup {
+        ZoneSetup {
+            name: "Z".into(),
+            params: p.resolve(),
+            gr_clean_gapi: 20.0,
+            gr_shale_gapi: 120.0,
+            gr_picked: false,
+            gradient_c_per_m: None,
+        }
+    }
+
+    /// Hand-computed chain at one depth: GR 70 → IGR 0.5 → VSH 0.5 (linear);
+    /// RHOB 2.32 → φD 0.2 (Rider's water sandstone, formulas.md §2.1);
+    /// ρsh 2.50 → φDsh 0.090909; PHIE = 0.2 − 0.5·0.090909 = 0.154545;
+    /// Archie a 1, m n 2, Rw 0.05, RT 10 → SW = sqrt(0.05/(0.1545455²·10)) = sqrt(0.209343) = 0.457540.
+    #[test]
+    fn one_depth_by_hand() {
+        let z = zone(ParamSet {
+            rw_ohmm: Some(0.05),
+            rho_shale_gcc: Some(2.50),
+            ..ParamSet::default()
+        });
+        let inputs = Inputs {
+            gr: Some(&[70.0]),
+            rhob: Some(&[2.32]),
+            rt: Some(&[10.0]),
+            tvd_m: &[2000.0],
+            ..Inputs::default()
+        };
+        let out = run(&inputs, &[Some(0)], &[z]);
+        assert_close(out.vsh[0], 0.5, 1e-12);
+        assert_close(out.phit[0], 0.2, 1e-12);
+        assert_close(out.phie[0], 0.2 - 0.5 * 0.15 / 1.65, 1e-12);
+        assert_close(
+            out.sw[0],
+            (0.05f64 / (out.phie[0].powi(2) * 10.0)).sqrt(),
+            1e-12,
+        );
+        assert_close(out.sw[0], 0.457540, 1e-6);
+        assert_close(out.bvw[0], out.phie[0] * out.sw[0], 1e-15);
+        assert_eq!(out.flag[0], 0);
+    }
+
+    #[test]
+    fn flags_and_counts() {
+        let z = zone(ParamSet {
+            rw_ohmm: Some(0.05),
+            rho_shale_gcc: Some(2.5),
+            bit_size_in: Some(8.5),
+            ..ParamSet::default()
+        });
+        let gr = [70.0, 70.0, 70.0, 70.0, 200.0];
+        let rhob = [2.32, 0.2, f64::NAN, 2.32, 2.32];
+        let rt = [0.2, 10.0, 10.0, 10.0, 10.0];
+        let cali = [8.5, 8.5, 8.5, 10.0, 8.5];
+        let inputs = Inputs {
+            gr: Some(&gr),
+            rhob: Some(&rhob),
+            rt: Some(&rt),
+            cali: Some(&cali),
+            tvd_m: &[0.0; 5],
+            ..Inputs::default()
+        };
+        let out = run(&inputs, &[Some(0), Some(0), Some(0), Some(0), None], &[z]);
+        // row 0: RT 0.2 makes SW > 1 → clipped to 1
+        assert_eq!(out.sw[0], 1.0);
+        assert_eq!(out.flag[0], FLAG_CLIPPED);
+        // row 1: RHOB 0.2 is outside 1.0-3.2 → not interpreted
+        assert_eq!(out.flag[1], FLAG_OUT_OF_RANGE);
+        assert!(out.phit[1].is_nan());
+        // row 2: RHOB missing
+        assert_eq!(out.flag[2] & FLAG_MISSING_INPUT, FLAG_MISSING_INPUT);
+        assert!(out.sw[2].is_nan());
+        // row 3: caliper 1.5 in over bit size
+        assert_eq!(out.flag[3], FLAG_BAD_HOLE);
+        // row 4: outside every zone, kept and marked
+        assert_eq!(out.flag[4], FLAG_OUTSIDE_ZONE);
+        assert_eq!(
+            out.counts,
+            Counts {
+                samples: 5,
+                sw_clipped: 1,
+                bad_hole: 1,
+                out_of_range: 1,
+                missing_input: 1,
+                outside_zone: 1,
+                ..Counts::default()
+            }
+        );
+    }
+
+    /// Rw carried to formation temperature by Arps: Rw 0.10 at 23.889 °C (75 °F),
+    /// surface 15 °C, gradient chosen so that T = 93.333 °C (200 °F) → Rw 0.039546
+    /// (formulas.md §3), so SW = sqrt(0.039546/(φ²·Rt)).
+    #[test]
+    fn rw_temperature_in_the_chain() {
+        let mut z = zone(ParamSet {
+            rw_ohmm: Some(0.10),
+            rw_temperature_c: Some((75.0 - 32.0) * 5.0 / 9.0),
+            rho_shale_gcc: Some(2.65),
+            surface_temperature_c: Some(15.0),
+            ..ParamSet::default()
+        });
+        let t = (200.0 - 32.0) * 5.0 / 9.0;
+        z.gradient_c_per_m = Some((t - 15.0) / 2000.0);
+        let inputs = Inputs {
+            gr: Some(&[20.0]),
+            rhob: Some(&[2.32]),
+            rt: Some(&[10.0]),
+            tvd_m: &[2000.0],
+            ..Inputs::default()
+        };
+        let out = run(&inputs, &[Some(0)], &[z]);
+        assert_close(out.sw[0], (0.039546f64 / (0.04 * 10.0)).sqrt(), 1e-5);
+    }
+
+    #[test]
+    fn percentiles() {
+        let v = [5.0, 1.0, f64::NAN, 3.0, 2.0, 4.0];
+        assert_eq!(percentile(&v, 0.0), 1.0);
+        assert_eq!(percentile(&v, 50.0), 3.0);
+        assert_eq!(percentile(&v, 100.0), 5.0);
+        assert_close(percentile(&v, 5.0), 1.2, 1e-12);
+    }
+}
