@@ -176,7 +176,7 @@ fn cmd_export(files: &[PathBuf], format: Format, out: &PathBuf, strict: bool) ->
 }
 
 fn cmd_run(
-    config_path: &PathBuf,
+    config_path: &std::path::Path,
     out: Option<PathBuf>,
     threads: Option<usize>,
     quiet: bool,

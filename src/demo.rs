@@ -61,12 +61,14 @@ fn truth_table(w: &SynthWell) -> Table {
         unit: w.depth_unit.clone(),
         description: "MEASURED DEPTH".into(),
         values: w.depth.clone(),
+        integer: false,
     }];
     columns.extend(w.truth.iter().map(|c: &SynthCurve| OutColumn {
         name: c.mnemonic.clone(),
         unit: c.unit.clone(),
         description: c.description.clone(),
         values: c.values.clone(),
+        integer: c.mnemonic == "CLASS",
     }));
     Table {
         columns,

@@ -22,6 +22,7 @@ pub fn table_as_read(las: &LasFile) -> Table {
             unit: c.unit.clone(),
             description: c.description.clone(),
             values: v.clone(),
+            integer: false,
         })
         .collect();
     let skip = ["STRT", "STOP", "STEP", "NULL"];

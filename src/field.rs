@@ -27,6 +27,8 @@ pub struct WellReport {
     /// Logical curve, mnemonic used, unit as read.
     pub curves: Vec<(String, String, String)>,
     pub warnings: Vec<String>,
+    /// Depth reference, zones with their parameters and picks, and what was clipped or flagged.
+    pub stages: Option<well::WellReport>,
 }
 
 /// The run summary (also written as run-summary.json).
@@ -90,6 +92,7 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         .map(|p| config.resolve_path(p))
         .collect();
     check_out_dir(out, &inputs)?;
+    let ctx = well::RunContext::new(config.clone()).map_err(|e| Error::Usage(chain(&e)))?;
     let wells_dir = out.join("wells");
     std::fs::create_dir_all(&wells_dir).map_err(|source| Error::Io {
         path: wells_dir.clone(),
@@ -113,7 +116,7 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         .par_iter()
         .zip(stems.par_iter())
         .map(|(path, stem)| {
-            let report = one_well(path, stem, config, &wells_dir);
+            let report = one_well(path, stem, &ctx, &wells_dir);
             let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
             if progress {
                 let status = if report.ok { "ok" } else { "FAILED" };
@@ -141,7 +144,8 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
     Ok(summary)
 }
 
-fn one_well(path: &Path, stem: &str, config: &Config, dir: &Path) -> WellReport {
+fn one_well(path: &Path, stem: &str, ctx: &well::RunContext, dir: &Path) -> WellReport {
+    let config = &ctx.config;
     let mut report = WellReport {
         file: path.display().to_string(),
         well: None,
@@ -151,12 +155,14 @@ fn one_well(path: &Path, stem: &str, config: &Config, dir: &Path) -> WellReport 
         outputs: Vec::new(),
         curves: Vec::new(),
         warnings: Vec::new(),
+        stages: None,
     };
     let result: Result<(), WellError> = (|| {
-        let out = well::process(path, config)?;
+        let out = well::process(path, ctx)?;
         report.well = Some(out.name.clone());
         report.rows = out.table.n_rows();
         report.warnings = out.warnings.clone();
+        report.stages = Some(out.report.clone());
         report.curves = out
             .resolved
             .iter()

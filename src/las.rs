@@ -722,7 +722,7 @@ fn rows_hint(well: &[HeaderItem], data_len: usize, n_curves: usize, wrapped: boo
     if let (Some(a), Some(b), Some(s)) = (get("STRT"), get("STOP"), get("STEP")) {
         if s != 0.0 {
             let n = ((b - a) / s).round();
-            if n.is_finite() && n >= 0.0 && n < 1e8 {
+            if (0.0..1e8).contains(&n) {
                 return n as usize + 1;
             }
         }

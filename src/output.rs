@@ -40,6 +40,8 @@ pub struct OutColumn {
     pub description: String,
     /// Missing samples are NaN.
     pub values: Vec<f64>,
+    /// Whole numbers (flags, classes): written without decimals, as integers.
+    pub integer: bool,
 }
 
 /// A depth-indexed table: the first column is the index.
@@ -63,6 +65,20 @@ impl Table {
             .columns
             .iter()
             .map(|c| {
+                if c.integer {
+                    let v: Vec<Option<i64>> = c
+                        .values
+                        .iter()
+                        .map(|&x| {
+                            if x.is_finite() {
+                                Some(x.round() as i64)
+                            } else {
+                                None
+                            }
+                        })
+                        .collect();
+                    return Column::new(c.name.as_str().into(), v);
+                }
                 let v: Vec<Option<f64>> = c
                     .values
                     .iter()
@@ -161,7 +177,11 @@ pub fn write_las(table: &Table, path: &Path, decimals: Option<usize>) -> Result<
         .collect();
     let file = writer::new_file(table.well_items.clone(), table.params.clone(), curves);
     let precision: Vec<usize> = match decimals {
-        Some(d) => vec![d; table.columns.len()],
+        Some(d) => table
+            .columns
+            .iter()
+            .map(|c| if c.integer { 0 } else { d })
+            .collect(),
         None => Vec::new(),
     };
     write_atomic(path, |out| {
@@ -227,12 +247,14 @@ mod tests {
                     unit: "M".into(),
                     description: String::new(),
                     values: vec![1.0, 1.5],
+                    integer: false,
                 },
                 OutColumn {
                     name: "GR".into(),
                     unit: "GAPI".into(),
                     description: String::new(),
                     values: vec![f64::NAN, 0.21],
+                    integer: false,
                 },
             ],
             ..Table::default()

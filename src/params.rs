@@ -286,7 +286,7 @@ impl ParamSet {
             }
         }
         if let Some([lo, hi]) = self.gr_pick_percentiles {
-            if !(0.0..100.0).contains(&lo) || !(lo < hi && hi <= 100.0) {
+            if !(0.0..100.0).contains(&lo) || lo >= hi || hi > 100.0 || hi.is_nan() {
                 return Err((
                     key("gr-pick-percentiles"),
                     format!("[{lo}, {hi}] must satisfy 0 <= low < high <= 100"),

@@ -56,7 +56,8 @@ pub fn archie(phi: f64, rt: f64, rw: f64, p: ArchieParams) -> f64 {
 /// NaN if there is no root.
 fn bisect_increasing(f: impl Fn(f64) -> f64) -> f64 {
     let (mut lo, mut hi) = (0.0f64, 2.0f64);
-    if !(f(lo) <= 0.0) {
+    let f0 = f(lo);
+    if f0.is_nan() || f0 > 0.0 {
         return f64::NAN;
     }
     while f(hi) < 0.0 {
@@ -148,6 +149,7 @@ pub fn bulk_volume_water(phi: f64, sw: f64) -> f64 {
 pub enum SaturationModel {
     Archie,
     SimandouxModified,
+    #[serde(rename = "simandoux-1963")]
     Simandoux1963,
     Indonesia,
 }
@@ -215,7 +217,9 @@ mod tests {
     }
 
     /// Source: formulas.md §4.1 table, effect of n (a = 1, m = 2, Rw 0.05).
+    /// (0.70711 is a printed check value, not an approximation of 1/√2.)
     #[test]
+    #[allow(clippy::approx_constant)]
     fn archie_effect_of_n() {
         let rows = [
             (1.8, [0.31498, 0.29503, 0.68040]),

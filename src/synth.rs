@@ -432,12 +432,17 @@ fn dt_wyllie(vsh: f64, phie: f64) -> f64 {
     (1.0 - vsh - phie) * DT_MATRIX + vsh * DT_SHALE + phie * DT_FLUID
 }
 
-/// True resistivity (ohm·m): Archie (1942) sand R = a·Rw/(φ^m·Sw^n) in parallel
-/// conductance with shale: 1/Rt = (1−VSH)/R_sand + VSH/R_sh (a simple common-practice mix).
+/// True resistivity (ohm·m). Reservoir beds: the modified Simandoux relation
+/// (Bardon & Pied 1969, after Simandoux 1963; from memory), the product's default
+/// shaly-sand model, with the class's Archie exponents:
+/// 1/Rt = φ^m·Sw^n/(a·Rw·(1−VSH)) + VSH·Sw/R_sh. Shale beds (class 0): Rt = R_sh.
 fn rt_from_volumes(vsh: f64, phie: f64, sw: f64, class: u8) -> f64 {
+    if class == 0 {
+        return R_SH;
+    }
     let rc = rock(class);
-    let r_sand = ARCHIE_A * RW / (phie.powf(rc.m) * sw.powf(rc.n));
-    1.0 / ((1.0 - vsh) / r_sand + vsh / R_SH)
+    let sand = phie.powf(rc.m) * sw.powf(rc.n) / (ARCHIE_A * RW * (1.0 - vsh));
+    1.0 / (sand + vsh * sw / R_SH)
 }
 
 // ------------------------------------------------------------------ earth model
@@ -1121,7 +1126,7 @@ Class 1 is the poorest. Archie exponents follow common practice (near 2, lower f
 - Bulk density: volume mix of quartz matrix {RHO_MATRIX}, shale {RHO_SHALE} (including its bound water) and pore fluid Sw·{RHO_W} + (1−Sw)·{RHO_O} g/cc; flushed-zone invasion is ignored; noise σ {RHOB_NOISE} g/cc.\n\
 - Neutron (limestone units treated as v/v) = φe·(Sw + (1−Sw)·{HI_OIL}) + VSH·{NPHI_SHALE}; noise σ {NPHI_NOISE}.\n\
 - Sonic: Wyllie time average (Wyllie et al. 1956) with matrix {DT_MATRIX}, fluid {DT_FLUID}, shale {DT_SHALE} µs/ft; noise σ {DT_NOISE} µs/ft.\n\
-- Resistivity: Archie (1942) sand resistivity a·Rw/(φe^m·Sw^n), a = {ARCHIE_A}, Rw = {RW} ohm·m held constant at formation temperature, combined with shale R_sh = {R_SH} ohm·m in parallel conductance: 1/Rt = (1−VSH)/R_sand + VSH/R_sh (a simple common-practice mix, not a named shaly-sand model); multiplicative noise σ(ln Rt) = {RT_LN_NOISE}.\n\
+- Resistivity: Archie (1942) sand resistivity a·Rw/(φe^m·Sw^n), a = {ARCHIE_A}, Rw = {RW} ohm·m held constant at formation temperature, with shale R_sh = {R_SH} ohm·m by the modified Simandoux relation (Bardon & Pied 1969, after Simandoux 1963; from memory) in reservoir beds, 1/Rt = φe^m·Sw^n/(a·Rw·(1−VSH)) + VSH·Sw/R_sh, and Rt = R_sh in shale beds; multiplicative noise σ(ln Rt) = {RT_LN_NOISE}.\n\
 - Caliper: bit size {BIT_SIZE_IN} in, with 1-3 in washouts in about a quarter of the shale beds thicker than 1.5 m; noise σ {CAL_NOISE} in. Washouts do not disturb the other logs.\n\
 - Total porosity PHIT = PHIE + VSH·{PHI_SH_BOUND} (shale-bound porosity {PHI_SH_BOUND}).\n\
 - Temperature {T_SURFACE_C} °C at the surface (taken at sea level) plus {T_GRADIENT_C_PER_M} °C/m; BHT and RWT in the ~P section come from it.\n\
@@ -1237,10 +1242,14 @@ mod tests {
             let (sw, phie) = (truth(w, "SW"), truth(w, "PHIE"));
             let (vsh, class) = (truth(w, "VSH"), truth(w, "CLASS"));
             for (i, rt) in w.curves[4].values.iter().enumerate() {
-                // Archie sand in parallel with shale, recomputed here from the truth curves.
+                // modified Simandoux in reservoir beds, R_sh in shale, recomputed here from the truth curves
                 let rc = rock(class[i] as u8);
-                let r_sand = RW / (phie[i].powf(rc.m) * sw[i].powf(rc.n));
-                let model = 1.0 / ((1.0 - vsh[i]) / r_sand + vsh[i] / R_SH);
+                let model = if class[i] == 0.0 {
+                    R_SH
+                } else {
+                    1.0 / (phie[i].powf(rc.m) * sw[i].powf(rc.n) / (RW * (1.0 - vsh[i]))
+                        + vsh[i] * sw[i] / R_SH)
+                };
                 assert!(
                     (rt / model).ln().abs() < 6.0 * RT_LN_NOISE,
                     "{} {i}",

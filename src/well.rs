@@ -1,16 +1,26 @@
 //! One well through the stages: LAS file + config → output table.
 //!
-//! Stages so far: read the file, resolve the logical curves and convert them to
-//! canonical units. Each stage returns a `Result`, so that a bad well becomes a
-//! [`WellError`] for the field run to record, never a panic.
+//! Stages: read the file; resolve the logical curves and convert them to
+//! canonical units; depth reference (TVD, TVDSS); zones; parameters per zone
+//! (with gamma-ray picks); the petrophysics chain ([`crate::stages`]). Each
+//! stage returns a `Result`, so a bad well becomes a [`WellError`] for the
+//! field run to record, never a panic.
 
 use std::path::{Path, PathBuf};
 
+use serde::Serialize;
+
 use crate::config::Config;
 use crate::curves::{self, CurveError, LogicalCurve, ResolvedCurve};
+use crate::depth::{Survey, tvd_at};
 use crate::las::{self, LasError, LasFile, ReadOptions};
 use crate::output::{OutColumn, OutputError, Table};
-use crate::units::Quantity;
+use crate::params::PorosityMethod;
+use crate::saturation::SaturationModel;
+use crate::stages::{self, Counts, Inputs, ZoneSetup};
+use crate::tables::{TableError, read_csv};
+use crate::units::{DepthUnit, Quantity};
+use crate::zones::{self, Tops};
 
 /// Why a well failed.
 #[derive(Debug, thiserror::Error)]
@@ -23,8 +33,29 @@ pub enum WellError {
         #[source]
         source: CurveError,
     },
+    #[error("{}: zone `{zone}`: {message}", .path.display())]
+    Params {
+        path: PathBuf,
+        zone: String,
+        message: String,
+    },
+    #[error("{}: {message}", .path.display())]
+    Depth { path: PathBuf, message: String },
+    #[error(transparent)]
+    Table(#[from] TableError),
     #[error(transparent)]
     Output(#[from] OutputError),
+}
+
+/// What the stages did to a well, for the run summary.
+#[derive(Debug, Clone, Serialize, Default)]
+pub struct WellReport {
+    /// Elevation of the depth reference above sea level (project depth unit) and where it came from.
+    pub elevation: Option<f64>,
+    pub elevation_source: String,
+    pub deviated: bool,
+    pub zones: Vec<ZoneSetup>,
+    pub counts: Counts,
 }
 
 /// A well after the stages, ready to write.
@@ -34,54 +65,442 @@ pub struct WellOutput {
     pub table: Table,
     /// Warnings from reading and from the stages, as text.
     pub warnings: Vec<String>,
-    /// Mnemonic used for each logical curve found.
+    /// Mnemonic and unit used for each logical curve found.
     pub resolved: Vec<(LogicalCurve, String, String)>,
+    pub report: WellReport,
 }
 
-/// Curves a stage cannot run without (none yet: the later stages add theirs).
-pub const REQUIRED: [LogicalCurve; 0] = [];
+/// What every well of a run shares: the config and the tables it names.
+#[derive(Debug, Clone)]
+pub struct RunContext {
+    pub config: Config,
+    pub tops: Option<Tops>,
+}
+
+impl RunContext {
+    /// Load the tables the config names.
+    pub fn new(config: Config) -> Result<RunContext, TableError> {
+        let tops = match &config.zones.tops {
+            Some(p) => Some(Tops::read(
+                &config.resolve_path(p),
+                config.project.depth_unit,
+            )?),
+            None => None,
+        };
+        Ok(RunContext { config, tops })
+    }
+}
 
 /// Read a well and run the stages.
-pub fn process(path: &Path, config: &Config) -> Result<WellOutput, WellError> {
+pub fn process(path: &Path, ctx: &RunContext) -> Result<WellOutput, WellError> {
     let file = las::read_path(
         path,
         ReadOptions {
-            strict: config.input.strict,
+            strict: ctx.config.input.strict,
         },
     )?;
-    process_file(path, &file, config)
+    process_file(path, &file, ctx)
+}
+
+/// Elevation of the depth reference: config, else the first header mnemonic
+/// found (~P, then ~W), converted to the project's depth unit.
+fn elevation(
+    file: &LasFile,
+    names: &[&str],
+    ctx: &RunContext,
+    warnings: &mut Vec<String>,
+) -> (Option<f64>, String) {
+    let cfg = &ctx.config;
+    let depth_unit = cfg.project.depth_unit;
+    if let Some(v) = cfg
+        .depth
+        .well
+        .iter()
+        .find(|(k, _)| names.iter().any(|n| k.eq_ignore_ascii_case(n)))
+        .and_then(|(_, w)| w.elevation)
+    {
+        return (Some(v), "config".into());
+    }
+    for m in &cfg.depth.elevation_mnemonics {
+        let Some(item) = file.param(m).or_else(|| file.well_item(m)) else {
+            continue;
+        };
+        let Ok(v) = item.value.trim().parse::<f64>() else {
+            warnings.push(format!(
+                "line {}: {} value `{}` is not a number; not used as the elevation",
+                item.line, item.mnemonic, item.value
+            ));
+            continue;
+        };
+        let unit = if item.unit.is_empty() {
+            file.index_unit()
+        } else {
+            item.unit.as_str()
+        };
+        match DepthUnit::from_las(unit) {
+            Some(u) => {
+                return (
+                    Some(v * u.factor_to(depth_unit)),
+                    format!("{} (line {})", item.mnemonic, item.line),
+                );
+            }
+            None => warnings.push(format!(
+                "line {}: {} has unit `{unit}`, not a depth unit; not used as the elevation",
+                item.line, item.mnemonic
+            )),
+        }
+    }
+    warnings
+        .push("no elevation of the depth reference (config or header); TVDSS is missing".into());
+    (None, "none".into())
+}
+
+#[derive(serde::Deserialize)]
+struct SurveyRow {
+    #[serde(rename = "MD_M", default)]
+    md_m: Option<f64>,
+    #[serde(rename = "MD_FT", default)]
+    md_ft: Option<f64>,
+    #[serde(rename = "INC_DEG")]
+    inc: f64,
+    #[serde(rename = "AZI_DEG")]
+    azi: f64,
+}
+
+/// Read a survey CSV (MD_M or MD_FT, INC_DEG, AZI_DEG) into the project's depth unit.
+pub fn read_survey(path: &Path, depth: DepthUnit) -> Result<Survey, WellError> {
+    let rows: Vec<(u64, SurveyRow)> = read_csv(path)?;
+    let mut s = Survey {
+        md: Vec::new(),
+        inc_deg: Vec::new(),
+        azi_deg: Vec::new(),
+    };
+    for (line, r) in rows {
+        let md = match (r.md_m, r.md_ft) {
+            (Some(m), None) => m * DepthUnit::Metre.factor_to(depth),
+            (None, Some(f)) => f * DepthUnit::Foot.factor_to(depth),
+            _ => {
+                return Err(TableError::Row {
+                    path: path.to_path_buf(),
+                    line,
+                    message: "give exactly one of MD_M and MD_FT".into(),
+                }
+                .into());
+            }
+        };
+        if s.md.last().is_some_and(|&last| md <= last) {
+            return Err(TableError::Row {
+                path: path.to_path_buf(),
+                line,
+                message: "MD must increase down the survey".into(),
+            }
+            .into());
+        }
+        if !(0.0..=180.0).contains(&r.inc) {
+            return Err(TableError::Row {
+                path: path.to_path_buf(),
+                line,
+                message: format!("INC_DEG {} is outside 0-180", r.inc),
+            }
+            .into());
+        }
+        s.md.push(md);
+        s.inc_deg.push(r.inc);
+        s.azi_deg.push(r.azi);
+    }
+    if s.md.is_empty() {
+        return Err(TableError::Row {
+            path: path.to_path_buf(),
+            line: 1,
+            message: "survey has no stations".into(),
+        }
+        .into());
+    }
+    Ok(s)
+}
+
+/// A temperature from a header item in DEGC or DEGF, as °C.
+fn header_temperature_c(file: &LasFile, mnemonic: &str) -> Option<f64> {
+    let item = file.param(mnemonic).or_else(|| file.well_item(mnemonic))?;
+    let v: f64 = item.value.trim().parse().ok()?;
+    match item.unit.to_ascii_uppercase().as_str() {
+        "DEGC" | "C" | "°C" => Some(v),
+        "DEGF" | "F" | "°F" => Some((v - 32.0) * 5.0 / 9.0),
+        _ => None,
+    }
 }
 
 /// Run the stages on a file already read.
-pub fn process_file(path: &Path, file: &LasFile, config: &Config) -> Result<WellOutput, WellError> {
+pub fn process_file(
+    path: &Path,
+    file: &LasFile,
+    ctx: &RunContext,
+) -> Result<WellOutput, WellError> {
+    let config = &ctx.config;
     let depth_unit = config.project.depth_unit;
-    let table_aliases = config.alias_table();
+    let aliases = config.alias_table();
     let curve_err = |source| WellError::Curve {
         path: path.to_path_buf(),
         source,
     };
     let mut warnings: Vec<String> = file.warnings.iter().map(ToString::to_string).collect();
-    let depth = curves::resolve_depth(file, depth_unit).map_err(curve_err)?;
+    let md = curves::resolve_depth(file, depth_unit).map_err(curve_err)?;
+    let stem = stem_of(path);
+    let name = file
+        .well_name()
+        .map_or_else(|| stem.clone(), str::to_string);
+    let names: Vec<&str> = vec![name.as_str(), stem.as_str()];
 
     let mut found: Vec<ResolvedCurve> = Vec::new();
+    let mut missing: Vec<CurveError> = Vec::new();
     for curve in LogicalCurve::ALL {
-        match curves::resolve(file, curve, &table_aliases, depth_unit) {
+        match curves::resolve(file, curve, &aliases, depth_unit) {
             Ok(r) => found.push(r),
-            Err(e) if REQUIRED.contains(&curve) => return Err(curve_err(e)),
-            Err(CurveError::Missing { .. }) => {}
-            Err(e) => warnings.push(format!("{e}; curve not used")),
+            Err(e @ CurveError::Missing { .. }) => missing.push(e),
+            Err(e) => missing.push(e),
+        }
+    }
+    let curve = |c: LogicalCurve| {
+        found
+            .iter()
+            .find(|r| r.logical == c)
+            .map(|r| r.values.as_slice())
+    };
+
+    // depth reference
+    let (elev, elevation_source) = elevation(file, &names, ctx, &mut warnings);
+    let well_depth = config
+        .depth
+        .well
+        .iter()
+        .find(|(k, _)| names.iter().any(|n| k.eq_ignore_ascii_case(n)))
+        .map(|(_, w)| w);
+    let (tvd, deviated) = match well_depth.and_then(|w| w.survey.as_ref()) {
+        Some(p) => (
+            tvd_at(&md, &read_survey(&config.resolve_path(p), depth_unit)?),
+            true,
+        ),
+        None => (md.clone(), false),
+    };
+    let tvdss: Vec<f64> = match elev {
+        Some(e) => tvd.iter().map(|t| t - e).collect(),
+        None => vec![f64::NAN; md.len()],
+    };
+    let to_m = depth_unit.factor_to(DepthUnit::Metre);
+    let tvd_m: Vec<f64> = tvd.iter().map(|t| t * to_m).collect();
+
+    // zones
+    let well_tops = match &ctx.tops {
+        Some(t) => match t.of_well(&names) {
+            Some(tops) => Some(tops),
+            None => {
+                warnings.push(format!("no zone tops for well {name} in the tops table: every depth is outside the zones and not interpreted"));
+                Some(&[][..])
+            }
+        },
+        None => None,
+    };
+    let (zone_names, zone_of) = zones::assign(&md, well_tops);
+
+    // parameters per zone
+    let mut setups = Vec::with_capacity(zone_names.len());
+    let mut needed: Vec<LogicalCurve> = vec![LogicalCurve::GammaRay, LogicalCurve::DeepResistivity];
+    let gr = curve(LogicalCurve::GammaRay);
+    for (zi, zone) in zone_names.iter().enumerate() {
+        let params = config.parameters.for_well_zone(&names, zone).resolve();
+        let perr = |message: String| WellError::Params {
+            path: path.to_path_buf(),
+            zone: zone.clone(),
+            message,
+        };
+        let in_zone: Vec<f64> = match gr {
+            Some(g) => g
+                .iter()
+                .zip(&zone_of)
+                .filter(|(_, z)| **z == u16::try_from(zi).ok())
+                .map(|(v, _)| *v)
+                .collect(),
+            None => Vec::new(),
+        };
+        if in_zone.is_empty() {
+            // a zone with no samples in this well: nothing to set up beyond a placeholder
+        }
+        let [lo, hi] = params.gr_pick_percentiles;
+        let (clean, shale, picked) = match (params.gr_clean_gapi, params.gr_shale_gapi) {
+            (Some(c), Some(s)) => (c, s, false),
+            (c, s) => (
+                c.unwrap_or_else(|| stages::percentile(&in_zone, lo)),
+                s.unwrap_or_else(|| stages::percentile(&in_zone, hi)),
+                true,
+            ),
+        };
+        if picked && !in_zone.is_empty() && (shale <= clean || shale.is_nan() || clean.is_nan()) {
+            return Err(perr(format!(
+                "gamma-ray picks are not usable (clean {clean}, shale {shale}); set gr-clean-gapi and gr-shale-gapi"
+            )));
+        }
+        if params.rw_ohmm.is_none() {
+            return Err(perr(
+                "rw-ohmm is not set (at any level of [parameters])".into(),
+            ));
+        }
+        let density_method = matches!(
+            params.porosity_method,
+            PorosityMethod::Density
+                | PorosityMethod::NeutronDensity
+                | PorosityMethod::NeutronDensityGas
+        );
+        let neutron_method = matches!(
+            params.porosity_method,
+            PorosityMethod::NeutronDensity | PorosityMethod::NeutronDensityGas
+        );
+        if (density_method || params.neutron_density_shale) && params.rho_shale_gcc.is_none() {
+            return Err(perr(
+                "rho-shale-gcc is needed for the density-based porosity and shale corrections"
+                    .into(),
+            ));
+        }
+        if (neutron_method || params.neutron_density_shale) && params.nphi_shale_vv.is_none() {
+            return Err(perr(
+                "nphi-shale-vv is needed for the neutron-density methods".into(),
+            ));
+        }
+        if !density_method && params.dt_shale_usft.is_none() {
+            return Err(perr(
+                "dt-shale-usft is needed for the sonic porosity methods".into(),
+            ));
+        }
+        if params.saturation_model != SaturationModel::Archie && params.rsh_ohmm.is_none() {
+            return Err(perr(format!(
+                "rsh-ohmm is needed for the {} model",
+                params.saturation_model.name()
+            )));
+        }
+        if density_method || params.neutron_density_shale {
+            needed.push(LogicalCurve::BulkDensity);
+        }
+        if neutron_method || params.neutron_density_shale {
+            needed.push(LogicalCurve::NeutronPorosity);
+        }
+        if !density_method {
+            needed.push(LogicalCurve::CompressionalSlowness);
+        }
+        let gradient = match (params.rw_temperature_c, params.geothermal_gradient_c_per_m) {
+            (None, _) => None,
+            (Some(_), Some(g)) => Some(g),
+            (Some(_), None) => {
+                let bht = header_temperature_c(file, "BHT").ok_or_else(|| {
+                    perr("rw-temperature-c is set, but there is no geothermal-gradient-c-per-m and no BHT (DEGC or DEGF) in the header".into())
+                })?;
+                let td_m = file
+                    .param("TD")
+                    .and_then(|i| {
+                        let v: f64 = i.value.trim().parse().ok()?;
+                        let u = DepthUnit::from_las(if i.unit.is_empty() {
+                            file.index_unit()
+                        } else {
+                            &i.unit
+                        })?;
+                        Some(v * u.factor_to(DepthUnit::Metre))
+                    })
+                    .or_else(|| tvd_m.last().copied())
+                    .unwrap_or(f64::NAN);
+                Some(crate::petro::water::gradient_from_bht(
+                    bht,
+                    params.surface_temperature_c,
+                    td_m,
+                ))
+            }
+        };
+        setups.push(ZoneSetup {
+            name: zone.clone(),
+            params,
+            gr_clean_gapi: clean,
+            gr_shale_gapi: shale,
+            gr_picked: picked,
+            gradient_c_per_m: gradient,
+        });
+    }
+    needed.sort();
+    needed.dedup();
+    for c in &needed {
+        if curve(*c).is_none() {
+            let e = missing.iter().find(|e| match e {
+                CurveError::Missing { curve, .. } | CurveError::UnknownUnit { curve, .. } => {
+                    curve == c
+                }
+            });
+            if let Some(e) = e {
+                return Err(curve_err(e.clone()));
+            }
+        }
+    }
+    for e in &missing {
+        if let CurveError::UnknownUnit { curve, .. } = e {
+            if !needed.contains(curve) {
+                warnings.push(format!("{e}; curve not used"));
+            }
         }
     }
 
-    let name = file
-        .well_name()
-        .map_or_else(|| stem_of(path), str::to_string);
-    let mut columns = vec![OutColumn {
-        name: "DEPTH".into(),
-        unit: Quantity::Depth.canonical_unit(depth_unit).into(),
-        description: "MEASURED DEPTH".into(),
-        values: depth,
-    }];
+    let inputs = Inputs {
+        gr: curve(LogicalCurve::GammaRay),
+        rhob: curve(LogicalCurve::BulkDensity),
+        nphi: curve(LogicalCurve::NeutronPorosity),
+        dt: curve(LogicalCurve::CompressionalSlowness),
+        rt: curve(LogicalCurve::DeepResistivity),
+        cali: curve(LogicalCurve::Caliper),
+        bs: curve(LogicalCurve::BitSize),
+        tvd_m: &tvd_m,
+    };
+    // bit size from the header when there is no curve
+    if inputs.bs.is_none() {
+        if let Some(bs) = file.param("BS").and_then(|i| {
+            i.value
+                .trim()
+                .parse::<f64>()
+                .ok()
+                .map(|v| (v, i.unit.clone()))
+        }) {
+            let conv = crate::units::Conversion::from_unit(Quantity::Diameter, &bs.1, depth_unit);
+            for s in &mut setups {
+                if s.params.bit_size_in.is_none() {
+                    s.params.bit_size_in = conv.map(|c| bs.0 * c.factor);
+                }
+            }
+        }
+    }
+    let out = stages::run(&inputs, &zone_of, &setups);
+    if out.counts.outside_zone > 0 && well_tops.is_some() {
+        warnings.push(format!(
+            "{} samples above the first zone top are outside every zone and not interpreted",
+            out.counts.outside_zone
+        ));
+    }
+
+    let du = Quantity::Depth.canonical_unit(depth_unit);
+    let col = |name: &str, unit: &str, description: &str, values: Vec<f64>| OutColumn {
+        name: name.into(),
+        unit: unit.into(),
+        description: description.into(),
+        values,
+        integer: name == "FLAG",
+    };
+    let mut columns = vec![
+        col("DEPTH", du, "MEASURED DEPTH", md),
+        col("TVDSS", du, "TRUE VERTICAL DEPTH BELOW SEA LEVEL", tvdss),
+        col("VSH", "V/V", "SHALE VOLUME", out.vsh),
+        col("PHIT", "V/V", "TOTAL POROSITY", out.phit),
+        col("PHIE", "V/V", "EFFECTIVE POROSITY", out.phie),
+        col("SW", "V/V", "WATER SATURATION", out.sw),
+        col("BVW", "V/V", "BULK VOLUME WATER", out.bvw),
+        col(
+            "FLAG",
+            "",
+            "QUALITY FLAG BITS 1 BAD HOLE 2 OUT OF RANGE 4 MISSING INPUT 8 OUTSIDE ZONE 16 CLIPPED",
+            out.flag.iter().map(|&f| f64::from(f)).collect(),
+        ),
+    ];
     let resolved = found
         .iter()
         .map(|r| (r.logical, r.mnemonic.clone(), r.source_unit.clone()))
@@ -97,6 +516,7 @@ pub fn process_file(path: &Path, file: &LasFile, config: &Config) -> Result<Well
                 r.source_unit
             ),
             values: r.values,
+            integer: false,
         });
     }
     let keep = [
@@ -108,6 +528,13 @@ pub fn process_file(path: &Path, file: &LasFile, config: &Config) -> Result<Well
         .filter(|i| keep.iter().any(|k| i.mnemonic.eq_ignore_ascii_case(k)))
         .cloned()
         .collect();
+    let report = WellReport {
+        elevation: elev,
+        elevation_source,
+        deviated,
+        zones: setups,
+        counts: out.counts,
+    };
     Ok(WellOutput {
         name,
         table: Table {
@@ -117,6 +544,7 @@ pub fn process_file(path: &Path, file: &LasFile, config: &Config) -> Result<Well
         },
         warnings,
         resolved,
+        report,
     })
 }
 

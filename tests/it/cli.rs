@@ -136,27 +136,24 @@ fn export_csv_las_parquet() {
 }
 
 /// `run` with a config: per-well outputs, a summary, one bad well reported
-/// without stopping the others, exit code 2 unless --keep-going.
+/// without stopping the others (and a well missing a required curve named with
+/// the aliases tried), exit code 2 unless --keep-going.
 #[test]
 fn run_isolates_a_bad_well() {
     let wells = tempfile::tempdir().expect("temp dir");
-    std::fs::copy(
-        root().join("tests/data/las/header-traps.las"),
-        wells.path().join("a.las"),
-    )
-    .expect("copy");
-    std::fs::copy(
-        root().join("tests/data/las-bad/truncated-row.las"),
-        wells.path().join("b.las"),
-    )
-    .expect("copy");
-    std::fs::copy(
-        root().join("tests/data/las/las12.las"),
-        wells.path().join("c.las"),
-    )
-    .expect("copy");
+    let copy = |from: &str, to: &str| {
+        std::fs::copy(root().join(from), wells.path().join(to)).expect("copy")
+    };
+    copy("demo-wells/tarnby-1.las", "a.las");
+    copy("tests/data/las-bad/truncated-row.las", "b.las");
+    copy("demo-wells/tarnby-4.las", "c.las");
+    copy("tests/data/las/header-traps.las", "d.las");
     let cfg = wells.path().join("project.toml");
-    std::fs::write(&cfg, "[project]\nname = \"t\"\n[input]\nwells = [\".\"]\n").expect("config");
+    std::fs::write(
+        &cfg,
+        "[project]\nname = \"t\"\n[input]\nwells = [\".\"]\n[parameters.field]\nrw-ohmm = 0.045\nrho-shale-gcc = 2.55\n",
+    )
+    .expect("config");
     // the output may not be inside an input folder
     let out = flowzone()
         .args(["run", "--quiet", "--config"])
@@ -186,21 +183,40 @@ fn run_isolates_a_bad_well() {
         &std::fs::read(out_dir.path().join("run-summary.json")).expect("summary"),
     )
     .expect("json");
-    assert_eq!(summary["wells_total"], 3);
-    assert_eq!(summary["wells_failed"], 1);
-    assert_eq!(summary["wells"][1]["ok"], false);
+    assert_eq!(summary["wells_total"], 4);
+    assert_eq!(summary["wells_failed"], 2);
+    let w = summary["wells"].as_array().expect("wells");
+    assert_eq!(
+        (
+            w[0]["ok"].as_bool(),
+            w[1]["ok"].as_bool(),
+            w[2]["ok"].as_bool(),
+            w[3]["ok"].as_bool()
+        ),
+        (Some(true), Some(false), Some(true), Some(false))
+    );
     assert!(
-        summary["wells"][1]["error"]
+        w[1]["error"]
             .as_str()
             .expect("error")
             .ends_with("b.las:18: row has 2 values, ~C declares 3 curves")
     );
-    // the good wells are written; c.las is in feet and converted to metres
+    assert!(
+        w[3]["error"].as_str().expect("error").ends_with(
+            "d.las: no bulk-density curve: tried RHOB, RHOZ, ZDEN, DEN, DENS, RHO8, DENB, DLDC, HDEN"
+        ),
+        "{}",
+        w[3]["error"]
+    );
+    // c.las is logged in feet and converted to metres: 6663.0 ft = 2030.8824 m
+    // exactly (1 ft = 0.3048 m); its EKB of 108 ft is 32.9184 m, so TVDSS = 1997.9640
     let csv = std::fs::read_to_string(out_dir.path().join("wells/c.csv")).expect("c.csv");
+    assert_eq!(
+        csv.lines().next(),
+        Some("DEPTH,TVDSS,VSH,PHIT,PHIE,SW,BVW,FLAG,GR,RHOB,NPHI,DT,RT,CALI")
+    );
     let first: Vec<&str> = csv.lines().nth(1).expect("row").split(',').collect();
-    assert_eq!(csv.lines().next(), Some("DEPTH,GR"));
-    // 48.5 ft = 14.7828 m exactly (1 ft = 0.3048 m), written to 4 decimals
-    assert_eq!(first, vec!["14.7828", "10.0000"]);
+    assert_eq!(&first[..2], &["2030.8824", "1997.9640"]);
     assert!(out_dir.path().join("wells/a.las").is_file());
     let keep = flowzone()
         .args(["run", "--quiet", "--keep-going", "--config"])

@@ -16,3 +16,5 @@ mod las_rs_oracle;
 mod lasio_interop;
 /// The real, openly licensed files in ../shared/las-samples, against lasio.
 mod real_files;
+/// `run` on the demo field recovers the forward model's truth within stated tolerances.
+mod truth;
