@@ -352,6 +352,32 @@ mod tests {
         );
     }
 
+    /// The documented default config and the demo config load as they are.
+    #[test]
+    fn shipped_configs_load() {
+        let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+        for name in ["default.toml", "demo-field.toml"] {
+            Config::load(&root.join("config").join(name))
+                .unwrap_or_else(|e| panic!("{name}: {}", chain(&e)));
+        }
+    }
+
+    /// A parameter outside its physical range is refused at load, with the key.
+    #[test]
+    fn out_of_range_parameter_refused_at_load() {
+        let err = parse("[parameters.zone.\"Lower Kell\"]\narchie-n = -2\n").expect_err("n < 0");
+        assert_eq!(
+            chain(&err),
+            "config `t.toml`: key `parameters.zone.\"Lower Kell\".archie-n`: -2 must be a number above 0"
+        );
+        let err = parse("[parameters.field]\nmatrix = \"sandstone\"\nrho-fluid-gcc = 2.7\n")
+            .expect_err("fluid denser than matrix");
+        assert_eq!(
+            chain(&err),
+            "config `t.toml`: key `parameters.field.rho-fluid-gcc`: 2.7 must be below the matrix density (2.65)"
+        );
+    }
+
     #[test]
     fn aliases_by_logical_curve() {
         let c = parse("[curves.aliases]\ngamma-ray = [\"SGR\"]\n[curves.units]\nPHIN = \"v/v\"\n")

@@ -133,6 +133,58 @@ pub fn percentile(values: &[f64], p: f64) -> f64 {
     v[lo] + (pos - lo as f64) * (v[hi] - v[lo])
 }
 
+/// What the chain derives from a zone's parameters once, not per sample.
+struct ZonePre {
+    uses_density: bool,
+    uses_neutron: bool,
+    uses_sonic: bool,
+    /// Density porosity read in shale, v/v.
+    phi_d_shale: f64,
+    /// What the porosity method reads in shale, v/v (for the shale correction).
+    phi_shale: f64,
+}
+
+impl ZonePre {
+    fn new(z: &ZoneSetup) -> ZonePre {
+        let p = &z.params;
+        let phi_d_shale = p.rho_shale_gcc.map_or(f64::NAN, |r| {
+            density_porosity(r, p.rho_matrix_gcc, p.rho_fluid_gcc)
+        });
+        let nphi_sh = p.nphi_shale_vv.unwrap_or(f64::NAN);
+        let phi_shale = match p.porosity_method {
+            PorosityMethod::Density => phi_d_shale,
+            PorosityMethod::NeutronDensity => neutron_density_porosity(nphi_sh, phi_d_shale),
+            PorosityMethod::NeutronDensityGas => neutron_density_porosity_gas(nphi_sh, phi_d_shale),
+            PorosityMethod::SonicWyllie => p.dt_shale_usft.map_or(f64::NAN, |d| {
+                sonic_porosity_wyllie(d, p.dt_matrix_usft, p.dt_fluid_usft)
+            }),
+            PorosityMethod::SonicRhg => p.dt_shale_usft.map_or(f64::NAN, |d| {
+                sonic_porosity_rhg(d, p.dt_matrix_usft, p.dt_fluid_usft)
+            }),
+        };
+        let density = matches!(
+            p.porosity_method,
+            PorosityMethod::Density
+                | PorosityMethod::NeutronDensity
+                | PorosityMethod::NeutronDensityGas
+        );
+        let neutron = matches!(
+            p.porosity_method,
+            PorosityMethod::NeutronDensity | PorosityMethod::NeutronDensityGas
+        );
+        ZonePre {
+            uses_density: density || p.neutron_density_shale,
+            uses_neutron: neutron || p.neutron_density_shale,
+            uses_sonic: matches!(
+                p.porosity_method,
+                PorosityMethod::SonicWyllie | PorosityMethod::SonicRhg
+            ),
+            phi_d_shale,
+            phi_shale,
+        }
+    }
+}
+
 /// Run the chain. `zone_of[i]` indexes `zones`, or is `None` outside every zone.
 pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) -> Outputs {
     let n = zone_of.len();
@@ -149,6 +201,7 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
         },
     };
     let c = &mut out.counts;
+    let pre: Vec<ZonePre> = zones.iter().map(ZonePre::new).collect();
     for i in 0..n {
         let mut flag = 0u32;
         let (gr, rhob, nphi, dt, rt) = (
@@ -158,7 +211,9 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
             at(inputs.dt, i),
             at(inputs.rt, i),
         );
-        let Some(z) = zone_of[i].and_then(|z| zones.get(usize::from(z))) else {
+        let Some((z, zp)) =
+            zone_of[i].and_then(|z| Some((zones.get(usize::from(z))?, pre.get(usize::from(z))?)))
+        else {
             c.outside_zone += 1;
             out.vsh.push(f64::NAN);
             out.phit.push(f64::NAN);
@@ -178,20 +233,8 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
             flag |= FLAG_BAD_HOLE;
             c.bad_hole += 1;
         }
-        let uses_density = matches!(
-            p.porosity_method,
-            PorosityMethod::Density
-                | PorosityMethod::NeutronDensity
-                | PorosityMethod::NeutronDensityGas
-        ) || p.neutron_density_shale;
-        let uses_neutron = matches!(
-            p.porosity_method,
-            PorosityMethod::NeutronDensity | PorosityMethod::NeutronDensityGas
-        ) || p.neutron_density_shale;
-        let uses_sonic = matches!(
-            p.porosity_method,
-            PorosityMethod::SonicWyllie | PorosityMethod::SonicRhg
-        );
+        let (uses_density, uses_neutron, uses_sonic) =
+            (zp.uses_density, zp.uses_neutron, zp.uses_sonic);
         let bad = outside(gr, RANGE_GR_GAPI)
             || (uses_density && outside(rhob, RANGE_RHOB_GCC))
             || (uses_neutron && outside(nphi, RANGE_NPHI_VV))
@@ -228,9 +271,7 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
         );
         let mut vsh = p.shale_model.vsh(igr);
         let phi_d = density_porosity(rhob, p.rho_matrix_gcc, p.rho_fluid_gcc);
-        let phi_d_sh = p.rho_shale_gcc.map_or(f64::NAN, |r| {
-            density_porosity(r, p.rho_matrix_gcc, p.rho_fluid_gcc)
-        });
+        let phi_d_sh = zp.phi_d_shale;
         if p.neutron_density_shale {
             let v_nd = shale_volume_neutron_density(
                 nphi,
@@ -250,29 +291,16 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
         c.vsh_clipped += usize::from(vc);
 
         // porosity
-        let (phit, phi_sh) = match p.porosity_method {
-            PorosityMethod::Density => (phi_d, phi_d_sh),
-            PorosityMethod::NeutronDensity => (
-                neutron_density_porosity(nphi, phi_d),
-                neutron_density_porosity(p.nphi_shale_vv.unwrap_or(f64::NAN), phi_d_sh),
-            ),
-            PorosityMethod::NeutronDensityGas => (
-                neutron_density_porosity_gas(nphi, phi_d),
-                neutron_density_porosity_gas(p.nphi_shale_vv.unwrap_or(f64::NAN), phi_d_sh),
-            ),
-            PorosityMethod::SonicWyllie => (
-                sonic_porosity_wyllie(dt, p.dt_matrix_usft, p.dt_fluid_usft),
-                p.dt_shale_usft.map_or(f64::NAN, |d| {
-                    sonic_porosity_wyllie(d, p.dt_matrix_usft, p.dt_fluid_usft)
-                }),
-            ),
-            PorosityMethod::SonicRhg => (
-                sonic_porosity_rhg(dt, p.dt_matrix_usft, p.dt_fluid_usft),
-                p.dt_shale_usft.map_or(f64::NAN, |d| {
-                    sonic_porosity_rhg(d, p.dt_matrix_usft, p.dt_fluid_usft)
-                }),
-            ),
+        let phit = match p.porosity_method {
+            PorosityMethod::Density => phi_d,
+            PorosityMethod::NeutronDensity => neutron_density_porosity(nphi, phi_d),
+            PorosityMethod::NeutronDensityGas => neutron_density_porosity_gas(nphi, phi_d),
+            PorosityMethod::SonicWyllie => {
+                sonic_porosity_wyllie(dt, p.dt_matrix_usft, p.dt_fluid_usft)
+            }
+            PorosityMethod::SonicRhg => sonic_porosity_rhg(dt, p.dt_matrix_usft, p.dt_fluid_usft),
         };
+        let phi_sh = zp.phi_shale;
         let (phit, tc) = clip(phit, 0.0, p.phi_max_vv);
         c.phit_clipped += usize::from(tc);
         let (phie, ec) = clip(shale_corrected_porosity(phit, vsh, phi_sh), 0.0, phit);
