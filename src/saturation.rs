@@ -44,6 +44,7 @@ impl ArchieParams {
 /// some reservoir characteristics, Transactions of the AIME 146(1), 54–62. The
 /// factor a came later (commonly after Winsauer et al. 1952). Read via
 /// formulas.md §4.1.
+#[inline]
 pub fn archie(phi: f64, rt: f64, rw: f64, p: ArchieParams) -> f64 {
     if phi <= 0.0 || rt <= 0.0 {
         return f64::NAN;
@@ -105,6 +106,7 @@ fn bisect_increasing(f: impl Fn(f64) -> f64) -> f64 {
 /// SPWLA 10th Symposium (from memory), modifying Simandoux, P. (1963),
 /// Revue de l'IFP, supplementary issue, 193–215 (from memory). Form and check
 /// values from formulas.md §4.2 and §10 (the recommended form).
+#[inline]
 pub fn simandoux_modified(phi: f64, rt: f64, rw: f64, vsh: f64, rsh: f64, p: ArchieParams) -> f64 {
     if phi <= 0.0 || rt <= 0.0 || vsh >= 1.0 {
         return f64::NAN;
@@ -117,6 +119,7 @@ pub fn simandoux_modified(phi: f64, rt: f64, rw: f64, vsh: f64, rsh: f64, p: Arc
 ///
 /// # Source
 /// Simandoux (1963) (from memory; formulas.md §4.2, form S63).
+#[inline]
 pub fn simandoux_1963(phi: f64, rt: f64, rw: f64, vsh: f64, rsh: f64, p: ArchieParams) -> f64 {
     if phi <= 0.0 || rt <= 0.0 {
         return f64::NAN;
@@ -159,6 +162,7 @@ fn newton_convex(a: f64, b: f64, c: f64, n: f64) -> Option<f64> {
 /// # Source
 /// Poupon, A. & Leveaux, J. (1971), Evaluation of water saturation in shaly
 /// formations, SPWLA 12th Annual Logging Symposium; form as in formulas.md §4.2.
+#[inline]
 pub fn indonesia(phi: f64, rt: f64, rw: f64, vsh: f64, rsh: f64, p: ArchieParams) -> f64 {
     if phi <= 0.0 || rt <= 0.0 {
         return f64::NAN;
@@ -173,6 +177,7 @@ pub fn indonesia(phi: f64, rt: f64, rw: f64, vsh: f64, rsh: f64, p: ArchieParams
 }
 
 /// Bulk volume water BVW = φ·SW, v/v.
+#[inline]
 pub fn bulk_volume_water(phi: f64, sw: f64) -> f64 {
     phi * sw
 }
@@ -190,6 +195,7 @@ pub enum SaturationModel {
 
 impl SaturationModel {
     /// SW at one depth.
+    #[inline]
     pub fn sw(self, phi: f64, rt: f64, rw: f64, vsh: f64, rsh: f64, p: ArchieParams) -> f64 {
         match self {
             SaturationModel::Archie => archie(phi, rt, rw, p),

@@ -62,6 +62,7 @@ impl Matrix {
 /// # Source
 /// Standard relation (volumes of matrix and fluid weighting their densities),
 /// e.g. Asquith & Gibson (1982); read via formulas.md §2.1.
+#[inline]
 pub fn density_porosity(rho_b: f64, rho_ma: f64, rho_f: f64) -> f64 {
     (rho_ma - rho_b) / (rho_ma - rho_f)
 }
@@ -70,6 +71,7 @@ pub fn density_porosity(rho_b: f64, rho_ma: f64, rho_f: f64) -> f64 {
 ///
 /// # Source
 /// Asquith & Gibson (1982) (from memory; formulas.md §2.2).
+#[inline]
 pub fn neutron_density_porosity(phi_n: f64, phi_d: f64) -> f64 {
     0.5 * (phi_n + phi_d)
 }
@@ -79,6 +81,7 @@ pub fn neutron_density_porosity(phi_n: f64, phi_d: f64) -> f64 {
 /// # Source
 /// Asquith & Gibson (1982); Asquith & Krygowski (2004) (from memory;
 /// formulas.md §2.2).
+#[inline]
 pub fn neutron_density_porosity_gas(phi_n: f64, phi_d: f64) -> f64 {
     (0.5 * (phi_n * phi_n + phi_d * phi_d)).sqrt()
 }
@@ -93,6 +96,7 @@ pub fn neutron_density_porosity_gas(phi_n: f64, phi_d: f64) -> f64 {
 /// Wyllie, M. R. J., Gregory, A. R. & Gardner, L. W. (1956), Elastic wave
 /// velocities in heterogeneous and porous media, Geophysics 21(1) 41–70
 /// (read via formulas.md §2.3).
+#[inline]
 pub fn sonic_porosity_wyllie(dt: f64, dt_ma: f64, dt_f: f64) -> f64 {
     (dt - dt_ma) / (dt_f - dt_ma)
 }
@@ -109,6 +113,7 @@ pub fn sonic_porosity_wyllie(dt: f64, dt_ma: f64, dt_f: f64) -> f64 {
 /// Raymer, L. L., Hunt, E. R. & Gardner, J. S. (1980), An improved sonic transit
 /// time-to-porosity transform, SPWLA 21st Annual Logging Symposium, paper P
 /// (full form from memory; root as written in formulas.md §2.4).
+#[inline]
 pub fn sonic_porosity_rhg(dt: f64, dt_ma: f64, dt_f: f64) -> f64 {
     let a = 1.0 / dt_ma;
     let b = 2.0 / dt_ma - 1.0 / dt_f;
@@ -127,6 +132,7 @@ pub fn sonic_porosity_rhg(dt: f64, dt_ma: f64, dt_f: f64) -> f64 {
 /// # Source
 /// Common practice; the density form is the one on nafta.wiki and Crain's
 /// handbook (formulas.md §2.5). Chosen over φt·(1 − VSH) and used throughout.
+#[inline]
 pub fn shale_corrected_porosity(phi: f64, vsh: f64, phi_shale: f64) -> f64 {
     phi - vsh * phi_shale
 }

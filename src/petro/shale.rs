@@ -31,6 +31,7 @@ pub const CLAVIER_C3: f64 = 0.7;
 /// Standard definition, e.g. Asquith, G. & Gibson, C. (1982), *Basic Well Log
 /// Analysis for Geologists*, AAPG Methods in Exploration 3 (read via the
 /// reference sheet ../shared/reference/formulas.md §1).
+#[inline]
 pub fn gamma_ray_index(gr: f64, gr_clean: f64, gr_shale: f64) -> f64 {
     (gr - gr_clean) / (gr_shale - gr_clean)
 }
@@ -62,6 +63,7 @@ impl ShaleModel {
     ///   of thermal neutron decay time logs, JPT 23(6) 743–755 (from memory).
     /// - Stieber, S. J. (1970), Pulsed neutron capture log evaluation in the
     ///   Louisiana Gulf Coast, SPE 2961 (from memory). Form IGR/(3 − 2·IGR).
+    #[inline]
     pub fn vsh(self, igr: f64) -> f64 {
         match self {
             ShaleModel::Linear => igr,
@@ -102,6 +104,7 @@ impl ShaleModel {
 /// water raises the neutron reading more than the density porosity); described
 /// in Bassiouni, Z. (1994), *Theory, Measurement, and Interpretation of Well
 /// Logs*, SPE Textbook 4 (from memory).
+#[inline]
 pub fn shale_volume_neutron_density(
     phi_n: f64,
     phi_d: f64,

@@ -12,6 +12,7 @@
 pub const ARPS_CONSTANT_F: f64 = 6.77;
 
 /// °C → °F.
+#[inline]
 pub fn celsius_to_fahrenheit(t_c: f64) -> f64 {
     t_c * 9.0 / 5.0 + 32.0
 }
@@ -28,6 +29,7 @@ pub fn celsius_to_fahrenheit(t_c: f64) -> f64 {
 /// resistivity of sodium chloride solutions, Petroleum Transactions AIME 198,
 /// Technical Note 195; read via Tiab & Donaldson, *Petrophysics*, 2nd ed.,
 /// Eq. 4.7 (as quoted in formulas.md §3).
+#[inline]
 pub fn rw_at_temperature(rw1: f64, t1_c: f64, t2_c: f64) -> f64 {
     rw1 * (celsius_to_fahrenheit(t1_c) + ARPS_CONSTANT_F)
         / (celsius_to_fahrenheit(t2_c) + ARPS_CONSTANT_F)
@@ -44,6 +46,7 @@ pub fn rw_at_temperature(rw1: f64, t1_c: f64, t2_c: f64) -> f64 {
 /// # Source
 /// Common practice (linear geothermal gradient); e.g. Asquith & Gibson (1982),
 /// "Temperature Gradient Calculation" (formulas.md §3).
+#[inline]
 pub fn formation_temperature(t_surface_c: f64, gradient_c_per_m: f64, depth_m: f64) -> f64 {
     t_surface_c + gradient_c_per_m * depth_m
 }
@@ -52,6 +55,7 @@ pub fn formation_temperature(t_surface_c: f64, gradient_c_per_m: f64, depth_m: f
 ///
 /// # Source
 /// As [`formation_temperature`].
+#[inline]
 pub fn gradient_from_bht(bht_c: f64, t_surface_c: f64, td_m: f64) -> f64 {
     (bht_c - t_surface_c) / td_m
 }
