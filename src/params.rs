@@ -40,6 +40,31 @@ pub enum PorosityMethod {
     SonicRhg,
 }
 
+impl PorosityMethod {
+    /// Whether the method reads bulk density.
+    pub fn uses_density(self) -> bool {
+        matches!(
+            self,
+            PorosityMethod::Density
+                | PorosityMethod::NeutronDensity
+                | PorosityMethod::NeutronDensityGas
+        )
+    }
+
+    /// Whether the method reads neutron porosity.
+    pub fn uses_neutron(self) -> bool {
+        matches!(
+            self,
+            PorosityMethod::NeutronDensity | PorosityMethod::NeutronDensityGas
+        )
+    }
+
+    /// Whether the method reads compressional slowness.
+    pub fn uses_sonic(self) -> bool {
+        matches!(self, PorosityMethod::SonicWyllie | PorosityMethod::SonicRhg)
+    }
+}
+
 /// One level of parameters; every field optional. Units are in the key names.
 #[derive(Debug, Clone, Default, Deserialize, PartialEq)]
 #[serde(deny_unknown_fields, rename_all = "kebab-case")]

@@ -97,6 +97,22 @@ pub struct Outputs {
     pub counts: Counts,
 }
 
+impl Outputs {
+    /// A depth that is kept and flagged but not interpreted.
+    fn push_uninterpreted(&mut self, flag: u32) {
+        for v in [
+            &mut self.vsh,
+            &mut self.phit,
+            &mut self.phie,
+            &mut self.sw,
+            &mut self.bvw,
+        ] {
+            v.push(f64::NAN);
+        }
+        self.flag.push(flag);
+    }
+}
+
 /// Clip `v` to [lo, hi]; returns the value and whether it was clipped. NaN passes.
 #[inline]
 fn clip(v: f64, lo: f64, hi: f64) -> (f64, bool) {
@@ -162,23 +178,10 @@ impl ZonePre {
                 sonic_porosity_rhg(d, p.dt_matrix_usft, p.dt_fluid_usft)
             }),
         };
-        let density = matches!(
-            p.porosity_method,
-            PorosityMethod::Density
-                | PorosityMethod::NeutronDensity
-                | PorosityMethod::NeutronDensityGas
-        );
-        let neutron = matches!(
-            p.porosity_method,
-            PorosityMethod::NeutronDensity | PorosityMethod::NeutronDensityGas
-        );
         ZonePre {
-            uses_density: density || p.neutron_density_shale,
-            uses_neutron: neutron || p.neutron_density_shale,
-            uses_sonic: matches!(
-                p.porosity_method,
-                PorosityMethod::SonicWyllie | PorosityMethod::SonicRhg
-            ),
+            uses_density: p.porosity_method.uses_density() || p.neutron_density_shale,
+            uses_neutron: p.porosity_method.uses_neutron() || p.neutron_density_shale,
+            uses_sonic: p.porosity_method.uses_sonic(),
             phi_d_shale,
             phi_shale,
         }
@@ -200,7 +203,11 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
             ..Counts::default()
         },
     };
-    let c = &mut out.counts;
+    let mut counts = Counts {
+        samples: n,
+        ..Counts::default()
+    };
+    let c = &mut counts;
     let pre: Vec<ZonePre> = zones.iter().map(ZonePre::new).collect();
     for i in 0..n {
         let mut flag = 0u32;
@@ -215,12 +222,7 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
             zone_of[i].and_then(|z| Some((zones.get(usize::from(z))?, pre.get(usize::from(z))?)))
         else {
             c.outside_zone += 1;
-            out.vsh.push(f64::NAN);
-            out.phit.push(f64::NAN);
-            out.phie.push(f64::NAN);
-            out.sw.push(f64::NAN);
-            out.bvw.push(f64::NAN);
-            out.flag.push(FLAG_OUTSIDE_ZONE);
+            out.push_uninterpreted(FLAG_OUTSIDE_ZONE);
             continue;
         };
         let p = &z.params;
@@ -254,12 +256,7 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
             c.missing_input += 1;
         }
         if bad {
-            out.vsh.push(f64::NAN);
-            out.phit.push(f64::NAN);
-            out.phie.push(f64::NAN);
-            out.sw.push(f64::NAN);
-            out.bvw.push(f64::NAN);
-            out.flag.push(flag);
+            out.push_uninterpreted(flag);
             continue;
         }
 
@@ -335,6 +332,7 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
         out.bvw.push(bulk_volume_water(phie, sw));
         out.flag.push(flag);
     }
+    out.counts = counts;
     out
 }
 

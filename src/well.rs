@@ -15,7 +15,6 @@ use crate::curves::{self, CurveError, LogicalCurve, ResolvedCurve};
 use crate::depth::{Survey, tvd_at};
 use crate::las::{self, LasError, LasFile, ReadOptions};
 use crate::output::{OutColumn, OutputError, Table};
-use crate::params::PorosityMethod;
 use crate::saturation::SaturationModel;
 use crate::stages::{self, Counts, Inputs, ZoneSetup};
 use crate::tables::{TableError, read_csv};
@@ -344,16 +343,8 @@ pub fn process_file(
                 "rw-ohmm is not set (at any level of [parameters])".into(),
             ));
         }
-        let density_method = matches!(
-            params.porosity_method,
-            PorosityMethod::Density
-                | PorosityMethod::NeutronDensity
-                | PorosityMethod::NeutronDensityGas
-        );
-        let neutron_method = matches!(
-            params.porosity_method,
-            PorosityMethod::NeutronDensity | PorosityMethod::NeutronDensityGas
-        );
+        let density_method = params.porosity_method.uses_density();
+        let neutron_method = params.porosity_method.uses_neutron();
         if (density_method || params.neutron_density_shale) && params.rho_shale_gcc.is_none() {
             return Err(perr(
                 "rho-shale-gcc is needed for the density-based porosity and shale corrections"

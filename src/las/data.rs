@@ -103,36 +103,20 @@ pub fn parse_data(
                 break;
             }
             let column = in_step + 1;
-            let (value, used) = match fast_float2::parse_partial::<f64, _>(&bytes[pos..]) {
-                Ok(ok) => ok,
-                Err(_) => {
-                    let b = bytes[pos];
-                    if !b.is_ascii() || b.is_ascii_control() {
-                        return Err((line, LineError::BadByte { byte: b }));
-                    }
-                    return Err((
-                        line,
-                        LineError::BadNumber {
-                            column,
-                            text: token_text(bytes, pos),
-                        },
-                    ));
+            let parsed = fast_float2::parse_partial::<f64, _>(&bytes[pos..]);
+            let (value, used) = match parsed {
+                Ok((v, used))
+                    if pos + used >= len
+                        || is_space(bytes[pos + used])
+                        || bytes[pos + used] == b'\n' =>
+                {
+                    (v, used)
                 }
+                // a token that does not parse, or parses only in part (`1.5.2`, `2x`)
+                Ok((_, used)) => return Err((line, token_error(bytes, pos, pos + used, column))),
+                Err(_) => return Err((line, token_error(bytes, pos, pos, column))),
             };
             let end = pos + used;
-            if end < len && !is_space(bytes[end]) && bytes[end] != b'\n' {
-                let b = bytes[end];
-                if !b.is_ascii() || b.is_ascii_control() {
-                    return Err((line, LineError::BadByte { byte: b }));
-                }
-                return Err((
-                    line,
-                    LineError::BadNumber {
-                        column,
-                        text: token_text(bytes, pos),
-                    },
-                ));
-            }
             if value.is_infinite() {
                 return Err((
                     line,
@@ -228,6 +212,20 @@ pub fn parse_data(
         ));
     }
     Ok(Data { columns, scan })
+}
+
+/// The error for a bad token starting at `start`: a byte that cannot be text
+/// of a number (non-ASCII or control) at `at`, or else a bad number.
+fn token_error(bytes: &[u8], start: usize, at: usize, column: usize) -> LineError {
+    let b = bytes[at];
+    if !b.is_ascii() || b.is_ascii_control() {
+        LineError::BadByte { byte: b }
+    } else {
+        LineError::BadNumber {
+            column,
+            text: token_text(bytes, start),
+        }
+    }
 }
 
 /// The token starting at `pos`, for an error message (at most 40 characters).
