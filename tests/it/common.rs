@@ -102,3 +102,22 @@ pub fn flowzone() -> Command {
 pub fn chain(e: &dyn std::error::Error) -> String {
     flowzone::error::chain(e)
 }
+
+/// Run the README's main job (`run --config config/demo-field.toml`) into `out`;
+/// it must succeed. Returns run-summary.json.
+pub fn run_demo_field(out: &Path) -> serde_json::Value {
+    let run = flowzone()
+        .args(["run", "--quiet", "--config"])
+        .arg(root().join("config/demo-field.toml"))
+        .arg("--out")
+        .arg(out)
+        .output()
+        .expect("runs");
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+    serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
+        .expect("json")
+}

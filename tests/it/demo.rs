@@ -3,7 +3,7 @@
 
 use std::path::Path;
 
-use crate::common::{flowzone, root};
+use crate::common::{flowzone, root, run_demo_field};
 
 fn files_under(dir: &Path) -> Vec<String> {
     let mut out = Vec::new();
@@ -58,22 +58,7 @@ fn committed_demo_is_the_model_output_byte_for_byte() {
 #[test]
 fn main_job_runs_on_the_demo_field() {
     let out_dir = tempfile::tempdir().expect("temp dir");
-    let out = flowzone()
-        .args(["run", "--quiet", "--config"])
-        .arg(root().join("config/demo-field.toml"))
-        .arg("--out")
-        .arg(out_dir.path())
-        .output()
-        .expect("runs");
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let summary: serde_json::Value = serde_json::from_slice(
-        &std::fs::read(out_dir.path().join("run-summary.json")).expect("summary"),
-    )
-    .expect("json");
+    let summary = run_demo_field(out_dir.path());
     assert_eq!(summary["wells_total"], 8);
     assert_eq!(summary["wells_failed"], 0);
     for w in summary["wells"].as_array().expect("wells") {

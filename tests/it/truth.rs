@@ -19,7 +19,7 @@
 
 use std::collections::HashMap;
 
-use crate::common::{flowzone, root};
+use crate::common::{root, run_demo_field};
 
 fn read_csv(path: &std::path::Path) -> Vec<HashMap<String, String>> {
     let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
@@ -58,18 +58,7 @@ fn stats(d: &[f64]) -> (f64, f64) {
 #[test]
 fn demo_truth_is_recovered() {
     let out = tempfile::tempdir().expect("temp dir");
-    let run = flowzone()
-        .args(["run", "--quiet", "--config"])
-        .arg(root().join("config/demo-field.toml"))
-        .arg("--out")
-        .arg(out.path())
-        .output()
-        .expect("runs");
-    assert!(
-        run.status.success(),
-        "{}",
-        String::from_utf8_lossy(&run.stderr)
-    );
+    run_demo_field(out.path());
     for i in 1..=8 {
         let ours = read_csv(&out.path().join(format!("wells/tarnby-{i}.csv")));
         let truth = read_csv(&root().join(format!("demo-wells/truth/tarnby-{i}.csv")));
