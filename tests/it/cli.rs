@@ -227,3 +227,52 @@ fn run_isolates_a_bad_well() {
         .expect("runs");
     assert_eq!(keep.status.code(), Some(0));
 }
+
+/// Rw carried to formation temperature with the gradient from the header's
+/// BHT and TD (tarnby-4: BHT 75.6 DEGC, TD 7286.5 FT = 2220.9252 m); with a
+/// 15 °C surface, g = (75.6 − 15)/2220.9252 = 0.0272860 °C/m (hand-computed).
+#[test]
+fn gradient_from_header_bht() {
+    let wells = tempfile::tempdir().expect("temp dir");
+    std::fs::copy(
+        root().join("demo-wells/tarnby-4.las"),
+        wells.path().join("w.las"),
+    )
+    .expect("copy");
+    let cfg = wells.path().join("p.toml");
+    std::fs::write(
+        &cfg,
+        "[input]\nwells = [\"w.las\"]\n[parameters.field]\nrw-ohmm = 0.1\nrw-temperature-c = 25\nsurface-temperature-c = 15\nrho-shale-gcc = 2.55\n",
+    )
+    .expect("config");
+    let out_dir = tempfile::tempdir().expect("temp dir");
+    let out = flowzone()
+        .args(["run", "--quiet", "--config"])
+        .arg(&cfg)
+        .arg("--out")
+        .arg(out_dir.path())
+        .output()
+        .expect("runs");
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let summary: serde_json::Value = serde_json::from_slice(
+        &std::fs::read(out_dir.path().join("run-summary.json")).expect("summary"),
+    )
+    .expect("json");
+    let zone = &summary["wells"][0]["stages"]["zones"][0];
+    let g = zone["gradient_c_per_m"].as_f64().expect("gradient");
+    assert!((g - 0.027_286_0).abs() < 1e-6, "{g}");
+    // no tops: one zone, ALL; EKB 108 FT → 32.9184 m
+    assert_eq!(zone["name"], "ALL");
+    assert!(
+        (summary["wells"][0]["stages"]["elevation"]
+            .as_f64()
+            .expect("elevation")
+            - 32.9184)
+            .abs()
+            < 1e-9
+    );
+}
