@@ -22,6 +22,7 @@
 //! petrophysicist before they inform reserves, well or investment decisions,
 //! and used under local regulation and licensed practice.
 
+pub mod classes;
 pub mod cli;
 pub mod config;
 pub mod curves;
