@@ -25,6 +25,7 @@
 pub mod classes;
 pub mod cli;
 pub mod config;
+pub mod core_data;
 pub mod curves;
 pub mod demo;
 pub mod depth;
