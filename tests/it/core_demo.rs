@@ -54,6 +54,7 @@ fn demo_core_classes_match_the_model() {
     }
     assert!(total > 50, "only {total} core samples in reservoir beds");
     let rate = agree as f64 / total as f64;
+    eprintln!("demo core: FZI classes agree at {agree} of {total} samples ({rate:.3})");
     assert!(
         rate >= 0.9,
         "FZI classes agree with the model at {agree} of {total} samples ({rate:.3})"
