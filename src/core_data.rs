@@ -146,23 +146,12 @@ pub fn read_core_csv(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreErro
                 continue;
             }
         };
-        let unit = match r
-            .depth_unit
-            .as_deref()
-            .map(str::trim)
-            .filter(|u| !u.is_empty())
-        {
-            None => depth,
-            Some(u) => match DepthUnit::from_las(u) {
-                Some(u) => u,
-                None => {
-                    rejected.push(Rejected {
-                        line,
-                        reason: format!("DEPTH_UNIT `{u}` is neither m nor ft"),
-                    });
-                    continue;
-                }
-            },
+        let unit = match DepthUnit::from_optional(r.depth_unit.as_deref(), depth) {
+            Ok(u) => u,
+            Err(reason) => {
+                rejected.push(Rejected { line, reason });
+                continue;
+            }
         };
         if let Err(reason) = check(porosity, r.perm_md) {
             rejected.push(Rejected { line, reason });

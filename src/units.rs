@@ -73,6 +73,16 @@ impl DepthUnit {
         }
     }
 
+    /// A table's optional DEPTH_UNIT field: blank or absent means `default`;
+    /// otherwise it must be a depth unit (`Err` carries the message).
+    pub fn from_optional(text: Option<&str>, default: DepthUnit) -> Result<DepthUnit, String> {
+        match text.map(str::trim).filter(|u| !u.is_empty()) {
+            None => Ok(default),
+            Some(u) => DepthUnit::from_las(u)
+                .ok_or_else(|| format!("DEPTH_UNIT `{u}` is neither m nor ft")),
+        }
+    }
+
     /// The unit as written in LAS files.
     pub fn las_unit(self) -> &'static str {
         match self {

@@ -42,19 +42,14 @@ impl Tops {
         let rows: Vec<(u64, TopRow)> = read_csv(path)?;
         let mut by_well: BTreeMap<String, Vec<(f64, String)>> = BTreeMap::new();
         for (line, r) in rows {
-            let unit = match r
-                .depth_unit
-                .as_deref()
-                .map(str::trim)
-                .filter(|u| !u.is_empty())
-            {
-                None => depth,
-                Some(u) => DepthUnit::from_las(u).ok_or_else(|| TableError::Row {
-                    path: path.to_path_buf(),
-                    line,
-                    message: format!("DEPTH_UNIT `{u}` is neither m nor ft"),
-                })?,
-            };
+            let unit =
+                DepthUnit::from_optional(r.depth_unit.as_deref(), depth).map_err(|message| {
+                    TableError::Row {
+                        path: path.to_path_buf(),
+                        line,
+                        message,
+                    }
+                })?;
             if !r.top_md.is_finite() {
                 return Err(TableError::Row {
                     path: path.to_path_buf(),

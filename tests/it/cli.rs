@@ -1,7 +1,7 @@
 //! The binary as a user runs it: help text, exit codes, stdout for data and
 //! stderr for messages, and the files each command writes.
 
-use crate::common::{flowzone, root, shared};
+use crate::common::{flowzone, root, run_config, shared};
 
 #[test]
 fn every_command_has_help() {
@@ -155,24 +155,12 @@ fn run_isolates_a_bad_well() {
     )
     .expect("config");
     // the output may not be inside an input folder
-    let out = flowzone()
-        .args(["run", "--quiet", "--config"])
-        .arg(&cfg)
-        .arg("--out")
-        .arg(wells.path().join("out"))
-        .output()
-        .expect("runs");
+    let out = run_config(&cfg, &wells.path().join("out"), &[]);
     assert_eq!(out.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&out.stderr).contains("is inside the input folder"));
 
     let out_dir = tempfile::tempdir().expect("temp dir");
-    let out = flowzone()
-        .args(["run", "--quiet", "--config"])
-        .arg(&cfg)
-        .arg("--out")
-        .arg(out_dir.path())
-        .output()
-        .expect("runs");
+    let out = run_config(&cfg, &out_dir.path(), &[]);
     assert_eq!(
         out.status.code(),
         Some(2),
@@ -218,13 +206,7 @@ fn run_isolates_a_bad_well() {
     let first: Vec<&str> = csv.lines().nth(1).expect("row").split(',').collect();
     assert_eq!(&first[..2], &["2030.8824", "1997.9640"]);
     assert!(out_dir.path().join("wells/a.las").is_file());
-    let keep = flowzone()
-        .args(["run", "--quiet", "--keep-going", "--config"])
-        .arg(&cfg)
-        .arg("--out")
-        .arg(out_dir.path())
-        .output()
-        .expect("runs");
+    let keep = run_config(&cfg, out_dir.path(), &["--keep-going"]);
     assert_eq!(keep.status.code(), Some(0));
 }
 
@@ -246,13 +228,7 @@ fn gradient_from_header_bht() {
     )
     .expect("config");
     let out_dir = tempfile::tempdir().expect("temp dir");
-    let out = flowzone()
-        .args(["run", "--quiet", "--config"])
-        .arg(&cfg)
-        .arg("--out")
-        .arg(out_dir.path())
-        .output()
-        .expect("runs");
+    let out = run_config(&cfg, &out_dir.path(), &[]);
     assert!(
         out.status.success(),
         "{}",

@@ -106,13 +106,7 @@ pub fn chain(e: &dyn std::error::Error) -> String {
 /// Run the README's main job (`run --config config/demo-field.toml`) into `out`;
 /// it must succeed. Returns run-summary.json.
 pub fn run_demo_field(out: &Path) -> serde_json::Value {
-    let run = flowzone()
-        .args(["run", "--quiet", "--config"])
-        .arg(root().join("config/demo-field.toml"))
-        .arg("--out")
-        .arg(out)
-        .output()
-        .expect("runs");
+    let run = run_config(&root().join("config/demo-field.toml"), out, &[]);
     assert!(
         run.status.success(),
         "{}",
@@ -120,4 +114,29 @@ pub fn run_demo_field(out: &Path) -> serde_json::Value {
     );
     serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
         .expect("json")
+}
+
+/// `flowzone run --quiet [extra...] --config CFG --out OUT`.
+pub fn run_config(cfg: &Path, out: &Path, extra: &[&str]) -> std::process::Output {
+    flowzone()
+        .args(["run", "--quiet"])
+        .args(extra)
+        .arg("--config")
+        .arg(cfg)
+        .arg("--out")
+        .arg(out)
+        .output()
+        .expect("runs")
+}
+
+/// The same bytes with CRLF line endings.
+pub fn crlf(bytes: &[u8]) -> Vec<u8> {
+    let mut out = Vec::with_capacity(bytes.len() + bytes.len() / 20);
+    for &b in bytes {
+        if b == b'\n' {
+            out.push(b'\r');
+        }
+        out.push(b);
+    }
+    out
 }

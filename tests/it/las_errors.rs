@@ -8,7 +8,7 @@ use std::path::Path;
 
 use flowzone::las::{ReadOptions, read_bytes};
 
-use crate::common::{chain, root};
+use crate::common::{chain, crlf, root};
 
 const BAD: &[(&str, &str)] = &[
     (
@@ -108,17 +108,6 @@ const WARN: &[(&str, &[&str])] = &[
         ],
     ),
 ];
-
-fn crlf(bytes: &[u8]) -> Vec<u8> {
-    let mut out = Vec::with_capacity(bytes.len() + bytes.len() / 20);
-    for &b in bytes {
-        if b == b'\n' {
-            out.push(b'\r');
-        }
-        out.push(b);
-    }
-    out
-}
 
 fn corpus(dir: &str) -> Vec<String> {
     let mut names: Vec<String> = std::fs::read_dir(root().join("tests/data").join(dir))

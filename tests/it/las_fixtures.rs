@@ -7,17 +7,11 @@ use std::path::Path;
 
 use flowzone::las::{LasFile, ReadOptions, Version, read_bytes};
 
-use crate::common::{chain, root};
+use crate::common::{chain, crlf, root};
 
 fn both_endings(name: &str) -> Vec<LasFile> {
     let bytes = std::fs::read(root().join("tests/data/las").join(name)).expect("fixture");
-    let mut crlf = Vec::new();
-    for &b in &bytes {
-        if b == b'\n' {
-            crlf.push(b'\r');
-        }
-        crlf.push(b);
-    }
+    let crlf = crlf(&bytes);
     [bytes, crlf]
         .iter()
         .map(|b| {
