@@ -160,7 +160,7 @@ fn run_isolates_a_bad_well() {
     assert!(String::from_utf8_lossy(&out.stderr).contains("is inside the input folder"));
 
     let out_dir = tempfile::tempdir().expect("temp dir");
-    let out = run_config(&cfg, &out_dir.path(), &[]);
+    let out = run_config(&cfg, out_dir.path(), &[]);
     assert_eq!(
         out.status.code(),
         Some(2),
@@ -228,7 +228,7 @@ fn gradient_from_header_bht() {
     )
     .expect("config");
     let out_dir = tempfile::tempdir().expect("temp dir");
-    let out = run_config(&cfg, &out_dir.path(), &[]);
+    let out = run_config(&cfg, out_dir.path(), &[]);
     assert!(
         out.status.success(),
         "{}",
