@@ -37,6 +37,13 @@ pub trait ClassScheme: Send + Sync {
 
 /// Class number of `v` between ascending `bounds`: half-open intervals, a value
 /// on a boundary goes to the upper class (formulas.md §5 and §10).
+///
+/// ```
+/// use flowzone::classes::class_of;
+/// // the doubling FZI ladder's first bounds (formulas.md §5): 2.0 µm goes up
+/// assert_eq!(class_of(2.0, &[0.5, 1.0, 2.0, 4.0]), Some(4));
+/// assert_eq!(class_of(0.3, &[0.5, 1.0, 2.0, 4.0]), Some(1));
+/// ```
 pub fn class_of(v: f64, bounds: &[f64]) -> Option<u8> {
     if !v.is_finite() {
         return None;

@@ -162,6 +162,16 @@ pub fn read_path(path: &Path, options: ReadOptions) -> Result<LasFile, LasError>
 }
 
 /// Read a LAS file from bytes; `name` is used in errors.
+///
+/// ```
+/// use flowzone::las::{read_bytes, ReadOptions};
+/// let text = b"~V\n VERS. 2.0 :\n WRAP. NO :\n~W\n STRT.M 1500 :\n STOP.M 1500.5 :\n STEP.M 0.5 :\n NULL. -999.25 :\n~C\n DEPT.M :\n GR.GAPI :\n~A\n1500 35.2\n1500.5 -999.25\n";
+/// let las = read_bytes(text, "w.las".as_ref(), ReadOptions::default()).unwrap();
+/// assert_eq!(las.index(), &[1500.0, 1500.5]);
+/// assert!(las.curve_data("GR").unwrap()[1].is_nan()); // NULL is missing
+/// let err = read_bytes(b"~V\n VERS. 3.0 :\n", "x.las".as_ref(), ReadOptions::default()).unwrap_err();
+/// assert_eq!(flowzone::error::chain(&err), "x.las:2: LAS version `3.0` is not supported (this reader reads LAS 1.2 and 2.0; LAS 3.0 is not supported yet)");
+/// ```
 pub fn read_bytes(bytes: &[u8], name: &Path, options: ReadOptions) -> Result<LasFile, LasError> {
     Reader {
         name,
