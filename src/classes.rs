@@ -9,6 +9,7 @@
 //! [`PortSize`] (Winland R35 pore-throat size classes).
 
 pub mod flow_units;
+pub mod perm;
 
 use flow_units::{fzi, winland_r35};
 

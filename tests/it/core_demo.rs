@@ -105,3 +105,58 @@ fn core_shift_suggestion_finds_the_known_offset() {
         assert!((s.shift - known).abs() <= 0.1 + 1e-9, "{well}: {s:?}");
     }
 }
+
+/// Permeability from class and porosity on the demo core (FZI ladder as
+/// above): the class FZI of each class is near the model's class centre
+/// (0.4, 1.0, 2.5, 5.5 µm; the model spreads beds by σ 0.12 in ln FZI and adds
+/// core noise, so within 25 %), and the class FZI form predicts the core's
+/// permeability with an RMS of log10 residuals at most 0.2 (the model's core
+/// noise is σ 0.1 in log10 k, plus the bed spread, about 0.052 in log10 FZI → 0.1 in log10 k).
+#[test]
+fn permeability_from_class_on_demo_core() {
+    let core =
+        read_core_csv(&root().join("demo-wells/core.csv"), DepthUnit::Metre).expect("readable");
+    let ladder = FziLadder {
+        bounds: vec![
+            (0.4f64 * 1.0).sqrt(),
+            (1.0f64 * 2.5).sqrt(),
+            (2.5f64 * 5.5).sqrt(),
+        ],
+    };
+    let samples: Vec<(u8, f64, f64)> = core
+        .samples
+        .iter()
+        .filter_map(|s| {
+            ladder
+                .classify(s.porosity, s.perm_md)
+                .map(|c| (c, s.porosity, s.perm_md))
+        })
+        .collect();
+    let fits = flowzone::classes::perm::fit(&samples);
+    let centres = [0.4, 1.0, 2.5, 5.5];
+    for f in &fits {
+        let centre = centres[usize::from(f.class) - 1];
+        eprintln!(
+            "class {}: {} samples, FZI {:.3} um (model {centre}), rms log10 k {:.3} (FZI form), {:.3} (line)",
+            f.class, f.samples, f.fzi_um, f.fzi_rms_log10, f.line_rms_log10
+        );
+        if f.samples >= 10 {
+            assert!(
+                (f.fzi_um / centre - 1.0).abs() <= 0.25,
+                "class {}: FZI {} vs {centre}",
+                f.class,
+                f.fzi_um
+            );
+            assert!(
+                f.fzi_rms_log10 <= 0.2,
+                "class {}: rms {}",
+                f.class,
+                f.fzi_rms_log10
+            );
+        }
+    }
+    assert!(
+        fits.iter().filter(|f| f.samples >= 10).count() >= 3,
+        "{fits:?}"
+    );
+}
