@@ -192,6 +192,16 @@ impl Default for DepthConfig {
     }
 }
 
+impl DepthConfig {
+    /// The settings of a well known by any of `names` (case-insensitive).
+    pub fn for_well(&self, names: &[&str]) -> Option<&WellDepth> {
+        self.well
+            .iter()
+            .find(|(k, _)| names.iter().any(|n| k.eq_ignore_ascii_case(n)))
+            .map(|(_, w)| w)
+    }
+}
+
 /// `[depth.well."NAME"]`
 #[derive(Debug, Clone, Deserialize, Default)]
 #[serde(deny_unknown_fields, rename_all = "kebab-case")]

@@ -103,28 +103,24 @@ pub fn write_demo(out: &Path, seed: u64) -> Result<(), Error> {
         )?;
     }
     for (name, text) in &field.tables {
-        let path = out.join(name);
-        write_atomic(&path, |f| {
-            f.write_all(text.as_bytes())
-                .map_err(|source| crate::output::OutputError::Io {
-                    path: path.clone(),
-                    source,
-                })
-        })?;
+        write_text(&out.join(name), text)?;
     }
-    let readme = out.join("README.md");
-    let text = synth::scenario_markdown(&field);
-    write_atomic(&readme, |f| {
-        f.write_all(text.as_bytes())
-            .map_err(|source| crate::output::OutputError::Io {
-                path: readme.clone(),
-                source,
-            })
-    })?;
+    write_text(&out.join("README.md"), &synth::scenario_markdown(&field))?;
     eprintln!(
         "wrote the demo field ({} wells, seed {seed}) to {}",
         field.wells.len(),
         out.display()
     );
     Ok(())
+}
+
+/// Write a text file atomically.
+fn write_text(path: &Path, text: &str) -> Result<(), crate::output::OutputError> {
+    write_atomic(path, |f| {
+        f.write_all(text.as_bytes())
+            .map_err(|source| crate::output::OutputError::Io {
+                path: path.to_path_buf(),
+                source,
+            })
+    })
 }

@@ -111,13 +111,7 @@ fn elevation(
 ) -> (Option<f64>, String) {
     let cfg = &ctx.config;
     let depth_unit = cfg.project.depth_unit;
-    if let Some(v) = cfg
-        .depth
-        .well
-        .iter()
-        .find(|(k, _)| names.iter().any(|n| k.eq_ignore_ascii_case(n)))
-        .and_then(|(_, w)| w.elevation)
-    {
+    if let Some(v) = cfg.depth.for_well(names).and_then(|w| w.elevation) {
         return (Some(v), "config".into());
     }
     for m in &cfg.depth.elevation_mnemonics {
@@ -268,12 +262,7 @@ pub fn process_file(
 
     // depth reference
     let (elev, elevation_source) = elevation(file, &names, ctx, &mut warnings);
-    let well_depth = config
-        .depth
-        .well
-        .iter()
-        .find(|(k, _)| names.iter().any(|n| k.eq_ignore_ascii_case(n)))
-        .map(|(_, w)| w);
+    let well_depth = config.depth.for_well(&names);
     let (tvd, deviated) = match well_depth.and_then(|w| w.survey.as_ref()) {
         Some(p) => (
             tvd_at(&md, &read_survey(&config.resolve_path(p), depth_unit)?),
@@ -321,9 +310,6 @@ pub fn process_file(
                 .collect(),
             None => Vec::new(),
         };
-        if in_zone.is_empty() {
-            // a zone with no samples in this well: nothing to set up beyond a placeholder
-        }
         let [lo, hi] = params.gr_pick_percentiles;
         let (clean, shale, picked) = match (params.gr_clean_gapi, params.gr_shale_gapi) {
             (Some(c), Some(s)) => (c, s, false),
