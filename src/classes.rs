@@ -8,6 +8,7 @@
 //! Schemes: [`FziLadder`] (boundaries in FZI, explicit or geometric) and
 //! [`PortSize`] (Winland R35 pore-throat size classes).
 
+pub mod clusters;
 pub mod flow_units;
 pub mod perm;
 
@@ -115,6 +116,86 @@ impl ClassScheme for PortSize {
     }
     fn value(&self, phi: f64, k_md: f64) -> f64 {
         winland_r35(k_md, phi)
+    }
+}
+
+/// Classes from a Gaussian mixture fitted to the core's log10 FZI
+/// ([`clusters::fit_log_fzi`]); boundaries where adjacent components' weighted
+/// densities are equal.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FziClusters {
+    pub fit: clusters::MixtureFit,
+}
+
+impl ClassScheme for FziClusters {
+    fn name(&self) -> String {
+        "fzi-clusters".into()
+    }
+    fn boundaries(&self) -> Vec<f64> {
+        self.fit.boundaries_um.clone()
+    }
+    fn quantity(&self) -> &'static str {
+        "FZI (um)"
+    }
+    fn value(&self, phi: f64, k_md: f64) -> f64 {
+        fzi(k_md, phi)
+    }
+}
+
+/// Floor of a cluster's spread in log10 FZI, so a component cannot collapse
+/// onto a few equal samples (a design choice: a factor of 1.05 in FZI).
+pub const CLUSTER_MIN_SD_LOG10: f64 = 0.02;
+
+/// Build a configured scheme; data-driven schemes are fitted to `core`
+/// (φ v/v, k mD pairs).
+pub fn build(
+    spec: &crate::config::SchemeSpec,
+    core: &[(f64, f64)],
+) -> Result<Box<dyn ClassScheme>, String> {
+    use crate::config::SchemeSpec;
+    Ok(match spec {
+        SchemeSpec::FziLadder {
+            bounds: Some(b), ..
+        } => Box::new(FziLadder { bounds: b.clone() }),
+        SchemeSpec::FziLadder {
+            start: Some(s),
+            ratio: Some(r),
+            count: Some(n),
+            ..
+        } => Box::new(FziLadder::geometric(*s, *r, *n)),
+        SchemeSpec::FziLadder { .. } => {
+            return Err("give either bounds, or start, ratio and count".into());
+        }
+        SchemeSpec::PortSize { bounds } => Box::new(PortSize {
+            bounds: bounds
+                .clone()
+                .unwrap_or_else(|| PORT_SIZE_BOUNDS_UM.to_vec()),
+        }),
+        SchemeSpec::FziClusters {
+            max_classes,
+            min_samples_per_class,
+        } => {
+            let values: Vec<f64> = core.iter().map(|(p, k)| fzi(*k, *p)).collect();
+            Box::new(FziClusters {
+                fit: clusters::fit_log_fzi(
+                    &values,
+                    *max_classes,
+                    *min_samples_per_class,
+                    CLUSTER_MIN_SD_LOG10,
+                )?,
+            })
+        }
+    })
+}
+
+/// The name, kind, quantity and boundaries of a scheme, for outputs.
+pub fn info(name: &str, scheme: &dyn ClassScheme) -> crate::predictor::model_file::SchemeInfo {
+    crate::predictor::model_file::SchemeInfo {
+        name: name.to_string(),
+        kind: scheme.name(),
+        quantity: scheme.quantity().to_string(),
+        boundaries: scheme.boundaries(),
+        class_count: scheme.class_count(),
     }
 }
 

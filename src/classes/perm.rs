@@ -6,12 +6,12 @@
 //!   FZI) in k = 1014.24·FZI²·φ³/(1 − φ)² (Amaefule et al. 1993);
 //! - a least-squares line log10 k = a + b·φ per class (common practice).
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 use super::flow_units::{fzi, perm_from_fzi};
 
 /// Per-class permeability models.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct ClassPerm {
     pub class: u8,
     pub samples: usize,
@@ -19,10 +19,11 @@ pub struct ClassPerm {
     pub fzi_um: f64,
     /// RMS of log10(k_core / k_model) for the FZI form.
     pub fzi_rms_log10: f64,
-    /// log10 k = intercept + slope·φ (φ in v/v); NaN with fewer than 3 samples.
-    pub intercept: f64,
-    pub slope: f64,
-    pub line_rms_log10: f64,
+    /// log10 k = intercept + slope·φ (φ in v/v); `None` with fewer than 3
+    /// samples or no spread in porosity.
+    pub intercept: Option<f64>,
+    pub slope: Option<f64>,
+    pub line_rms_log10: Option<f64>,
 }
 
 impl ClassPerm {
@@ -31,9 +32,20 @@ impl ClassPerm {
         perm_from_fzi(self.fzi_um, phi)
     }
 
-    /// k (mD) at porosity φ by the regression line.
-    pub fn perm_line(&self, phi: f64) -> f64 {
-        10f64.powf(self.intercept + self.slope * phi)
+    /// k (mD) at porosity φ by the regression line, `None` without a line.
+    pub fn perm_line(&self, phi: f64) -> Option<f64> {
+        Some(10f64.powf(self.intercept? + self.slope? * phi))
+    }
+
+    /// k (mD) at porosity φ by `method`; the line falls back to the FZI form
+    /// for a class without a line.
+    pub fn perm(&self, method: crate::config::PermMethod, phi: f64) -> f64 {
+        match method {
+            crate::config::PermMethod::Fzi => self.perm_fzi(phi),
+            crate::config::PermMethod::Line => {
+                self.perm_line(phi).unwrap_or_else(|| self.perm_fzi(phi))
+            }
+        }
     }
 }
 
@@ -69,17 +81,19 @@ pub fn fit(samples: &[(u8, f64, f64)]) -> Vec<ClassPerm> {
             let fzi_rms_log10 = rms(s
                 .iter()
                 .map(|(p, k)| (k / perm_from_fzi(fzi_um, *p)).log10()));
-            let (intercept, slope) = if n >= 3 {
+            let line = if n >= 3 {
                 let mx = s.iter().map(|x| x.0).sum::<f64>() / n as f64;
                 let my = s.iter().map(|x| x.1.log10()).sum::<f64>() / n as f64;
                 let sxx: f64 = s.iter().map(|x| (x.0 - mx).powi(2)).sum();
                 let sxy: f64 = s.iter().map(|x| (x.0 - mx) * (x.1.log10() - my)).sum();
                 let b = sxy / sxx;
-                (my - b * mx, b)
+                (sxx > 0.0).then_some((my - b * mx, b))
             } else {
-                (f64::NAN, f64::NAN)
+                None
             };
-            let line_rms_log10 = rms(s.iter().map(|(p, k)| k.log10() - (intercept + slope * p)));
+            let line_rms_log10 =
+                line.map(|(a, b)| rms(s.iter().map(|(p, k)| k.log10() - (a + b * p))));
+            let (intercept, slope) = (line.map(|l| l.0), line.map(|l| l.1));
             ClassPerm {
                 class: c,
                 samples: n,
@@ -116,8 +130,17 @@ mod tests {
             .map(|&p| (2, p, 10f64.powf(-1.0 + 15.0 * p)))
             .collect();
         let g = fit(&on_line);
-        assert_close(g[0].intercept, -1.0, 1e-9);
-        assert_close(g[0].slope, 15.0, 1e-9);
-        assert_close(g[0].perm_line(0.1), 10f64.powf(0.5), 1e-9);
+        assert_close(g[0].intercept.expect("line"), -1.0, 1e-9);
+        assert_close(g[0].slope.expect("line"), 15.0, 1e-9);
+        assert_close(g[0].perm_line(0.1).expect("line"), 10f64.powf(0.5), 1e-9);
+        // two samples: no line, and the line method falls back to the FZI form
+        let two = fit(&on_fzi[..2]);
+        assert_eq!(two[0].perm_line(0.2), None);
+        assert_close(
+            two[0].perm(crate::config::PermMethod::Line, 0.2),
+            perm_from_fzi(2.0, 0.2),
+            // the class FZI comes back to 2e-7 relative (1014.24 rounded), k to twice that
+            5e-7 * perm_from_fzi(2.0, 0.2),
+        );
     }
 }
