@@ -6,6 +6,7 @@ use std::path::PathBuf;
 
 use clap::{Parser, Subcommand};
 
+use crate::classify::Mode;
 use crate::config::{Config, Format};
 use crate::error::{Error, chain};
 use crate::las::{self, ReadOptions};
@@ -70,6 +71,38 @@ pub enum Command {
         #[arg(long)]
         keep_going: bool,
     },
+    /// Core: match the core file to the wells, apply the accepted depth
+    /// shifts, write the core table (RQI, FZI, R35, class per scheme) and
+    /// print a suggested core-to-log shift per cored well.
+    Core {
+        /// Project config (TOML) with a [core] section.
+        #[arg(long)]
+        config: PathBuf,
+        /// Output folder (core/core-table.csv, core/core-report.json).
+        #[arg(long)]
+        out: PathBuf,
+        /// No progress lines.
+        #[arg(long)]
+        quiet: bool,
+    },
+    /// Train the class predictor on the core and score it leave-one-well-out
+    /// against two baselines; save the model and its report.
+    Train {
+        /// Project config (TOML) with [core] and [classes].
+        #[arg(long)]
+        config: PathBuf,
+        /// Output folder (model/class-model.fzm, model/training-report.*, core/).
+        #[arg(long)]
+        out: PathBuf,
+        /// No progress lines.
+        #[arg(long)]
+        quiet: bool,
+    },
+    /// Hydraulic class schemes.
+    Classes {
+        #[command(subcommand)]
+        command: ClassesCommand,
+    },
     /// Write the invented demo field (LAS wells and CSV tables) made by the
     /// synthetic forward model.
     Demo {
@@ -79,6 +112,22 @@ pub enum Command {
         /// Random seed of the model.
         #[arg(long, default_value_t = crate::synth::DEMO_SEED)]
         seed: u64,
+    },
+}
+
+/// `flowzone classes ...`
+#[derive(Debug, Subcommand)]
+pub enum ClassesCommand {
+    /// Compare every scheme of [classes.scheme] on the core: classes used,
+    /// samples per class, log-k spread at given porosity, and the
+    /// leave-one-well-out error of permeability from class and porosity.
+    Compare {
+        /// Project config (TOML) with [core] and [classes].
+        #[arg(long)]
+        config: PathBuf,
+        /// Print JSON instead of text.
+        #[arg(long)]
+        json: bool,
     },
 }
 
@@ -104,6 +153,11 @@ pub fn run(args: Args) -> Result<(), Error> {
             keep_going,
         } => cmd_run(&config, out, threads, quiet, keep_going),
         Command::Demo { out, seed } => crate::demo::write_demo(&out, seed),
+        Command::Core { config, out, quiet } => cmd_class_stage(&config, &out, quiet, Mode::Core),
+        Command::Train { config, out, quiet } => cmd_class_stage(&config, &out, quiet, Mode::Train),
+        Command::Classes {
+            command: ClassesCommand::Compare { config, json },
+        } => cmd_compare(&config, json),
     }
 }
 
@@ -215,6 +269,110 @@ fn cmd_run(
             total: summary.wells_total,
             what: "wells",
         });
+    }
+    Ok(())
+}
+
+fn cmd_class_stage(
+    config_path: &std::path::Path,
+    out: &std::path::Path,
+    quiet: bool,
+    mode: Mode,
+) -> Result<(), Error> {
+    let config = Config::load(config_path)?;
+    if mode == Mode::Train && config.classes.is_none() {
+        return Err(Error::Usage(
+            "the config has no [classes] section: which scheme should the model predict?".into(),
+        ));
+    }
+    let files = config.well_files()?;
+    let inputs: Vec<PathBuf> = config
+        .input
+        .wells
+        .iter()
+        .map(|p| config.resolve_path(p))
+        .collect();
+    field::check_out_dir(out, &inputs)?;
+    let ctx = crate::well::RunContext::new(config).map_err(|e| Error::Usage(chain(&e)))?;
+    let prepared = crate::classify::prepare(&ctx, &files, out, mode, !quiet)?;
+    let summary = &prepared.summary;
+    for r in &summary.core_rejected {
+        eprintln!("core: line {}: left out: {}", r.line, r.reason);
+    }
+    let stdout = std::io::stdout();
+    let mut o = stdout.lock();
+    match mode {
+        Mode::Core => {
+            let _ = writeln!(
+                o,
+                "{:<16} {:>8} {:>10} {:>10} {:>8} {:>12} {:>8}",
+                "well", "samples", "suggested", "best", "r", "r unshifted", "applied"
+            );
+            for (w, s) in &summary.shift_suggestions {
+                let n = prepared
+                    .core
+                    .as_ref()
+                    .map_or(0, |c| c.samples.iter().filter(|m| &m.well == w).count());
+                let applied = summary.shifts_applied.get(w).copied().unwrap_or(0.0);
+                match s {
+                    Some(s) => {
+                        let _ = writeln!(
+                            o,
+                            "{w:<16} {n:>8} {:>10.2} {:>10.2} {:>8.3} {:>12.3} {applied:>8.2}",
+                            s.shift, s.best_shift, s.correlation, s.correlation_unshifted
+                        );
+                    }
+                    None => {
+                        let _ = writeln!(
+                            o,
+                            "{w:<16} {n:>8} {:>10} (too little overlap with the log)",
+                            "-"
+                        );
+                    }
+                }
+            }
+            let _ = writeln!(
+                o,
+                "shifts are added to core depths; accept one by writing it under [core.shift] in the config"
+            );
+        }
+        Mode::Train | Mode::Run => {
+            if let Some(setup) = &prepared.setup {
+                let _ = write!(
+                    o,
+                    "{}",
+                    crate::classify::report_text(&setup.model.header, summary)
+                );
+            }
+        }
+    }
+    if !quiet {
+        for p in &summary.outputs {
+            eprintln!("wrote {p}");
+        }
+    }
+    Ok(())
+}
+
+fn cmd_compare(config_path: &std::path::Path, json: bool) -> Result<(), Error> {
+    let config = Config::load(config_path)?;
+    let (Some(core_cfg), Some(classes)) = (&config.core, &config.classes) else {
+        return Err(Error::Usage(
+            "classes compare needs [core] and [classes] in the config".into(),
+        ));
+    };
+    let data = crate::core_set::load(&config, core_cfg).map_err(|e| Error::Usage(chain(&e)))?;
+    for r in &data.rejected {
+        eprintln!("core: line {}: left out: {}", r.line, r.reason);
+    }
+    let rows = crate::compare::compare(classes, &data.samples).map_err(Error::Usage)?;
+    let stdout = std::io::stdout();
+    let mut o = stdout.lock();
+    if json {
+        let _ = serde_json::to_writer_pretty(&mut o, &rows);
+        let _ = writeln!(o);
+    } else {
+        let _ = write!(o, "{}", crate::compare::to_text(&rows, data.samples.len()));
     }
     Ok(())
 }

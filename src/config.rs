@@ -13,6 +13,9 @@ use serde::Deserialize;
 use crate::curves::{AliasTable, LogicalCurve};
 use crate::units::DepthUnit;
 
+mod classes;
+pub use classes::{ClassesConfig, CoreConfig, CoreFormat, PermMethod, PredictorConfig, SchemeSpec};
+
 /// An error loading a config file.
 #[derive(Debug, thiserror::Error)]
 pub enum ConfigError {
@@ -54,6 +57,12 @@ pub struct Config {
     pub zones: ZonesConfig,
     #[serde(default)]
     pub parameters: crate::params::Parameters,
+    #[serde(default)]
+    pub core: Option<CoreConfig>,
+    #[serde(default)]
+    pub classes: Option<ClassesConfig>,
+    #[serde(default)]
+    pub predictor: Option<PredictorConfig>,
     /// The folder the config file is in; relative paths start here.
     #[serde(skip)]
     pub base_dir: PathBuf,
@@ -260,6 +269,13 @@ impl Config {
         if let Err((key, message)) = self.parameters.validate() {
             return Err(invalid(&key, message));
         }
+        if let Err((key, message)) = classes::validate(
+            self.core.as_ref(),
+            self.classes.as_ref(),
+            self.predictor.as_ref(),
+        ) {
+            return Err(invalid(&key, message));
+        }
         for (curve, list) in &self.curves.aliases {
             if list.is_empty() {
                 return Err(invalid(
@@ -385,6 +401,49 @@ mod tests {
         assert_eq!(
             chain(&err),
             "config `t.toml`: key `parameters.field.rho-fluid-gcc`: 2.7 must be below the matrix density (2.65)"
+        );
+    }
+
+    /// Class settings are checked at load, with the key.
+    #[test]
+    fn class_settings_refused_at_load() {
+        let scheme = "[classes]\nuse = \"f\"\n[classes.scheme.f]\nkind = \"fzi-ladder\"\n";
+        let err = parse(&format!("{scheme}bounds = [1.0, 0.5]\n")).expect_err("descending");
+        assert_eq!(
+            chain(&err),
+            "config `t.toml`: key `classes.scheme.f`: bounds must be positive and ascending (1 to 249 of them)"
+        );
+        let err = parse(&format!("{scheme}start = 0.25\n")).expect_err("half a series");
+        assert_eq!(
+            chain(&err),
+            "config `t.toml`: key `classes.scheme.f`: give either bounds, or start, ratio and count"
+        );
+        parse(&format!("{scheme}start = 0.25\nratio = 2.0\ncount = 8\n")).expect("geometric");
+        let err = parse("[classes]\nuse = \"g\"\n[classes.scheme.f]\nkind = \"port-size\"\n")
+            .expect_err("unknown scheme");
+        assert_eq!(
+            chain(&err),
+            "config `t.toml`: key `classes.use`: `g` is not a scheme of [classes.scheme] (have: f)"
+        );
+        let err = parse("[predictor]\nseed = 1\n").expect_err("no classes");
+        assert_eq!(
+            chain(&err),
+            "config `t.toml`: key `predictor`: needs [classes] (which scheme it predicts)"
+        );
+        let err = parse(&format!(
+            "{scheme}bounds = [1.0]\n[core]\nfile = \"c.csv\"\n[predictor]\nfeatures = [\"VSH\", \"PEF\"]\n"
+        ))
+        .expect_err("unknown feature");
+        assert_eq!(
+            chain(&err),
+            "config `t.toml`: key `predictor.features`: `PEF` is not a feature (valid: VSH, PHIE, GR, RHOB, NPHI, DT, LOG10_RT)"
+        );
+        let err = parse("[classes]\nuse = \"f\"\n[classes.scheme.f]\nkind = \"kmeans\"\n")
+            .expect_err("unknown kind");
+        assert!(
+            chain(&err).contains("unknown variant `kmeans`"),
+            "{}",
+            chain(&err)
         );
     }
 

@@ -29,6 +29,8 @@ pub struct WellReport {
     pub warnings: Vec<String>,
     /// Depth reference, zones with their parameters and picks, and what was clipped or flagged.
     pub stages: Option<well::WellReport>,
+    /// Depths classed, per class, and why others have no class.
+    pub classes: Option<crate::classify::ClassCounts>,
 }
 
 /// The run summary (also written as run-summary.json).
@@ -38,6 +40,8 @@ pub struct RunSummary {
     pub project: String,
     pub wells_total: usize,
     pub wells_failed: usize,
+    /// Core, scheme and class model of the run (when `[core]` or `[classes]` is set).
+    pub classes: Option<crate::classify::ClassSummary>,
     pub wells: Vec<WellReport>,
 }
 
@@ -93,6 +97,18 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         .collect();
     check_out_dir(out, &inputs)?;
     let ctx = well::RunContext::new(config.clone()).map_err(|e| Error::Usage(chain(&e)))?;
+    let prepared = if config.core.is_some() || config.classes.is_some() {
+        Some(crate::classify::prepare(
+            &ctx,
+            &files,
+            out,
+            crate::classify::Mode::Run,
+            progress,
+        )?)
+    } else {
+        None
+    };
+    let setup = prepared.as_ref().and_then(|p| p.setup.as_ref());
     let wells_dir = out.join("wells");
     std::fs::create_dir_all(&wells_dir).map_err(|source| Error::Io {
         path: wells_dir.clone(),
@@ -116,7 +132,7 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         .par_iter()
         .zip(stems.par_iter())
         .map(|(path, stem)| {
-            let report = one_well(path, stem, &ctx, &wells_dir);
+            let report = one_well(path, stem, &ctx, setup, &wells_dir);
             let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
             if progress {
                 let status = if report.ok { "ok" } else { "FAILED" };
@@ -132,6 +148,7 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         project: config.project.name.clone(),
         wells_total: total,
         wells_failed: failed,
+        classes: prepared.map(|p| p.summary),
         wells: reports,
     };
     let summary_path = out.join("run-summary.json");
@@ -144,7 +161,13 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
     Ok(summary)
 }
 
-fn one_well(path: &Path, stem: &str, ctx: &well::RunContext, dir: &Path) -> WellReport {
+fn one_well(
+    path: &Path,
+    stem: &str,
+    ctx: &well::RunContext,
+    setup: Option<&crate::classify::ClassSetup>,
+    dir: &Path,
+) -> WellReport {
     let config = &ctx.config;
     let mut report = WellReport {
         file: path.display().to_string(),
@@ -156,9 +179,14 @@ fn one_well(path: &Path, stem: &str, ctx: &well::RunContext, dir: &Path) -> Well
         curves: Vec::new(),
         warnings: Vec::new(),
         stages: None,
+        classes: None,
     };
     let result: Result<(), WellError> = (|| {
-        let out = well::process(path, ctx)?;
+        let mut out = well::process(path, ctx)?;
+        if let Some(setup) = setup {
+            let name = out.name.clone();
+            report.classes = Some(setup.apply(&mut out.table, &name, &mut out.warnings));
+        }
         report.well = Some(out.name.clone());
         report.rows = out.table.n_rows();
         report.warnings = out.warnings.clone();

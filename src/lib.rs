@@ -14,6 +14,10 @@
 //! - [`config`]: the project config (TOML).
 //! - [`well`]: one well through the stages; [`field`]: many wells in parallel.
 //! - [`output`]: depth-indexed tables written as CSV, Parquet and LAS.
+//! - [`core_data`], [`core_set`]: core plugs read, matched to wells and shifted.
+//! - [`classes`]: flow-unit quantities, class schemes, permeability per class.
+//! - [`predictor`]: the random-forest class predictor and its model file;
+//!   [`classify`]: the class stage of a run (train or load, apply to wells).
 //! - [`inspect`], [`export`]: the `inspect` and `export` commands.
 //! - [`synth`], [`demo`]: the synthetic forward model behind the invented demo field.
 //! - [`cli`]: the command line.
@@ -23,9 +27,12 @@
 //! and used under local regulation and licensed practice.
 
 pub mod classes;
+pub mod classify;
 pub mod cli;
+pub mod compare;
 pub mod config;
 pub mod core_data;
+pub mod core_set;
 pub mod curves;
 pub mod demo;
 pub mod depth;
@@ -37,6 +44,7 @@ pub mod las;
 pub mod output;
 pub mod params;
 pub mod petro;
+pub mod predictor;
 pub mod saturation;
 pub mod stages;
 pub mod synth;

@@ -32,6 +32,9 @@ pub const FLAG_MISSING_INPUT: u32 = 4;
 pub const FLAG_OUTSIDE_ZONE: u32 = 8;
 /// FLAG bit: a computed value was clipped to its physical bounds.
 pub const FLAG_CLIPPED: u32 = 16;
+/// The predicted class won less than the configured share of votes
+/// (set by the class predictor, [`crate::classify`]).
+pub const FLAG_LOW_CLASS_PROBABILITY: u32 = 32;
 
 /// Physical ranges of input curves (common practice: values outside cannot be
 /// measurements of rock and usually mark tool or depth-matching problems).

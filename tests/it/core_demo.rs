@@ -138,7 +138,11 @@ fn permeability_from_class_on_demo_core() {
         let centre = centres[usize::from(f.class) - 1];
         eprintln!(
             "class {}: {} samples, FZI {:.3} um (model {centre}), rms log10 k {:.3} (FZI form), {:.3} (line)",
-            f.class, f.samples, f.fzi_um, f.fzi_rms_log10, f.line_rms_log10
+            f.class,
+            f.samples,
+            f.fzi_um,
+            f.fzi_rms_log10,
+            f.line_rms_log10.unwrap_or(f64::NAN)
         );
         if f.samples >= 10 {
             assert!(

@@ -1,0 +1,369 @@
+//! `[core]`, `[classes]` and `[predictor]`: core data, hydraulic class
+//! schemes and the trained class predictor.
+
+use std::collections::BTreeMap;
+use std::path::PathBuf;
+
+use serde::Deserialize;
+
+/// `[core]`: core plugs and their depth match to the logs.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct CoreConfig {
+    /// Core file: a CSV (WELL, DEPTH_MD, POROSITY..., PERM_MD) or an SPWLA
+    /// core-data file.
+    pub file: PathBuf,
+    /// "csv", "spwla" or "auto" (by extension: `.csv` is CSV, anything else SPWLA). Default "auto".
+    #[serde(default)]
+    pub format: CoreFormat,
+    /// Depth unit of an SPWLA file (CSV files say theirs per row). Default "m".
+    #[serde(default)]
+    pub spwla_depth_unit: crate::units::DepthUnit,
+    /// Accepted core-to-log depth shifts by well, in the project's depth unit,
+    /// added to the core depth (`"Tarnby-3" = -0.6`). A suggestion from
+    /// `flowzone core` is applied only once it is written here.
+    #[serde(default)]
+    pub shift: BTreeMap<String, f64>,
+    /// Half-width of the shift search, project depth unit. Default 2.0.
+    #[serde(default = "default_shift_window")]
+    pub shift_window: f64,
+    /// Step of the shift search, project depth unit. Default 0.05.
+    #[serde(default = "default_shift_step")]
+    pub shift_step: f64,
+    /// Least rise in correlation (core vs log porosity) for a shift to be
+    /// suggested over no shift. Default 0.01.
+    #[serde(default = "default_shift_min_gain")]
+    pub shift_min_gain: f64,
+}
+
+fn default_shift_window() -> f64 {
+    2.0
+}
+fn default_shift_step() -> f64 {
+    0.05
+}
+fn default_shift_min_gain() -> f64 {
+    0.01
+}
+
+/// Core file format.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, Default)]
+#[serde(rename_all = "kebab-case")]
+pub enum CoreFormat {
+    #[default]
+    Auto,
+    Csv,
+    Spwla,
+}
+
+/// `[classes]`: the schemes that turn core into hydraulic classes.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct ClassesConfig {
+    /// The scheme (a key of `[classes.scheme]`) whose classes the run predicts
+    /// and writes as CLASS.
+    #[serde(rename = "use")]
+    pub use_scheme: String,
+    /// Permeability from class and porosity: "fzi" (the class's FZI in the
+    /// Amaefule relation) or "line" (the class's log10 k vs porosity line).
+    /// Default "fzi".
+    #[serde(default)]
+    pub perm_method: PermMethod,
+    /// Schemes by name; `flowzone classes compare` reports every one.
+    pub scheme: BTreeMap<String, SchemeSpec>,
+}
+
+/// Permeability transform per class.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, Default)]
+#[serde(rename_all = "kebab-case")]
+pub enum PermMethod {
+    #[default]
+    Fzi,
+    Line,
+}
+
+/// One class scheme, `kind = ...` with its settings.
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(
+    tag = "kind",
+    rename_all = "kebab-case",
+    rename_all_fields = "kebab-case",
+    deny_unknown_fields
+)]
+pub enum SchemeSpec {
+    /// FZI boundaries in µm, given (`bounds`) or geometric (`start`, `ratio`, `count`).
+    FziLadder {
+        #[serde(default)]
+        bounds: Option<Vec<f64>>,
+        #[serde(default)]
+        start: Option<f64>,
+        #[serde(default)]
+        ratio: Option<f64>,
+        #[serde(default)]
+        count: Option<usize>,
+    },
+    /// Winland R35 pore-throat classes; `bounds` in µm, default the published
+    /// 0.1, 0.5, 2, 10.
+    PortSize {
+        #[serde(default)]
+        bounds: Option<Vec<f64>>,
+    },
+    /// Classes from a Gaussian mixture on log10 FZI of the core, the number
+    /// of classes chosen by BIC (at most `max-classes`, default 6; at least
+    /// `min-samples-per-class` samples per class on average, default 10).
+    FziClusters {
+        #[serde(default = "default_max_classes")]
+        max_classes: usize,
+        #[serde(default = "default_min_per_class")]
+        min_samples_per_class: usize,
+    },
+}
+
+fn default_max_classes() -> usize {
+    6
+}
+fn default_min_per_class() -> usize {
+    10
+}
+
+/// `[predictor]`: the random forest that assigns classes from logs.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct PredictorConfig {
+    /// Log features, by output name: any of VSH, PHIE, GR, RHOB, NPHI, DT,
+    /// LOG10_RT. Default ["VSH", "PHIE", "RHOB", "NPHI", "LOG10_RT"].
+    #[serde(default = "default_features")]
+    pub features: Vec<String>,
+    /// A model saved by `flowzone train`; when absent, `run` trains one from
+    /// the core first.
+    #[serde(default)]
+    pub model: Option<PathBuf>,
+    /// Trees in the forest. Default 100.
+    #[serde(default = "default_trees")]
+    pub trees: u16,
+    /// Deepest split. Default 10.
+    #[serde(default = "default_max_depth")]
+    pub max_depth: u16,
+    /// Fewest training samples in a leaf. Default 2.
+    #[serde(default = "default_min_leaf")]
+    pub min_samples_leaf: usize,
+    /// Random seed (bootstrap and split features). Default 20250611.
+    #[serde(default = "default_seed")]
+    pub seed: u64,
+    /// A depth whose class won less than this share of the trees' votes is
+    /// flagged (FLAG 32). Default 0.5.
+    #[serde(default = "default_min_probability")]
+    pub min_probability: f64,
+    /// Depths with VSH above this are shale and get no class. Default 0.5.
+    #[serde(default = "default_max_vsh")]
+    pub max_vsh: f64,
+    /// A well without one of the feature curves gets classes from a model
+    /// trained without it (true), or no classes (false). Default true.
+    #[serde(default = "default_true")]
+    pub allow_reduced_features: bool,
+    /// Greatest distance from a core depth (after shift) to the log sample
+    /// used for its features, project depth unit. Default 0.25.
+    #[serde(default = "default_max_core_distance")]
+    pub max_core_distance: f64,
+}
+
+fn default_features() -> Vec<String> {
+    ["VSH", "PHIE", "RHOB", "NPHI", "LOG10_RT"]
+        .iter()
+        .map(|s| s.to_string())
+        .collect()
+}
+fn default_trees() -> u16 {
+    100
+}
+fn default_max_depth() -> u16 {
+    10
+}
+fn default_min_leaf() -> usize {
+    2
+}
+fn default_seed() -> u64 {
+    20_250_611
+}
+fn default_min_probability() -> f64 {
+    0.5
+}
+fn default_max_vsh() -> f64 {
+    0.5
+}
+fn default_true() -> bool {
+    true
+}
+fn default_max_core_distance() -> f64 {
+    0.25
+}
+
+impl Default for PredictorConfig {
+    fn default() -> Self {
+        PredictorConfig {
+            features: default_features(),
+            model: None,
+            trees: default_trees(),
+            max_depth: default_max_depth(),
+            min_samples_leaf: default_min_leaf(),
+            seed: default_seed(),
+            min_probability: default_min_probability(),
+            max_vsh: default_max_vsh(),
+            allow_reduced_features: true,
+            max_core_distance: default_max_core_distance(),
+        }
+    }
+}
+
+/// Check the class settings; `Err((key, message))`.
+pub fn validate(
+    core: Option<&CoreConfig>,
+    classes: Option<&ClassesConfig>,
+    predictor: Option<&PredictorConfig>,
+) -> Result<(), (String, String)> {
+    if let Some(c) = core {
+        if !(c.shift_window > 0.0 && c.shift_step > 0.0 && c.shift_step <= c.shift_window) {
+            return Err((
+                "core.shift-step".into(),
+                format!(
+                    "{} must be above 0 and at most shift-window ({})",
+                    c.shift_step, c.shift_window
+                ),
+            ));
+        }
+        for (well, s) in &c.shift {
+            if !s.is_finite() {
+                return Err((
+                    format!("core.shift.\"{well}\""),
+                    format!("{s} is not a number"),
+                ));
+            }
+        }
+    }
+    if let Some(cl) = classes {
+        if !cl.scheme.contains_key(&cl.use_scheme) {
+            return Err((
+                "classes.use".into(),
+                format!(
+                    "`{}` is not a scheme of [classes.scheme] (have: {})",
+                    cl.use_scheme,
+                    cl.scheme.keys().cloned().collect::<Vec<_>>().join(", ")
+                ),
+            ));
+        }
+        for (name, spec) in &cl.scheme {
+            let key = format!("classes.scheme.{name}");
+            spec.check().map_err(|m| (key, m))?;
+        }
+    }
+    if let Some(p) = predictor {
+        if classes.is_none() {
+            return Err((
+                "predictor".into(),
+                "needs [classes] (which scheme it predicts)".into(),
+            ));
+        }
+        if p.model.is_none() && core.is_none() {
+            return Err((
+                "predictor.model".into(),
+                "no saved model and no [core] to train one from".into(),
+            ));
+        }
+        if p.features.is_empty() {
+            return Err(("predictor.features".into(), "the list is empty".into()));
+        }
+        for f in &p.features {
+            if crate::predictor::Feature::parse(f).is_none() {
+                return Err((
+                    "predictor.features".into(),
+                    format!(
+                        "`{f}` is not a feature (valid: {})",
+                        crate::predictor::Feature::ALL
+                            .iter()
+                            .map(|f| f.name())
+                            .collect::<Vec<_>>()
+                            .join(", ")
+                    ),
+                ));
+            }
+        }
+        if p.trees == 0 || p.max_depth == 0 || p.min_samples_leaf == 0 {
+            return Err((
+                "predictor.trees".into(),
+                "trees, max-depth and min-samples-leaf must be at least 1".into(),
+            ));
+        }
+        if !(0.0..=1.0).contains(&p.min_probability) {
+            return Err((
+                "predictor.min-probability".into(),
+                format!("{} is outside 0-1", p.min_probability),
+            ));
+        }
+        if !(p.max_vsh > 0.0 && p.max_vsh <= 1.0) {
+            return Err((
+                "predictor.max-vsh".into(),
+                format!("{} is outside (0, 1]", p.max_vsh),
+            ));
+        }
+    }
+    Ok(())
+}
+
+impl SchemeSpec {
+    fn check(&self) -> Result<(), String> {
+        let ascending_positive = |b: &[f64]| {
+            !b.is_empty()
+                && b.iter().all(|v| v.is_finite() && *v > 0.0)
+                && b.windows(2).all(|w| w[0] < w[1])
+        };
+        match self {
+            SchemeSpec::FziLadder {
+                bounds,
+                start,
+                ratio,
+                count,
+            } => match (bounds, start, ratio, count) {
+                (Some(b), None, None, None) => {
+                    if ascending_positive(b) && b.len() < 250 {
+                        Ok(())
+                    } else {
+                        Err("bounds must be positive and ascending (1 to 249 of them)".into())
+                    }
+                }
+                (None, Some(s), Some(r), Some(n)) => {
+                    if *s > 0.0
+                        && *r > 1.0
+                        && (1..250).contains(n)
+                        && s.is_finite()
+                        && r.is_finite()
+                    {
+                        Ok(())
+                    } else {
+                        Err(format!(
+                            "start {s} must be above 0, ratio {r} above 1 and count {n} in 1-249"
+                        ))
+                    }
+                }
+                _ => Err("give either bounds, or start, ratio and count".into()),
+            },
+            SchemeSpec::PortSize { bounds } => match bounds {
+                Some(b) if !(ascending_positive(b) && b.len() < 250) => {
+                    Err("bounds must be positive and ascending (1 to 249 of them)".into())
+                }
+                _ => Ok(()),
+            },
+            SchemeSpec::FziClusters {
+                max_classes,
+                min_samples_per_class,
+            } => {
+                if (1..=20).contains(max_classes) && *min_samples_per_class >= 2 {
+                    Ok(())
+                } else {
+                    Err(format!(
+                        "max-classes {max_classes} must be 1-20 and min-samples-per-class {min_samples_per_class} at least 2"
+                    ))
+                }
+            }
+        }
+    }
+}

@@ -1,0 +1,210 @@
+//! The saved class model: a versioned envelope around the forest.
+//!
+//! Layout (our own):
+//! ```text
+//! flowzone-class-model 1\n        magic and format version
+//! {...}\n                         header, one line of JSON: versions, scheme and
+//!                                 boundaries, features with units, training
+//!                                 wells, metrics, permeability per class
+//! <postcard bytes>                the forest
+//! ```
+//! `head -2` shows what a model is without loading it. smartcore's serialised
+//! layout may change between its versions, so the header records the version
+//! the forest was saved with and loading refuses any other.
+
+use std::io::Write as _;
+use std::path::{Path, PathBuf};
+
+use serde::{Deserialize, Serialize};
+
+use super::{Feature, Forest, ForestParams, Validation};
+use crate::classes::perm::ClassPerm;
+use crate::config::PermMethod;
+
+/// First line of every model file (without the version).
+pub const MAGIC: &str = "flowzone-class-model";
+/// Version of the envelope layout.
+pub const FORMAT_VERSION: u32 = 1;
+/// The smartcore version the forest is serialised with; a test checks it
+/// against Cargo.lock.
+pub const SMARTCORE_VERSION: &str = "0.7.0";
+
+/// A class scheme as written beside every class: name, quantity and boundaries.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct SchemeInfo {
+    /// The config's name for the scheme (the key of `[classes.scheme]`).
+    pub name: String,
+    /// The scheme type (fzi-ladder, port-size-r35, fzi-clusters).
+    pub kind: String,
+    pub quantity: String,
+    pub boundaries: Vec<f64>,
+    pub class_count: usize,
+}
+
+impl SchemeInfo {
+    /// One line for file headers: `fzi (fzi-ladder, FZI (um) bounds 0.632 1.58 3.71)`.
+    pub fn describe(&self) -> String {
+        let b: Vec<String> = self.boundaries.iter().map(|v| format!("{v:.4}")).collect();
+        format!(
+            "{} ({}, {} bounds {})",
+            self.name,
+            self.kind,
+            self.quantity,
+            b.join(" ")
+        )
+    }
+}
+
+/// A feature with its unit, as recorded in the model.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct FeatureInfo {
+    pub name: Feature,
+    pub unit: String,
+}
+
+/// Everything about a model except the forest itself.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ModelHeader {
+    pub flowzone_version: String,
+    pub smartcore_version: String,
+    pub scheme: SchemeInfo,
+    pub features: Vec<FeatureInfo>,
+    pub params: ForestParams,
+    pub training_wells: Vec<String>,
+    pub training_samples: usize,
+    /// (class, training samples).
+    pub samples_per_class: Vec<(u8, usize)>,
+    pub perm_method: PermMethod,
+    /// Permeability from class and porosity, fitted on the training core.
+    pub perm: Vec<ClassPerm>,
+    /// Leave-one-well-out scores (absent with one cored well).
+    pub validation: Option<Validation>,
+    /// Seconds to fit the final forest.
+    pub fit_seconds: f64,
+}
+
+impl ModelHeader {
+    /// The features in model order.
+    pub fn feature_list(&self) -> Vec<Feature> {
+        self.features.iter().map(|f| f.name).collect()
+    }
+}
+
+/// A model: header and forest.
+#[derive(Debug)]
+pub struct ClassModel {
+    pub header: ModelHeader,
+    pub forest: Forest,
+}
+
+/// An error saving or loading a model.
+#[derive(Debug, thiserror::Error)]
+pub enum ModelFileError {
+    #[error("cannot read model `{}`", .path.display())]
+    Io {
+        path: PathBuf,
+        #[source]
+        source: std::io::Error,
+    },
+    #[error("`{}` is not a flowzone class model (it does not start with `{MAGIC}`)", .path.display())]
+    NotAModel { path: PathBuf },
+    #[error(
+        "model `{}` has envelope version {found}; this flowzone reads version {FORMAT_VERSION}: train it again with `flowzone train`",
+        .path.display()
+    )]
+    Version { path: PathBuf, found: String },
+    #[error(
+        "model `{}` was saved with smartcore {found}; this flowzone {} uses smartcore {SMARTCORE_VERSION}, whose forests may differ: train it again with `flowzone train`",
+        .path.display(), env!("CARGO_PKG_VERSION")
+    )]
+    Smartcore { path: PathBuf, found: String },
+    #[error("model `{}`: {message}", .path.display())]
+    Corrupt { path: PathBuf, message: String },
+}
+
+impl ClassModel {
+    /// The file's bytes.
+    pub fn to_bytes(&self) -> Result<Vec<u8>, String> {
+        let mut out = Vec::new();
+        let _ = writeln!(out, "{MAGIC} {FORMAT_VERSION}");
+        serde_json::to_writer(&mut out, &self.header).map_err(|e| e.to_string())?;
+        out.push(b'\n');
+        let body = postcard::to_allocvec(&self.forest).map_err(|e| e.to_string())?;
+        out.extend_from_slice(&body);
+        Ok(out)
+    }
+
+    /// Write the model (atomically).
+    pub fn save(&self, path: &Path) -> Result<(), crate::output::OutputError> {
+        let bytes = self
+            .to_bytes()
+            .map_err(|e| crate::output::OutputError::Io {
+                path: path.to_path_buf(),
+                source: std::io::Error::other(e),
+            })?;
+        crate::output::write_atomic(path, |w| {
+            w.write_all(&bytes)
+                .map_err(|source| crate::output::OutputError::Io {
+                    path: path.to_path_buf(),
+                    source,
+                })
+        })
+    }
+
+    /// Read a model, refusing another envelope version or smartcore version.
+    pub fn load(path: &Path) -> Result<ClassModel, ModelFileError> {
+        let bytes = std::fs::read(path).map_err(|source| ModelFileError::Io {
+            path: path.to_path_buf(),
+            source,
+        })?;
+        ClassModel::from_bytes(&bytes, path)
+    }
+
+    /// Parse a model's bytes; `path` names it in errors.
+    pub fn from_bytes(bytes: &[u8], path: &Path) -> Result<ClassModel, ModelFileError> {
+        let p = || path.to_path_buf();
+        let corrupt = |message: String| ModelFileError::Corrupt { path: p(), message };
+        let first_nl = bytes.iter().position(|&b| b == b'\n');
+        let first = first_nl.map_or(bytes, |i| &bytes[..i]);
+        let first = std::str::from_utf8(first).unwrap_or("");
+        let Some(version) = first.strip_prefix(MAGIC).map(str::trim) else {
+            return Err(ModelFileError::NotAModel { path: p() });
+        };
+        if version != FORMAT_VERSION.to_string() {
+            return Err(ModelFileError::Version {
+                path: p(),
+                found: version.to_string(),
+            });
+        }
+        let rest = &bytes[first_nl.map_or(bytes.len(), |i| i + 1)..];
+        let header_end = rest
+            .iter()
+            .position(|&b| b == b'\n')
+            .ok_or_else(|| corrupt("the header line is cut short".into()))?;
+        // check the smartcore version before reading anything else
+        #[derive(Deserialize)]
+        struct Versions {
+            smartcore_version: String,
+        }
+        let v: Versions = serde_json::from_slice(&rest[..header_end])
+            .map_err(|e| corrupt(format!("header: {e}")))?;
+        if v.smartcore_version != SMARTCORE_VERSION {
+            return Err(ModelFileError::Smartcore {
+                path: p(),
+                found: v.smartcore_version,
+            });
+        }
+        let header: ModelHeader = serde_json::from_slice(&rest[..header_end])
+            .map_err(|e| corrupt(format!("header: {e}")))?;
+        let forest: Forest = postcard::from_bytes(&rest[header_end + 1..])
+            .map_err(|e| corrupt(format!("forest: {e}")))?;
+        if forest.n_features != header.features.len() {
+            return Err(corrupt(format!(
+                "the forest has {} features, the header lists {}",
+                forest.n_features,
+                header.features.len()
+            )));
+        }
+        Ok(ClassModel { header, forest })
+    }
+}
