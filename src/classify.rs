@@ -56,7 +56,10 @@ pub struct ClassSetup {
 /// What the class stage did before the wells, for the run summary.
 #[derive(Debug, Clone, Serialize)]
 pub struct ClassSummary {
+    /// The scheme of CLASS.
     pub scheme: Option<SchemeInfo>,
+    /// Every configured scheme, as in the core table's CLASS_<NAME> columns.
+    pub schemes: Vec<SchemeInfo>,
     /// The model file used (loaded or written).
     pub model_file: Option<String>,
     pub trained: bool,
@@ -126,6 +129,7 @@ pub fn prepare(
     let config = &ctx.config;
     let mut summary = ClassSummary {
         scheme: None,
+        schemes: Vec::new(),
         model_file: None,
         trained: false,
         core_file: None,
@@ -233,6 +237,7 @@ pub fn prepare(
         for (name, spec) in &cl.scheme {
             let s = classes::build(spec, &phi_k)
                 .map_err(|m| Error::Usage(format!("[classes.scheme.{name}]: {m}")))?;
+            summary.schemes.push(classes::info(name, s.as_ref()));
             schemes.push((name.clone(), s));
         }
     }

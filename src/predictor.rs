@@ -209,30 +209,40 @@ impl Forest {
             .filter(|&r| x[r * nf..(r + 1) * nf].iter().all(|v| v.is_finite()))
             .collect();
         let n_classes = usize::from(self.classes.last().copied().unwrap_or(0)) + 1;
-        for block in ok.chunks(PREDICT_BLOCK_ROWS) {
-            let mut values = Vec::with_capacity(block.len() * nf);
-            for &r in block {
-                values.extend_from_slice(&x[r * nf..(r + 1) * nf]);
-            }
-            let m = matrix(&values, nf)?;
-            let mut votes = vec![0u16; block.len() * n_classes];
-            for tree in &self.trees {
-                let pred = tree
-                    .predict(&m)
-                    .map_err(|e| PredictError::Forest(e.to_string()))?;
-                for (i, c) in pred.iter().enumerate() {
-                    votes[i * n_classes + *c as usize] += 1;
+        let total = f64::from(self.trees.len() as u32);
+        // blocks in parallel (each block's votes are its own, so the result is
+        // the same on any thread count)
+        let blocks: Vec<Vec<(u8, f64)>> = ok
+            .par_chunks(PREDICT_BLOCK_ROWS)
+            .map(|block| -> Result<Vec<(u8, f64)>, PredictError> {
+                let mut values = Vec::with_capacity(block.len() * nf);
+                for &r in block {
+                    values.extend_from_slice(&x[r * nf..(r + 1) * nf]);
                 }
-            }
-            let total = f64::from(self.trees.len() as u32);
-            for (i, &r) in block.iter().enumerate() {
-                let v = &votes[i * n_classes..(i + 1) * n_classes];
-                let (best, count) =
-                    v.iter().enumerate().fold(
-                        (0, 0u16),
-                        |acc, (c, &n)| if n > acc.1 { (c, n) } else { acc },
-                    );
-                out[r] = Some((best as u8, f64::from(count) / total));
+                let m = matrix(&values, nf)?;
+                let mut votes = vec![0u16; block.len() * n_classes];
+                for tree in &self.trees {
+                    let pred = tree
+                        .predict(&m)
+                        .map_err(|e| PredictError::Forest(e.to_string()))?;
+                    for (i, c) in pred.iter().enumerate() {
+                        votes[i * n_classes + *c as usize] += 1;
+                    }
+                }
+                Ok(votes
+                    .chunks_exact(n_classes)
+                    .map(|v| {
+                        let (best, count) = v.iter().enumerate().fold((0, 0u16), |acc, (c, &n)| {
+                            if n > acc.1 { (c, n) } else { acc }
+                        });
+                        (best as u8, f64::from(count) / total)
+                    })
+                    .collect())
+            })
+            .collect::<Result<_, _>>()?;
+        for (block, res) in ok.chunks(PREDICT_BLOCK_ROWS).zip(blocks) {
+            for (&r, p) in block.iter().zip(res) {
+                out[r] = Some(p);
             }
         }
         Ok(out)
