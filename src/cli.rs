@@ -286,12 +286,7 @@ fn cmd_class_stage(
         ));
     }
     let files = config.well_files()?;
-    let inputs: Vec<PathBuf> = config
-        .input
-        .wells
-        .iter()
-        .map(|p| config.resolve_path(p))
-        .collect();
+    let inputs = config.input_paths();
     field::check_out_dir(out, &inputs)?;
     let ctx = crate::well::RunContext::new(config).map_err(|e| Error::Usage(chain(&e)))?;
     let prepared = crate::classify::prepare(&ctx, &files, out, mode, !quiet)?;

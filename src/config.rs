@@ -296,6 +296,15 @@ impl Config {
         }
     }
 
+    /// `[input] wells` as given (files or folders), anchored at the config's folder.
+    pub fn input_paths(&self) -> Vec<PathBuf> {
+        self.input
+            .wells
+            .iter()
+            .map(|p| self.resolve_path(p))
+            .collect()
+    }
+
     /// The alias table for curve resolution.
     pub fn alias_table(&self) -> AliasTable {
         AliasTable {

@@ -89,12 +89,7 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
             "the config names no LAS files ([input] wells)".into(),
         ));
     }
-    let inputs: Vec<PathBuf> = config
-        .input
-        .wells
-        .iter()
-        .map(|p| config.resolve_path(p))
-        .collect();
+    let inputs = config.input_paths();
     check_out_dir(out, &inputs)?;
     let ctx = well::RunContext::new(config.clone()).map_err(|e| Error::Usage(chain(&e)))?;
     let prepared = if config.core.is_some() || config.classes.is_some() {
