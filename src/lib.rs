@@ -26,6 +26,7 @@
 //! petrophysicist before they inform reserves, well or investment decisions,
 //! and used under local regulation and licensed practice.
 
+pub mod capillary;
 pub mod classes;
 pub mod classify;
 pub mod cli;
