@@ -27,6 +27,7 @@
 //! and used under local regulation and licensed practice.
 
 pub mod capillary;
+pub mod capillary_data;
 pub mod classes;
 pub mod classify;
 pub mod cli;

@@ -1,6 +1,7 @@
 //! flowzone integration tests: one binary, one module per area.
 
 /// The binary: --help, inspect, export and run, exit codes.
+mod capillary_demo;
 mod classes;
 mod cli;
 /// Shared helpers: paths, the lasio oracle, float comparison.
