@@ -47,6 +47,7 @@ pub mod output;
 pub mod params;
 pub mod petro;
 pub mod predictor;
+pub mod pressure;
 pub mod saturation;
 pub mod stages;
 pub mod synth;
