@@ -98,8 +98,23 @@ pub struct FwlFit {
     pub density_contrast_gcc: f64,
 }
 
+/// Least density contrast between the legs, g/cm3, for an intersection: below
+/// it the lines are taken as parallel (one fluid), because 0.1 psi of gauge
+/// error would move the crossing by more than 3.5 m (our choice; real
+/// oil-water contrasts are 0.1-0.5 g/cm3 and gas-water larger).
+pub const MIN_DENSITY_CONTRAST_GCC: f64 = 0.02;
+
 fn intersect(upper: Line, lower: Line, split: usize) -> Result<FwlFit, String> {
     let dg = upper.gradient_psi_per_m - lower.gradient_psi_per_m;
+    if dg.abs() / PSI_PER_M_PER_GCC < MIN_DENSITY_CONTRAST_GCC {
+        return Err(format!(
+            "the two legs are parallel: gradients {:.4} and {:.4} psi/m ({:.3} and {:.3} g/cm3) differ by less than {MIN_DENSITY_CONTRAST_GCC} g/cm3, so the points show one fluid and no free water level",
+            upper.gradient_psi_per_m,
+            lower.gradient_psi_per_m,
+            upper.density_gcc(),
+            lower.density_gcc()
+        ));
+    }
     if dg >= 0.0 {
         return Err(format!(
             "the upper leg's gradient ({:.4} psi/m, {:.3} g/cm3) is not lighter than the lower leg's ({:.4} psi/m, {:.3} g/cm3): a denser fluid cannot sit above a lighter one",
@@ -286,6 +301,19 @@ mod tests {
                 .contains("not a number")
         );
         assert!(fit_fwl_auto(&[(1000.0, 1400.0); 6], 2).is_err());
+        // one water line through every point, with ±0.05 psi of gauge scatter
+        // (constructed case): no split gives two fluids
+        let one: Vec<(f64, f64)> = (0..8)
+            .map(|i| {
+                let d = 2000.0 + 10.0 * f64::from(i);
+                (
+                    d,
+                    3000.0 + 1.07 * PSI_PER_M_PER_GCC * d + if i % 2 == 0 { 0.05 } else { -0.05 },
+                )
+            })
+            .collect();
+        let err = fit_fwl_auto(&one, 2).expect_err("parallel");
+        assert!(err.contains("the two legs are parallel"), "{err}");
     }
 
     /// Exact points on an oil and a water line recover the FWL over a grid of
