@@ -10,6 +10,16 @@
 //! gr-clean-gapi = 30
 //! ```
 //!
+//! Archie's a, m and n can also be set per hydraulic class, field-wide or in
+//! one zone; at a classed depth the class's value wins over every level above:
+//!
+//! ```toml
+//! [parameters.class."1"]                        # class 1 in every zone
+//! archie-m = 2.1
+//! [parameters.zone-class."Upper Kell"."1"]      # class 1 in one zone
+//! archie-n = 2.2
+//! ```
+//!
 //! Every key is optional at each level; [`ParamSet::merge`] lays the levels
 //! over each other and [`ParamSet::resolve`] fills the defaults and refuses a
 //! missing required value with its key. Values are validated when the config
@@ -136,6 +146,64 @@ pub struct Parameters {
     /// By well name, then zone name.
     #[serde(default)]
     pub well_zone: BTreeMap<String, BTreeMap<String, ParamSet>>,
+    /// Archie a, m, n by hydraulic class number ("1", "2", ...), every zone.
+    #[serde(default)]
+    pub class: BTreeMap<String, ClassParamSet>,
+    /// Archie a, m, n by zone name, then class number.
+    #[serde(default)]
+    pub zone_class: BTreeMap<String, BTreeMap<String, ClassParamSet>>,
+}
+
+/// The keys that may vary with hydraulic class: Archie's a, m and n.
+#[derive(Debug, Clone, Copy, Default, Deserialize, PartialEq)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct ClassParamSet {
+    /// Archie tortuosity factor a for this class.
+    pub archie_a: Option<f64>,
+    /// Archie cementation exponent m for this class.
+    pub archie_m: Option<f64>,
+    /// Archie saturation exponent n for this class.
+    pub archie_n: Option<f64>,
+}
+
+impl ClassParamSet {
+    /// `self` laid over `base`, key by key.
+    pub fn over(&self, base: ArchieParams) -> ArchieParams {
+        ArchieParams {
+            a: self.archie_a.unwrap_or(base.a),
+            m: self.archie_m.unwrap_or(base.m),
+            n: self.archie_n.unwrap_or(base.n),
+        }
+    }
+
+    fn validate(&self, prefix: &str) -> Result<(), (String, String)> {
+        for (k, v) in [
+            ("archie-a", self.archie_a),
+            ("archie-m", self.archie_m),
+            ("archie-n", self.archie_n),
+        ] {
+            if let Some(v) = v {
+                if !(v.is_finite() && v > 0.0) {
+                    return Err((
+                        format!("{prefix}.{k}"),
+                        format!("{v} must be a number above 0"),
+                    ));
+                }
+            }
+        }
+        Ok(())
+    }
+}
+
+/// A class key of `[parameters.class]`: a class number 1-255.
+fn class_key(prefix: &str, k: &str) -> Result<u8, (String, String)> {
+    match k.trim().parse::<u8>() {
+        Ok(c) if c >= 1 => Ok(c),
+        _ => Err((
+            format!("{prefix}.\"{k}\""),
+            "a class key must be a class number from 1 to 255 (class 1 is the poorest rock)".into(),
+        )),
+    }
 }
 
 /// Parameters of one well and zone with every default filled in.
@@ -350,7 +418,51 @@ impl Parameters {
                 p.validate(&format!("parameters.well-zone.\"{w}\".\"{z}\""))?;
             }
         }
+        for (c, p) in &self.class {
+            class_key("parameters.class", c)?;
+            p.validate(&format!("parameters.class.\"{c}\""))?;
+        }
+        for (z, classes) in &self.zone_class {
+            let prefix = format!("parameters.zone-class.\"{z}\"");
+            for (c, p) in classes {
+                class_key(&prefix, c)?;
+                p.validate(&format!("{prefix}.\"{c}\""))?;
+            }
+        }
         Ok(())
+    }
+
+    /// Whether any Archie value is set per class.
+    pub fn has_class_params(&self) -> bool {
+        !self.class.is_empty() || self.zone_class.values().any(|m| !m.is_empty())
+    }
+
+    /// Archie a, m, n of every class 1..=`max_class` in `zone`, laid over the
+    /// zone's own values `base`: zone-class wins over class, class over the
+    /// zone. Index 0 of the result is class 1.
+    pub fn class_archie(&self, zone: &str, base: ArchieParams, max_class: u8) -> Vec<ArchieParams> {
+        let by_class = |m: &BTreeMap<String, ClassParamSet>, c: u8| {
+            m.iter()
+                .find(|(k, _)| k.trim().parse::<u8>() == Ok(c))
+                .map(|(_, v)| *v)
+        };
+        let zone_map = self
+            .zone_class
+            .iter()
+            .find(|(k, _)| k.eq_ignore_ascii_case(zone))
+            .map(|(_, v)| v);
+        (1..=max_class)
+            .map(|c| {
+                let mut p = base;
+                if let Some(cp) = by_class(&self.class, c) {
+                    p = cp.over(p);
+                }
+                if let Some(cp) = zone_map.and_then(|m| by_class(m, c)) {
+                    p = cp.over(p);
+                }
+                p
+            })
+            .collect()
     }
 
     /// The merged parameters of a well (any of `well_names`) and zone.
@@ -379,6 +491,59 @@ impl Parameters {
 
 #[cfg(test)]
 mod tests {
+    /// Class values win over the zone's, zone-class over class, key by key;
+    /// a class key that is not a class number is refused with its key.
+    #[test]
+    fn class_exponents_precedence_and_validation() {
+        let p: Parameters = toml::from_str(
+            r#"
+            [field]
+            archie-m = 2.0
+            [class."1"]
+            archie-m = 2.1
+            archie-n = 2.2
+            [zone-class."Upper Kell"."1"]
+            archie-n = 2.4
+            "#,
+        )
+        .expect("parses");
+        p.validate().expect("valid");
+        let base = ArchieParams {
+            a: 0.8,
+            m: 2.0,
+            n: 2.0,
+        };
+        let up = p.class_archie("upper kell", base, 2);
+        assert_eq!(
+            up[0],
+            ArchieParams {
+                a: 0.8,
+                m: 2.1,
+                n: 2.4
+            }
+        );
+        assert_eq!(up[1], base);
+        let low = p.class_archie("Lower Kell", base, 2);
+        assert_eq!(
+            low[0],
+            ArchieParams {
+                a: 0.8,
+                m: 2.1,
+                n: 2.2
+            }
+        );
+        assert!(p.has_class_params());
+        let bad: Parameters = toml::from_str("[class.\"0\"]\narchie-m = 2.0").expect("parses");
+        let (key, msg) = bad.validate().expect_err("class 0");
+        assert_eq!(key, "parameters.class.\"0\"");
+        assert!(msg.contains("class number"), "{msg}");
+        let neg: Parameters = toml::from_str("[class.\"2\"]\narchie-n = -1").expect("parses");
+        assert_eq!(
+            neg.validate().expect_err("negative").0,
+            "parameters.class.\"2\".archie-n"
+        );
+    }
+
     use super::*;
 
     fn parse(text: &str) -> Parameters {

@@ -11,7 +11,7 @@
 //! [`simandoux_1963`], [`indonesia`].
 
 /// Archie parameters at one depth.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct ArchieParams {
     /// Tortuosity factor a.
     pub a: f64,

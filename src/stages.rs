@@ -20,7 +20,7 @@ use crate::petro::porosity::{
 };
 use crate::petro::shale::{gamma_ray_index, shale_volume_neutron_density};
 use crate::petro::water::rw_at_temperature;
-use crate::saturation::bulk_volume_water;
+use crate::saturation::{ArchieParams, bulk_volume_water};
 
 /// FLAG bit: caliper exceeds bit size by more than the bad-hole tolerance.
 pub const FLAG_BAD_HOLE: u32 = 1;
@@ -35,6 +35,10 @@ pub const FLAG_CLIPPED: u32 = 16;
 /// The predicted class won less than the configured share of votes
 /// (set by the class predictor, [`crate::classify`]).
 pub const FLAG_LOW_CLASS_PROBABILITY: u32 = 32;
+
+/// FLAG bit: class-dependent exponents are configured, but this interpreted
+/// depth has no class, so SW uses the zone's own a, m, n.
+pub const FLAG_NO_CLASS_EXPONENTS: u32 = 64;
 
 /// Physical ranges of input curves (common practice: values outside cannot be
 /// measurements of rock and usually mark tool or depth-matching problems).
@@ -97,6 +101,9 @@ pub struct Outputs {
     pub sw: Vec<f64>,
     pub bvw: Vec<f64>,
     pub flag: Vec<u32>,
+    /// Formation-water resistivity used at each depth, ohm.m (kept for the
+    /// class-aware saturation, which reuses it).
+    pub rw: Vec<f64>,
     pub counts: Counts,
 }
 
@@ -109,6 +116,7 @@ impl Outputs {
             &mut self.phie,
             &mut self.sw,
             &mut self.bvw,
+            &mut self.rw,
         ] {
             v.push(f64::NAN);
         }
@@ -201,6 +209,7 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
         sw: Vec::with_capacity(n),
         bvw: Vec::with_capacity(n),
         flag: Vec::with_capacity(n),
+        rw: Vec::with_capacity(n),
         counts: Counts {
             samples: n,
             ..Counts::default()
@@ -334,8 +343,97 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
         out.sw.push(sw);
         out.bvw.push(bulk_volume_water(phie, sw));
         out.flag.push(flag);
+        out.rw.push(rw);
     }
     out.counts = counts;
+    out
+}
+
+/// The depth-wise inputs of the class-aware saturation, canonical units.
+#[derive(Debug, Clone, Copy)]
+pub struct ClassSwInputs<'a> {
+    pub zone_of: &'a [Option<u16>],
+    /// Rw at each depth, ohm.m ([`Outputs::rw`]).
+    pub rw: &'a [f64],
+    pub rt: &'a [f64],
+    pub vsh: &'a [f64],
+    pub phie: &'a [f64],
+    /// SW with the zone's own exponents (the chain's SW), v/v.
+    pub sw_fixed: &'a [f64],
+    /// Hydraulic class (1..), NaN where there is none.
+    pub class: &'a [f64],
+}
+
+/// What the class-aware saturation wrote and counted.
+#[derive(Debug, Clone, Default)]
+pub struct ClassSw {
+    pub sw: Vec<f64>,
+    pub bvw: Vec<f64>,
+    /// Interpreted depths without a class (zone exponents used, FLAG 64).
+    pub no_class: usize,
+    /// Depths whose class-aware SW was clipped to [0, 1].
+    pub clipped: usize,
+}
+
+/// SW with Archie a, m, n looked up at each depth from its class:
+/// `class_archie[zone][class − 1]` (resolved by
+/// [`crate::params::Parameters::class_archie`]). Depths the chain did not
+/// interpret (SW_FIXED empty) stay empty; an interpreted depth without a
+/// class keeps the zone's exponents and gets [`FLAG_NO_CLASS_EXPONENTS`].
+/// The saturation model and Rw are the zone's, as in [`run`].
+pub fn saturation_by_class(
+    inp: &ClassSwInputs<'_>,
+    zones: &[ZoneSetup],
+    class_archie: &[Vec<ArchieParams>],
+    flag: &mut [u32],
+) -> ClassSw {
+    let n = inp.zone_of.len();
+    let mut out = ClassSw {
+        sw: Vec::with_capacity(n),
+        bvw: Vec::with_capacity(n),
+        ..ClassSw::default()
+    };
+    for (i, fl) in flag.iter_mut().enumerate().take(n) {
+        let zone = inp.zone_of[i].map(usize::from);
+        let (Some(z), true) = (zone, inp.sw_fixed[i].is_finite()) else {
+            out.sw.push(inp.sw_fixed[i]);
+            out.bvw
+                .push(bulk_volume_water(inp.phie[i], inp.sw_fixed[i]));
+            continue;
+        };
+        let (Some(setup), Some(table)) = (zones.get(z), class_archie.get(z)) else {
+            out.sw.push(f64::NAN);
+            out.bvw.push(f64::NAN);
+            continue;
+        };
+        let p = &setup.params;
+        let c = inp.class[i];
+        let archie = if c.is_finite() && c >= 1.0 {
+            table.get(c as usize - 1).copied()
+        } else {
+            None
+        };
+        let archie = archie.unwrap_or_else(|| {
+            out.no_class += 1;
+            *fl |= FLAG_NO_CLASS_EXPONENTS;
+            p.archie
+        });
+        let raw = p.saturation_model.sw(
+            inp.phie[i],
+            inp.rt[i],
+            inp.rw[i],
+            inp.vsh[i],
+            p.rsh_ohmm.unwrap_or(f64::NAN),
+            archie,
+        );
+        let (sw, clipped) = clip(raw, 0.0, 1.0);
+        if clipped {
+            out.clipped += 1;
+            *fl |= FLAG_CLIPPED;
+        }
+        out.sw.push(sw);
+        out.bvw.push(bulk_volume_water(inp.phie[i], sw));
+    }
     out
 }
 
@@ -459,6 +557,49 @@ mod tests {
         };
         let out = run(&inputs, &[Some(0)], &[z]);
         assert_close(out.sw[0], (0.039546f64 / (0.04 * 10.0)).sqrt(), 1e-5);
+    }
+
+    /// Class-aware SW at three depths, Archie, φ 0.2, Rt 10, Rw 0.05 (hand
+    /// computed, SW = (a·Rw/(φ^m·Rt))^(1/n), Archie 1942): class 1 with
+    /// m = n = 2.1 → 0.401090; class 2 with m = n = 1.8 → 0.263403; no class →
+    /// the zone's m = n = 2 → 0.353553 and FLAG 64; a depth the chain did not
+    /// interpret stays empty.
+    #[test]
+    fn saturation_by_class_by_hand() {
+        let z = zone(ParamSet {
+            rw_ohmm: Some(0.05),
+            ..ParamSet::default()
+        });
+        let table = vec![vec![
+            ArchieParams {
+                a: 1.0,
+                m: 2.1,
+                n: 2.1,
+            },
+            ArchieParams {
+                a: 1.0,
+                m: 1.8,
+                n: 1.8,
+            },
+        ]];
+        let inp = ClassSwInputs {
+            zone_of: &[Some(0), Some(0), Some(0), None],
+            rw: &[0.05; 4],
+            rt: &[10.0; 4],
+            vsh: &[0.0; 4],
+            phie: &[0.2; 4],
+            sw_fixed: &[0.353553, 0.353553, 0.353553, f64::NAN],
+            class: &[1.0, 2.0, f64::NAN, 1.0],
+        };
+        let mut flag = [0u32, 0, 0, FLAG_OUTSIDE_ZONE];
+        let out = saturation_by_class(&inp, &[z], &table, &mut flag);
+        assert_close(out.sw[0], 0.401090, 1e-6);
+        assert_close(out.sw[1], 0.263403, 1e-6);
+        assert_close(out.sw[2], 0.353553, 1e-6);
+        assert!(out.sw[3].is_nan() && out.bvw[3].is_nan());
+        assert_close(out.bvw[0], 0.2 * out.sw[0], 1e-15);
+        assert_eq!(flag, [0, 0, FLAG_NO_CLASS_EXPONENTS, FLAG_OUTSIDE_ZONE]);
+        assert_eq!((out.no_class, out.clipped), (1, 0));
     }
 
     #[test]

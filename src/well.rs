@@ -15,7 +15,7 @@ use crate::curves::{self, CurveError, LogicalCurve, ResolvedCurve};
 use crate::depth::{Survey, tvd_at};
 use crate::las::{self, LasError, LasFile, ReadOptions};
 use crate::output::{OutColumn, OutputError, Table};
-use crate::saturation::SaturationModel;
+use crate::saturation::{ArchieParams, SaturationModel};
 use crate::stages::{self, Counts, Inputs, ZoneSetup};
 use crate::tables::{TableError, read_csv};
 use crate::units::{DepthUnit, Quantity};
@@ -55,6 +55,19 @@ pub struct WellReport {
     pub deviated: bool,
     pub zones: Vec<ZoneSetup>,
     pub counts: Counts,
+    /// The class-aware saturation, when class-dependent exponents are set.
+    pub class_exponents: Option<ClassExponentCounts>,
+}
+
+/// What the class-dependent exponents did in a well.
+#[derive(Debug, Clone, Serialize, Default)]
+pub struct ClassExponentCounts {
+    /// Interpreted depths without a class: the zone's exponents (FLAG 64).
+    pub no_class: usize,
+    /// Depths whose class-aware SW was clipped to [0, 1].
+    pub clipped: usize,
+    /// Per zone, Archie a, m, n of each class (class 1 first).
+    pub by_zone: Vec<(String, Vec<ArchieParams>)>,
 }
 
 /// A well after the stages, ready to write.
@@ -67,6 +80,10 @@ pub struct WellOutput {
     /// Mnemonic and unit used for each logical curve found.
     pub resolved: Vec<(LogicalCurve, String, String)>,
     pub report: WellReport,
+    /// Zone index of each depth (into `report.zones`), `None` outside every zone.
+    pub zone_of: Vec<Option<u16>>,
+    /// Rw used at each depth, ohm.m.
+    pub rw: Vec<f64>,
 }
 
 /// What every well of a run shares: the config and the tables it names.
@@ -447,7 +464,8 @@ pub fn process_file(
             }
         }
     }
-    let out = stages::run(&inputs, &zone_of, &setups);
+    let mut out = stages::run(&inputs, &zone_of, &setups);
+    let rw = std::mem::take(&mut out.rw);
     if out.counts.outside_zone > 0 && well_tops.is_some() {
         warnings.push(format!(
             "{} samples above the first zone top are outside every zone and not interpreted",
@@ -511,6 +529,7 @@ pub fn process_file(
         deviated,
         zones: setups,
         counts: out.counts,
+        class_exponents: None,
     };
     Ok(WellOutput {
         name,
@@ -522,7 +541,92 @@ pub fn process_file(
         warnings,
         resolved,
         report,
+        zone_of,
+        rw,
     })
+}
+
+/// The FLAG description of every bit a run can set.
+pub const FLAG_DESCRIPTION: &str = "QUALITY FLAG BITS 1 BAD HOLE 2 OUT OF RANGE 4 MISSING INPUT 8 OUTSIDE ZONE 16 CLIPPED 32 LOW CLASS PROBABILITY 64 NO CLASS EXPONENTS";
+
+impl WellOutput {
+    /// A column's values by name.
+    pub fn column(&self, name: &str) -> Option<&[f64]> {
+        crate::core_set::column(&self.table, name)
+    }
+
+    fn column_mut(&mut self, name: &str) -> Option<&mut OutColumn> {
+        self.table.columns.iter_mut().find(|c| c.name == name)
+    }
+
+    /// Recompute SW (and BVW) with Archie a, m, n looked up at each depth from
+    /// its CLASS ([`stages::saturation_by_class`]); the chain's SW, with the
+    /// zone's own exponents, is kept beside it as SW_FIXED. Needs the CLASS
+    /// column; without it every interpreted depth keeps the zone's exponents
+    /// and is flagged 64. `max_class` is the scheme's class count.
+    pub fn apply_class_exponents(&mut self, params: &crate::params::Parameters, max_class: u8) {
+        let n = self.table.n_rows();
+        let nan = vec![f64::NAN; n];
+        let by_zone: Vec<(String, Vec<ArchieParams>)> = self
+            .report
+            .zones
+            .iter()
+            .map(|z| {
+                (
+                    z.name.clone(),
+                    params.class_archie(&z.name, z.params.archie, max_class),
+                )
+            })
+            .collect();
+        let table: Vec<Vec<ArchieParams>> = by_zone.iter().map(|(_, t)| t.clone()).collect();
+        let mut flag: Vec<u32> = self
+            .column("FLAG")
+            .map_or_else(|| vec![0; n], |f| f.iter().map(|&v| v as u32).collect());
+        let col = |name: &str| self.column(name).unwrap_or(&nan);
+        let inputs = stages::ClassSwInputs {
+            zone_of: &self.zone_of,
+            rw: &self.rw,
+            rt: col("RT"),
+            vsh: col("VSH"),
+            phie: col("PHIE"),
+            sw_fixed: col("SW"),
+            class: col("CLASS"),
+        };
+        let result = stages::saturation_by_class(&inputs, &self.report.zones, &table, &mut flag);
+        let sw_fixed = self.column("SW").map(<[f64]>::to_vec).unwrap_or_default();
+        if let Some(c) = self.column_mut("SW") {
+            c.values = result.sw;
+            c.description = "WATER SATURATION, ARCHIE EXPONENTS BY CLASS".into();
+        }
+        if let Some(c) = self.column_mut("BVW") {
+            c.values = result.bvw;
+        }
+        if let Some(c) = self.column_mut("FLAG") {
+            c.values = flag.iter().map(|&f| f64::from(f)).collect();
+            c.description = FLAG_DESCRIPTION.into();
+        }
+        let at = self
+            .table
+            .columns
+            .iter()
+            .position(|c| c.name == "SW")
+            .map_or(self.table.columns.len(), |i| i + 1);
+        self.table.columns.insert(
+            at,
+            OutColumn {
+                name: "SW_FIXED".into(),
+                unit: "V/V".into(),
+                description: "WATER SATURATION, THE ZONE'S ONE SET OF EXPONENTS".into(),
+                values: sw_fixed,
+                integer: false,
+            },
+        );
+        self.report.class_exponents = Some(ClassExponentCounts {
+            no_class: result.no_class,
+            clipped: result.clipped,
+            by_zone,
+        });
+    }
 }
 
 /// The file name without extension, as a fallback well name.
