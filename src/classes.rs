@@ -199,6 +199,31 @@ pub fn info(name: &str, scheme: &dyn ClassScheme) -> crate::predictor::model_fil
     }
 }
 
+/// A scheme as recorded in a model file classifies samples too: the
+/// quantity it names (R35 or FZI) between its recorded boundaries.
+impl ClassScheme for crate::predictor::model_file::SchemeInfo {
+    fn name(&self) -> String {
+        self.kind.clone()
+    }
+    fn boundaries(&self) -> Vec<f64> {
+        self.boundaries.clone()
+    }
+    fn quantity(&self) -> &'static str {
+        if self.quantity.starts_with("R35") {
+            "R35 (um)"
+        } else {
+            "FZI (um)"
+        }
+    }
+    fn value(&self, phi: f64, k_md: f64) -> f64 {
+        if self.quantity.starts_with("R35") {
+            winland_r35(k_md, phi)
+        } else {
+            fzi(k_md, phi)
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -14,7 +14,11 @@ use crate::curves::{AliasTable, LogicalCurve};
 use crate::units::DepthUnit;
 
 mod classes;
+mod saturation;
 pub use classes::{ClassesConfig, CoreConfig, CoreFormat, PermMethod, PredictorConfig, SchemeSpec};
+pub use saturation::{
+    CapillaryConfig, CompartmentConfig, FluidProps, PressuresConfig, SatHeightConfig,
+};
 
 /// An error loading a config file.
 #[derive(Debug, thiserror::Error)]
@@ -63,6 +67,18 @@ pub struct Config {
     pub classes: Option<ClassesConfig>,
     #[serde(default)]
     pub predictor: Option<PredictorConfig>,
+    /// Lab capillary-pressure curves for the J-function of each class.
+    #[serde(default)]
+    pub capillary: Option<CapillaryConfig>,
+    /// Formation-pressure points for the free water levels.
+    #[serde(default)]
+    pub pressures: Option<PressuresConfig>,
+    /// Pressure compartments by name, each with its wells and free water level.
+    #[serde(default)]
+    pub compartments: BTreeMap<String, CompartmentConfig>,
+    /// Settings of the saturation-height model.
+    #[serde(default)]
+    pub saturation_height: SatHeightConfig,
     /// The folder the config file is in; relative paths start here.
     #[serde(skip)]
     pub base_dir: PathBuf,
@@ -275,6 +291,21 @@ impl Config {
             self.predictor.as_ref(),
         ) {
             return Err(invalid(&key, message));
+        }
+        if let Err((key, message)) = saturation::validate(
+            self.capillary.as_ref(),
+            self.pressures.as_ref(),
+            &self.compartments,
+            &self.saturation_height,
+            self.classes.is_some(),
+        ) {
+            return Err(invalid(&key, message));
+        }
+        if self.parameters.has_class_params() && self.classes.is_none() {
+            return Err(invalid(
+                "parameters.class",
+                "class-dependent parameters need [classes] (the class of each depth)".into(),
+            ));
         }
         for (curve, list) in &self.curves.aliases {
             if list.is_empty() {

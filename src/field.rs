@@ -31,6 +31,8 @@ pub struct WellReport {
     pub stages: Option<well::WellReport>,
     /// Depths classed, per class, and why others have no class.
     pub classes: Option<crate::classify::ClassCounts>,
+    /// Height above the FWL, SWH and the SW − SWH residual summary.
+    pub saturation_height: Option<crate::sat_height::WellSatHeight>,
 }
 
 /// The run summary (also written as run-summary.json).
@@ -42,6 +44,10 @@ pub struct RunSummary {
     pub wells_failed: usize,
     /// Core, scheme and class model of the run (when `[core]` or `[classes]` is set).
     pub classes: Option<crate::classify::ClassSummary>,
+    /// The saturation-height model: J-function per class, FWL per compartment.
+    pub saturation_height: Option<crate::sat_height::SatHeightModel>,
+    /// Files of the saturation-height model and the residual summary.
+    pub saturation_outputs: Vec<String>,
     pub wells: Vec<WellReport>,
 }
 
@@ -104,6 +110,24 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         None
     };
     let setup = prepared.as_ref().and_then(|p| p.setup.as_ref());
+    let sat = match setup {
+        Some(s) => crate::sat_height::prepare(config, &s.scheme)?,
+        None if config.capillary.is_some() => {
+            return Err(Error::Usage(
+                "[capillary] needs a class model: give [classes] with [core] or [predictor] model"
+                    .into(),
+            ));
+        }
+        None => None,
+    };
+    if let (Some(m), true) = (&sat, progress) {
+        report_model(m);
+    }
+    let stage = WellStages {
+        ctx: &ctx,
+        classes: setup,
+        sat: sat.as_ref(),
+    };
     let wells_dir = out.join("wells");
     std::fs::create_dir_all(&wells_dir).map_err(|source| Error::Io {
         path: wells_dir.clone(),
@@ -127,7 +151,7 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         .par_iter()
         .zip(stems.par_iter())
         .map(|(path, stem)| {
-            let report = one_well(path, stem, &ctx, setup, &wells_dir);
+            let report = one_well(path, stem, &stage, &wells_dir);
             let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
             if progress {
                 let status = if report.ok { "ok" } else { "FAILED" };
@@ -137,6 +161,66 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         })
         .collect();
 
+    let mut reports = reports;
+    let mut saturation_outputs = Vec::new();
+    if let (Some(m), Some(setup)) = (&sat, setup) {
+        let mut marked_wells: Vec<(String, &mut crate::sat_height::WellSatHeight)> = reports
+            .iter_mut()
+            .filter_map(|r| {
+                let name = r.well.clone()?;
+                r.saturation_height.as_mut().map(|w| (name, w))
+            })
+            .collect();
+        let marked = crate::sat_height::mark_biased_wells(
+            &mut marked_wells,
+            config.saturation_height.bias_threshold_vv,
+        );
+        let listed: Vec<(String, &crate::sat_height::WellSatHeight)> = reports
+            .iter()
+            .filter_map(|r| Some((r.well.clone()?, r.saturation_height.as_ref()?)))
+            .collect();
+        let header = &setup.model.header;
+        let field_archie = config.parameters.field.resolve().archie;
+        let max_class = u8::try_from(setup.scheme.class_count).unwrap_or(u8::MAX);
+        let mut zones: Vec<String> = config.parameters.zone.keys().cloned().collect();
+        zones.extend(config.parameters.zone_class.keys().cloned());
+        zones.sort();
+        zones.dedup();
+        let export = crate::sat_height::ModelExport {
+            tool: format!("flowzone {}", env!("CARGO_PKG_VERSION")),
+            caution: crate::sat_height::CAUTION,
+            units: crate::sat_height::export_units(),
+            depth_unit: config.project.depth_unit,
+            scheme: &setup.scheme,
+            saturation_height: m,
+            archie_by_class: config.parameters.class_archie("", field_archie, max_class),
+            archie_by_zone_and_class: zones
+                .into_iter()
+                .map(|z| {
+                    let base = config.parameters.for_well_zone(&[], &z).resolve().archie;
+                    let t = config.parameters.class_archie(&z, base, max_class);
+                    (z, t)
+                })
+                .collect(),
+            perm_method: header.perm_method,
+            perm_by_class: &header.perm,
+        };
+        saturation_outputs = crate::sat_height::write_outputs(out, &export, &listed)?
+            .iter()
+            .map(|p| p.display().to_string())
+            .collect();
+        for (well, msg) in marked {
+            if progress {
+                eprintln!("saturation-height: {well}: {msg}");
+            }
+            if let Some(r) = reports
+                .iter_mut()
+                .find(|r| r.well.as_deref() == Some(&well))
+            {
+                r.warnings.push(msg);
+            }
+        }
+    }
     let failed = reports.iter().filter(|r| !r.ok).count();
     let summary = RunSummary {
         tool: format!("flowzone {}", env!("CARGO_PKG_VERSION")),
@@ -144,6 +228,8 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         wells_total: total,
         wells_failed: failed,
         classes: prepared.map(|p| p.summary),
+        saturation_height: sat,
+        saturation_outputs,
         wells: reports,
     };
     let summary_path = out.join("run-summary.json");
@@ -156,13 +242,55 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
     Ok(summary)
 }
 
-fn one_well(
-    path: &Path,
-    stem: &str,
-    ctx: &well::RunContext,
-    setup: Option<&crate::classify::ClassSetup>,
-    dir: &Path,
-) -> WellReport {
+/// What every well of a run goes through after the stages.
+struct WellStages<'a> {
+    ctx: &'a well::RunContext,
+    classes: Option<&'a crate::classify::ClassSetup>,
+    sat: Option<&'a crate::sat_height::SatHeightModel>,
+}
+
+/// The saturation-height model's key facts, on stderr.
+fn report_model(m: &crate::sat_height::SatHeightModel) {
+    for c in &m.classes {
+        let how = match c.borrowed_from {
+            Some(b) => format!("borrowed from class {b}"),
+            None => format!("{} points from {}", c.points, c.plugs.join(", ")),
+        };
+        eprintln!(
+            "saturation-height: class {} J-function {} (rms Sw {:.3}), {how}",
+            c.class,
+            c.curve.form_name(),
+            c.curve.rms_sw()
+        );
+    }
+    for p in m.plugs.iter().filter(|p| p.suggested_class.is_some()) {
+        if let (Some(k), Some((_, r))) = (p.suggested_class, p.best_other) {
+            eprintln!(
+                "saturation-height: plug {} (class {}) fits class {k}'s curve better (rms Sw {r:.3} against {:.3}); to accept: [capillary.plug-class] \"{}\" = {k}",
+                p.sample, p.class, p.rms_own, p.sample
+            );
+        }
+    }
+    for c in &m.compartments {
+        let sigma = c
+            .fwl_sigma
+            .map_or_else(String::new, |s| format!(" ± {s:.2}"));
+        eprintln!(
+            "saturation-height: compartment {}: FWL {:.2}{sigma} TVDSS ({}), water {:.3} / hydrocarbon {:.3} g/cm3 ({})",
+            c.name, c.fwl_tvdss, c.source, c.rho_water_gcc, c.rho_hc_gcc, c.density_source
+        );
+    }
+    for r in &m.pressure_points_left_out {
+        eprintln!(
+            "saturation-height: pressure point left out, line {}: {}",
+            r.line, r.reason
+        );
+    }
+}
+
+fn one_well(path: &Path, stem: &str, stage: &WellStages<'_>, dir: &Path) -> WellReport {
+    let ctx = stage.ctx;
+    let setup = stage.classes;
     let config = &ctx.config;
     let mut report = WellReport {
         file: path.display().to_string(),
@@ -175,12 +303,22 @@ fn one_well(
         warnings: Vec::new(),
         stages: None,
         classes: None,
+        saturation_height: None,
     };
     let result: Result<(), WellError> = (|| {
         let mut out = well::process(path, ctx)?;
         if let Some(setup) = setup {
             let name = out.name.clone();
             report.classes = Some(setup.apply(&mut out.table, &name, &mut out.warnings));
+            if config.parameters.has_class_params() {
+                let max_class = u8::try_from(setup.scheme.class_count).unwrap_or(u8::MAX);
+                out.apply_class_exponents(&config.parameters, max_class);
+            }
+        }
+        if let Some(sat) = stage.sat {
+            let file_stem = well::stem_of(path);
+            let names = [out.name.as_str(), file_stem.as_str()];
+            report.saturation_height = sat.apply(&mut out.table, &names, &mut out.warnings);
         }
         report.well = Some(out.name.clone());
         report.rows = out.table.n_rows();

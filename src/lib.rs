@@ -18,6 +18,9 @@
 //! - [`classes`]: flow-unit quantities, class schemes, permeability per class.
 //! - [`predictor`]: the random-forest class predictor and its model file;
 //!   [`classify`]: the class stage of a run (train or load, apply to wells).
+//! - [`capillary`], [`capillary_data`], [`pressure`]: Leverett J and curve
+//!   forms, lab curves and their J fits, free water levels from pressures;
+//!   [`sat_height`]: the saturation-height stage of a run (SWH per depth).
 //! - [`inspect`], [`export`]: the `inspect` and `export` commands.
 //! - [`synth`], [`demo`]: the synthetic forward model behind the invented demo field.
 //! - [`cli`]: the command line.
@@ -48,6 +51,7 @@ pub mod params;
 pub mod petro;
 pub mod predictor;
 pub mod pressure;
+pub mod sat_height;
 pub mod saturation;
 pub mod stages;
 pub mod synth;

@@ -1,0 +1,252 @@
+//! `[capillary]`, `[pressures]`, `[compartments]` and `[saturation-height]`:
+//! the inputs of the saturation-height model (lab capillary-pressure curves,
+//! formation-pressure points, the free water level of each compartment).
+
+use std::collections::BTreeMap;
+use std::path::PathBuf;
+
+use serde::Deserialize;
+
+/// Interfacial tension and contact angle of a fluid system.
+#[derive(Debug, Clone, Copy, Deserialize, serde::Serialize, PartialEq)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct FluidProps {
+    /// Interfacial tension, dyn/cm (= mN/m).
+    pub sigma_dyn_cm: f64,
+    /// Contact angle, degrees (through the wetting phase; mercury 140).
+    pub theta_deg: f64,
+}
+
+/// `[capillary]`: laboratory capillary-pressure curves.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct CapillaryConfig {
+    /// CSV of lab curves: SAMPLE, WELL, DEPTH_MD, POROSITY_FRAC, PERM_MD,
+    /// PC_PSI, SW_FRAC, SYSTEM (mercury-air, air-brine, oil-brine).
+    pub file: PathBuf,
+    /// σ and θ of a lab system, overriding the typical values, by system name
+    /// ("mercury-air" 480 dyn/cm 140°, "air-brine" 72/0°, "oil-brine" 48/30°).
+    #[serde(default)]
+    pub lab: BTreeMap<String, FluidProps>,
+    /// Accepted class of a plug by sample name, overriding the class of its
+    /// own porosity and permeability (`"CAP-04" = 2`). The run suggests one
+    /// when another class's curve fits a plug much better than its own.
+    #[serde(default)]
+    pub plug_class: BTreeMap<String, u8>,
+    /// A plug is suggested for another class when that class's curve fits
+    /// it with an RMS Sw at most this fraction of its own class's. Default 0.5.
+    #[serde(default = "default_suggest_ratio")]
+    pub suggest_ratio: f64,
+}
+
+fn default_suggest_ratio() -> f64 {
+    0.5
+}
+
+/// `[pressures]`: formation-pressure points.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct PressuresConfig {
+    /// CSV: WELL, TVDSS_M or TVDSS_FT, PRESSURE_PSI, optional QUALITY (and any
+    /// other columns, e.g. DEPTH_MD, which are not used).
+    pub file: PathBuf,
+    /// QUALITY values whose points are left out (case-insensitive). Default ["poor", "bad"].
+    #[serde(default = "default_exclude_quality")]
+    pub exclude_quality: Vec<String>,
+    /// Least points in each fluid leg. Default 2.
+    #[serde(default = "default_min_leg")]
+    pub min_leg_points: usize,
+}
+
+fn default_exclude_quality() -> Vec<String> {
+    vec!["poor".into(), "bad".into()]
+}
+fn default_min_leg() -> usize {
+    2
+}
+
+/// `[compartments.NAME]`: a pressure compartment with one free water level.
+#[derive(Debug, Clone, Deserialize, Default)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct CompartmentConfig {
+    /// Wells of the compartment (LAS well name or file stem). Absent: every
+    /// well that no other compartment lists (at most one compartment may omit it).
+    pub wells: Option<Vec<String>>,
+    /// Free water level set directly, TVDSS in the project depth unit. It
+    /// wins over the pressure fit, which is still reported.
+    pub fwl_tvdss: Option<f64>,
+    /// Depth (TVDSS, project depth unit) separating the hydrocarbon leg
+    /// (at or above) from the water leg. Absent: the split with the least
+    /// total squared residual.
+    pub split_tvdss: Option<f64>,
+    /// Formation-water density, g/cm3. Absent: from the water leg's gradient.
+    pub rho_water_gcc: Option<f64>,
+    /// Hydrocarbon density, g/cm3. Absent: from the hydrocarbon leg's gradient.
+    pub rho_hc_gcc: Option<f64>,
+}
+
+/// `[saturation-height]`: the saturation-height model at every depth.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct SatHeightConfig {
+    /// Reservoir σ and θ. Default oil-brine at reservoir conditions, 30 dyn/cm
+    /// and 30° (typical values, from memory; formulas.md §8.2).
+    #[serde(default)]
+    pub reservoir: Option<FluidProps>,
+    /// A well is reported as possibly under another free water level when its
+    /// mean SW − SWH above the FWL differs from the median of its
+    /// neighbours' means by more than this, v/v. Default 0.05.
+    #[serde(default = "default_bias")]
+    pub bias_threshold_vv: f64,
+}
+
+fn default_bias() -> f64 {
+    0.05
+}
+
+impl Default for SatHeightConfig {
+    fn default() -> Self {
+        SatHeightConfig {
+            reservoir: None,
+            bias_threshold_vv: default_bias(),
+        }
+    }
+}
+
+fn check_fluid(key: &str, f: &FluidProps) -> Result<(), (String, String)> {
+    if !(f.sigma_dyn_cm.is_finite() && f.sigma_dyn_cm > 0.0) {
+        return Err((
+            format!("{key}.sigma-dyn-cm"),
+            format!("{} must be a number above 0", f.sigma_dyn_cm),
+        ));
+    }
+    if !((0.0..=180.0).contains(&f.theta_deg) && (f.theta_deg - 90.0).abs() > 1e-6) {
+        return Err((
+            format!("{key}.theta-deg"),
+            format!(
+                "{} must be in 0-180 and not 90 (no capillary pressure at 90°)",
+                f.theta_deg
+            ),
+        ));
+    }
+    Ok(())
+}
+
+/// Validate the saturation-height tables; `has_classes` says whether
+/// `[classes]` is set (the model is per class). Returns (key, message).
+pub fn validate(
+    capillary: Option<&CapillaryConfig>,
+    pressures: Option<&PressuresConfig>,
+    compartments: &BTreeMap<String, CompartmentConfig>,
+    sat: &SatHeightConfig,
+    has_classes: bool,
+) -> Result<(), (String, String)> {
+    if let Some(c) = capillary {
+        if !has_classes {
+            return Err((
+                "capillary".into(),
+                "the J-functions are fitted per hydraulic class: [capillary] needs [classes]"
+                    .into(),
+            ));
+        }
+        for (name, f) in &c.lab {
+            if crate::capillary::FluidSystem::parse_lab(name).is_none() {
+                return Err((
+                    format!("capillary.lab.\"{name}\""),
+                    "not a lab system: use mercury-air, air-brine or oil-brine".into(),
+                ));
+            }
+            check_fluid(&format!("capillary.lab.\"{name}\""), f)?;
+        }
+        for (s, class) in &c.plug_class {
+            if *class == 0 {
+                return Err((
+                    format!("capillary.plug-class.\"{s}\""),
+                    "class numbers start at 1".into(),
+                ));
+            }
+        }
+        if !(c.suggest_ratio > 0.0 && c.suggest_ratio < 1.0) {
+            return Err((
+                "capillary.suggest-ratio".into(),
+                format!("{} must be above 0 and below 1", c.suggest_ratio),
+            ));
+        }
+    }
+    if let Some(p) = pressures {
+        if p.min_leg_points < 2 {
+            return Err((
+                "pressures.min-leg-points".into(),
+                format!("{} is below 2: a line needs two points", p.min_leg_points),
+            ));
+        }
+    }
+    if let Some(r) = &sat.reservoir {
+        check_fluid("saturation-height.reservoir", r)?;
+    }
+    if !(sat.bias_threshold_vv > 0.0 && sat.bias_threshold_vv < 1.0) {
+        return Err((
+            "saturation-height.bias-threshold-vv".into(),
+            format!("{} must be above 0 and below 1", sat.bias_threshold_vv),
+        ));
+    }
+    let mut seen: BTreeMap<String, &str> = BTreeMap::new();
+    let mut catch_all: Option<&str> = None;
+    for (name, c) in compartments {
+        let key = format!("compartments.\"{name}\"");
+        match &c.wells {
+            None => {
+                if let Some(other) = catch_all {
+                    return Err((
+                        format!("{key}.wells"),
+                        format!(
+                            "compartments `{other}` and `{name}` both omit `wells`; at most one may take the unlisted wells"
+                        ),
+                    ));
+                }
+                catch_all = Some(name);
+            }
+            Some(list) => {
+                for w in list {
+                    if let Some(other) = seen.insert(w.to_ascii_lowercase(), name) {
+                        return Err((
+                            format!("{key}.wells"),
+                            format!("well `{w}` is also in compartment `{other}`"),
+                        ));
+                    }
+                }
+            }
+        }
+        for (k, v) in [("fwl-tvdss", c.fwl_tvdss), ("split-tvdss", c.split_tvdss)] {
+            if v.is_some_and(|v| !v.is_finite()) {
+                return Err((format!("{key}.{k}"), "not a number".into()));
+            }
+        }
+        for (k, v) in [
+            ("rho-water-gcc", c.rho_water_gcc),
+            ("rho-hc-gcc", c.rho_hc_gcc),
+        ] {
+            if v.is_some_and(|v| !(v.is_finite() && v > 0.0 && v < 3.0)) {
+                return Err((
+                    format!("{key}.{k}"),
+                    format!("{} must be a density in g/cm3 (0-3)", v.unwrap_or(f64::NAN)),
+                ));
+            }
+        }
+        if let (Some(w), Some(h)) = (c.rho_water_gcc, c.rho_hc_gcc) {
+            if h >= w {
+                return Err((
+                    format!("{key}.rho-hc-gcc"),
+                    format!("{h} must be below rho-water-gcc ({w})"),
+                ));
+            }
+        }
+        if c.fwl_tvdss.is_none() && pressures.is_none() {
+            return Err((
+                format!("{key}.fwl-tvdss"),
+                "no free water level: set fwl-tvdss or give [pressures]".into(),
+            ));
+        }
+    }
+    Ok(())
+}
