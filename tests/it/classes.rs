@@ -11,29 +11,7 @@ use std::path::{Path, PathBuf};
 
 use flowzone::predictor::model_file::{ClassModel, ModelFileError, SMARTCORE_VERSION};
 
-use crate::common::{flowzone, root, run_config, run_demo_field};
-
-/// Header and rows of a CSV file.
-fn read_table(path: &Path) -> (Vec<String>, Vec<Vec<String>>) {
-    let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
-    let mut lines = text.lines();
-    let head = lines
-        .next()
-        .expect("header")
-        .split(',')
-        .map(String::from)
-        .collect();
-    let rows = lines
-        .map(|l| l.split(',').map(String::from).collect())
-        .collect();
-    (head, rows)
-}
-
-fn col(head: &[String], name: &str) -> usize {
-    head.iter()
-        .position(|h| h == name)
-        .unwrap_or_else(|| panic!("no column {name} in {head:?}"))
-}
+use crate::common::{col, flowzone, read_table, root, run_config, run_demo_field};
 
 /// The demo config with its paths made absolute, and `extra` TOML lines
 /// spliced in after `[predictor]`; `wells` replaces the input list.

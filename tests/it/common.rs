@@ -140,3 +140,26 @@ pub fn crlf(bytes: &[u8]) -> Vec<u8> {
     }
     out
 }
+
+/// Header and rows of a CSV file (plain comma-separated, no quoting).
+pub fn read_table(path: &Path) -> (Vec<String>, Vec<Vec<String>>) {
+    let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
+    let mut lines = text.lines();
+    let head = lines
+        .next()
+        .expect("header")
+        .split(',')
+        .map(String::from)
+        .collect();
+    let rows = lines
+        .map(|l| l.split(',').map(String::from).collect())
+        .collect();
+    (head, rows)
+}
+
+/// The index of a column by name; panics naming the columns there are.
+pub fn col(head: &[String], name: &str) -> usize {
+    head.iter()
+        .position(|h| h == name)
+        .unwrap_or_else(|| panic!("no column {name} in {head:?}"))
+}
