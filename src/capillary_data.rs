@@ -2,9 +2,9 @@
 //! J, and fitted per class with a Brooks-Corey or a Thomeer curve in J,
 //! whichever has the smaller RMS of Sw.
 //!
-//! CSV columns: SAMPLE, WELL, DEPTH_MD, POROSITY_FRAC, PERM_MD, PC_PSI,
-//! SW_FRAC (wetting-phase saturation), SYSTEM (mercury-air, air-brine,
-//! oil-brine). One row per pressure step; a sample's rows share its porosity
+//! CSV columns: SAMPLE, WELL, DEPTH_MD, POROSITY_FRAC, PERM_MD, the
+//! capillary pressure in one of PC_PSI, PC_KPA, PC_MPA or PC_BAR, SW_FRAC
+//! (wetting-phase saturation), SYSTEM (mercury-air, air-brine, oil-brine). One row per pressure step; a sample's rows share its porosity
 //! and permeability.
 
 use std::collections::BTreeMap;
@@ -12,7 +12,38 @@ use std::path::Path;
 
 use serde::{Deserialize, Serialize};
 
-use crate::capillary::{FluidSystem, leverett_j, thomeer_fraction};
+use crate::capillary::{FluidSystem, PA_PER_PSI, leverett_j, thomeer_fraction};
+
+/// Pa per unit of each capillary-pressure column (1 bar = 1e5 Pa by
+/// definition; psi from NIST SP 811 via [`PA_PER_PSI`]).
+const PC_COLUMNS: [(&str, f64); 4] = [
+    ("PC_PSI", PA_PER_PSI),
+    ("PC_KPA", 1e3),
+    ("PC_MPA", 1e6),
+    ("PC_BAR", 1e5),
+];
+
+impl Row {
+    /// The row's capillary pressure in psi, from whichever one PC_ column it
+    /// gives; `Err` naming the columns when none or several are given.
+    /// Returns (psi, column, the value as written).
+    fn pc_psi(&self) -> Result<(f64, &'static str, f64), String> {
+        let given: Vec<(&'static str, f64, f64)> = PC_COLUMNS
+            .iter()
+            .zip([self.pc_psi, self.pc_kpa, self.pc_mpa, self.pc_bar])
+            .filter_map(|((name, pa), v)| v.map(|v| (*name, *pa, v)))
+            .collect();
+        match given.as_slice() {
+            [(name, pa, v)] => Ok((v * pa / PA_PER_PSI, name, *v)),
+            [] => Err("no capillary pressure: give one of PC_PSI, PC_KPA, PC_MPA, PC_BAR".into()),
+            _ => Err(format!(
+                "capillary pressure given in {} columns ({}): give exactly one",
+                given.len(),
+                given.iter().map(|g| g.0).collect::<Vec<_>>().join(", ")
+            )),
+        }
+    }
+}
 use crate::core_data::Rejected;
 use crate::tables::{TableError, read_csv};
 
@@ -28,8 +59,14 @@ struct Row {
     porosity: f64,
     #[serde(rename = "PERM_MD")]
     perm_md: f64,
-    #[serde(rename = "PC_PSI")]
-    pc_psi: f64,
+    #[serde(rename = "PC_PSI", default)]
+    pc_psi: Option<f64>,
+    #[serde(rename = "PC_KPA", default)]
+    pc_kpa: Option<f64>,
+    #[serde(rename = "PC_MPA", default)]
+    pc_mpa: Option<f64>,
+    #[serde(rename = "PC_BAR", default)]
+    pc_bar: Option<f64>,
     #[serde(rename = "SW_FRAC")]
     sw: f64,
     #[serde(rename = "SYSTEM")]
@@ -90,13 +127,20 @@ pub fn read(path: &Path) -> Result<(Vec<CapSample>, Vec<Rejected>), TableError> 
             });
             continue;
         };
-        if !(r.pc_psi.is_finite() && r.pc_psi > 0.0) {
-            rejected.push(Rejected {
-                line,
-                reason: format!("PC_PSI {} is not above 0", r.pc_psi),
-            });
-            continue;
-        }
+        let pc_psi = match r.pc_psi() {
+            Ok((pc, _, _)) if pc.is_finite() && pc > 0.0 => pc,
+            Ok((_, name, raw)) => {
+                rejected.push(Rejected {
+                    line,
+                    reason: format!("{name} {raw} is not above 0"),
+                });
+                continue;
+            }
+            Err(reason) => {
+                rejected.push(Rejected { line, reason });
+                continue;
+            }
+        };
         if !(0.0..=1.0).contains(&r.sw) {
             rejected.push(Rejected {
                 line,
@@ -137,10 +181,10 @@ pub fn read(path: &Path) -> Result<(Vec<CapSample>, Vec<Rejected>), TableError> 
             });
             continue;
         }
-        entry.steps.push((r.pc_psi, r.sw));
+        entry.steps.push((pc_psi, r.sw));
         entry
             .j
-            .push(leverett_j(r.pc_psi, sc, entry.perm_md, entry.porosity));
+            .push(leverett_j(pc_psi, sc, entry.perm_md, entry.porosity));
     }
     let mut samples = Vec::with_capacity(by.len());
     for mut s in by.into_values() {
@@ -817,6 +861,37 @@ mod tests {
     /// by 0.1 at a higher Pc and a sample with two steps (constructed case):
     /// only the good one is kept, sorted by Pc with J paired; the others are
     /// rejected at the line of their first row with their name in the reason.
+    /// Pressures in kPa read as psi: 10, 20, 40 psi are 68.94757, 137.89514,
+    /// 275.79028 kPa (1 psi = 6894.757 Pa, NIST SP 811); a row with two
+    /// pressure columns or none is left out with the reason.
+    #[test]
+    fn pressure_unit_columns() {
+        let dir = tempfile::tempdir().expect("tempdir");
+        let path = dir.path().join("cap.csv");
+        let mut text =
+            "SAMPLE,WELL,DEPTH_MD,POROSITY_FRAC,PERM_MD,PC_PSI,PC_KPA,SW_FRAC,SYSTEM\n".to_string();
+        for (kpa, sw) in [(68.94757, 1.0), (137.89514, 0.8), (275.79028, 0.5)] {
+            text += &format!("K,W,1,0.2,50,,{kpa},{sw},mercury-air\n");
+        }
+        text += "K,W,1,0.2,50,80,551.58,0.4,mercury-air\n";
+        text += "K,W,1,0.2,50,,,0.3,mercury-air\n";
+        std::fs::write(&path, text).expect("write");
+        let (samples, rejected) = read(&path).expect("read");
+        let pcs: Vec<f64> = samples[0].steps.iter().map(|s| s.0).collect();
+        for (got, want) in pcs.iter().zip([10.0, 20.0, 40.0]) {
+            assert_close(*got, want, 1e-6);
+        }
+        assert_eq!(rejected.len(), 2, "{rejected:?}");
+        assert!(
+            rejected[0].reason.contains("PC_PSI, PC_KPA"),
+            "{rejected:?}"
+        );
+        assert!(
+            rejected[1].reason.contains("no capillary pressure"),
+            "{rejected:?}"
+        );
+    }
+
     #[test]
     fn read_checks_samples_and_sorts_steps() {
         let dir = tempfile::tempdir().expect("tempdir");
