@@ -86,8 +86,42 @@ pub fn tvdss(tvd: &[f64], reference_elevation: f64) -> Vec<f64> {
     tvd.iter().map(|t| t - reference_elevation).collect()
 }
 
+/// `ys` at `x` by linear interpolation between the samples of ascending
+/// `xs`; `None` outside [first, last] or where the result is not a number.
+pub fn interpolate(xs: &[f64], ys: &[f64], x: f64) -> Option<f64> {
+    let (first, last) = (*xs.first()?, *xs.last()?);
+    if !(x >= first && x <= last) || xs.len() != ys.len() {
+        return None;
+    }
+    if xs.len() == 1 {
+        return ys[0].is_finite().then_some(ys[0]);
+    }
+    let k = xs.partition_point(|&v| v <= x).clamp(1, xs.len() - 1);
+    let (x0, x1) = (xs[k - 1], xs[k]);
+    let y = if x == x0 {
+        ys[k - 1]
+    } else if x1 > x0 {
+        ys[k - 1] + (x - x0) / (x1 - x0) * (ys[k] - ys[k - 1])
+    } else {
+        ys[k - 1]
+    };
+    y.is_finite().then_some(y)
+}
+
 #[cfg(test)]
 mod tests {
+    #[test]
+    fn interpolation_inside_and_outside() {
+        let xs = [100.0, 101.0, 103.0];
+        let ys = [70.0, 71.0, f64::NAN];
+        assert_eq!(super::interpolate(&xs, &ys, 100.25), Some(70.25));
+        assert_eq!(super::interpolate(&xs, &ys, 101.0), Some(71.0));
+        assert_eq!(super::interpolate(&xs, &ys, 100.0), Some(70.0));
+        assert_eq!(super::interpolate(&xs, &ys, 99.9), None);
+        assert_eq!(super::interpolate(&xs, &ys, 102.0), None);
+        assert_eq!(super::interpolate(&xs[..1], &ys[..1], 100.0), Some(70.0));
+    }
+
     use super::*;
     use crate::testutil::assert_close;
 

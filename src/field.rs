@@ -110,8 +110,14 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         None
     };
     let setup = prepared.as_ref().and_then(|p| p.setup.as_ref());
+    let lookup = DepthLookup {
+        files: &files,
+        ctx: &ctx,
+        cache: std::sync::Mutex::new(std::collections::BTreeMap::new()),
+    };
+    let tvdss_of = |well: &str, md: f64| lookup.tvdss(well, md);
     let sat = match setup {
-        Some(s) => crate::sat_height::prepare(config, &s.scheme)?,
+        Some(s) => crate::sat_height::prepare(config, &s.scheme, &tvdss_of)?,
         None if config.capillary.is_some() => {
             return Err(Error::Usage(
                 "[capillary] needs a class model: give [classes] with [core] or [predictor] model"
@@ -242,6 +248,51 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
     Ok(summary)
 }
 
+/// A well's (MD, TVDSS) columns, or why there are none.
+type DepthColumns = Result<(Vec<f64>, Vec<f64>), String>;
+
+/// Measured depth to TVDSS in a named well, through the well's own depth
+/// reference (elevation, survey); each well is processed once, when a
+/// pressure point given by MD needs it.
+struct DepthLookup<'a> {
+    files: &'a [PathBuf],
+    ctx: &'a well::RunContext,
+    cache: std::sync::Mutex<std::collections::BTreeMap<String, DepthColumns>>,
+}
+
+impl DepthLookup<'_> {
+    /// The (MD, TVDSS) columns of the well named `well` (LAS name or file
+    /// stem): files whose stem matches are tried first, then the others.
+    fn columns(&self, well: &str) -> DepthColumns {
+        let mut order: Vec<&PathBuf> = self.files.iter().collect();
+        order.sort_by_key(|f| !well::stem_of(f).eq_ignore_ascii_case(well));
+        for f in order {
+            let Ok(out) = well::process(f, self.ctx) else {
+                continue;
+            };
+            if out.name.eq_ignore_ascii_case(well) || well::stem_of(f).eq_ignore_ascii_case(well) {
+                let md = out.column("DEPTH").map(<[f64]>::to_vec).unwrap_or_default();
+                let tvdss = out.column("TVDSS").map(<[f64]>::to_vec).unwrap_or_default();
+                return Ok((md, tvdss));
+            }
+        }
+        Err(format!(
+            "well `{well}` is not among the field's readable LAS wells, so its MD cannot be converted to TVDSS"
+        ))
+    }
+
+    fn tvdss(&self, well: &str, md: f64) -> Result<f64, String> {
+        let mut cache = self.cache.lock().unwrap_or_else(|e| e.into_inner());
+        let entry = cache
+            .entry(well.to_ascii_lowercase())
+            .or_insert_with(|| self.columns(well));
+        let (mds, tvdss) = entry.as_ref().map_err(Clone::clone)?;
+        crate::depth::interpolate(mds, tvdss, md).ok_or_else(|| {
+            format!("{well}: MD {md} is outside the logged depths or the well has no TVDSS (no datum elevation)")
+        })
+    }
+}
+
 /// What every well of a run goes through after the stages.
 struct WellStages<'a> {
     ctx: &'a well::RunContext,
@@ -278,6 +329,12 @@ fn report_model(m: &crate::sat_height::SatHeightModel) {
         eprintln!(
             "saturation-height: compartment {}: FWL {:.2}{sigma} TVDSS ({}), water {:.3} / hydrocarbon {:.3} g/cm3 ({})",
             c.name, c.fwl_tvdss, c.source, c.rho_water_gcc, c.rho_hc_gcc, c.density_source
+        );
+    }
+    for r in &m.plugs_rejected {
+        eprintln!(
+            "saturation-height: capillary row or plug left out, line {}: {}",
+            r.line, r.reason
         );
     }
     for r in &m.pressure_points_left_out {

@@ -163,11 +163,19 @@ fn usage(msg: String) -> Error {
     Error::Usage(msg)
 }
 
+/// TVDSS (project depth unit) of a measured depth (project depth unit) in a
+/// well, by the well's own depth reference; `Err` says why not.
+pub type TvdssOf<'a> = &'a (dyn Fn(&str, f64) -> Result<f64, String> + Sync);
+
 /// Build the model before the wells: read and class the plugs, fit a
 /// J-function per class, find every compartment's FWL. `None` when the config
 /// has no `[capillary]`. A fit that fails is an error naming the class or
-/// compartment.
-pub fn prepare(config: &Config, scheme: &SchemeInfo) -> Result<Option<SatHeightModel>, Error> {
+/// compartment. `tvdss_of` converts pressure points given by MD only.
+pub fn prepare(
+    config: &Config,
+    scheme: &SchemeInfo,
+    tvdss_of: TvdssOf<'_>,
+) -> Result<Option<SatHeightModel>, Error> {
     let Some(cap) = &config.capillary else {
         return Ok(None);
     };
@@ -314,7 +322,7 @@ pub fn prepare(config: &Config, scheme: &SchemeInfo) -> Result<Option<SatHeightM
         .collect();
 
     // free water levels
-    let (compartments, pressure_points_left_out) = compartments(config)?;
+    let (compartments, pressure_points_left_out) = compartments(config, tvdss_of)?;
     Ok(Some(SatHeightModel {
         capillary_file: cap_path.display().to_string(),
         reservoir,
@@ -368,6 +376,10 @@ pub fn nearest_with_data(c: u8, with_data: &[u8]) -> u8 {
 struct PressureRow {
     #[serde(rename = "WELL")]
     well: String,
+    #[serde(rename = "DEPTH_MD", default)]
+    depth_md: Option<f64>,
+    #[serde(rename = "DEPTH_UNIT", default)]
+    depth_unit: Option<String>,
     #[serde(rename = "TVDSS_M", default)]
     tvdss_m: Option<f64>,
     #[serde(rename = "TVDSS_FT", default)]
@@ -399,7 +411,10 @@ pub fn compartment_of<'a, T>(
 }
 
 /// Every compartment's FWL and the pressure points left out.
-fn compartments(config: &Config) -> Result<(Vec<CompartmentFwl>, Vec<Rejected>), Error> {
+fn compartments(
+    config: &Config,
+    tvdss_of: TvdssOf<'_>,
+) -> Result<(Vec<CompartmentFwl>, Vec<Rejected>), Error> {
     let du = config.project.depth_unit;
     let to_m = du.factor_to(DepthUnit::Metre);
     let mut cfgs: Vec<(String, CompartmentConfig)> = config
@@ -424,14 +439,18 @@ fn compartments(config: &Config) -> Result<(Vec<CompartmentFwl>, Vec<Rejected>),
         let rows: Vec<(u64, PressureRow)> =
             crate::tables::read_csv(&path).map_err(|e| usage(chain(&e)))?;
         for (line, r) in rows {
-            let tvdss_m = match (r.tvdss_m, r.tvdss_ft) {
-                (Some(m), None) => m,
-                (None, Some(f)) => f * DepthUnit::Foot.factor_to(DepthUnit::Metre),
-                _ => {
-                    left_out.push(Rejected {
-                        line,
-                        reason: "give exactly one of TVDSS_M and TVDSS_FT".into(),
-                    });
+            let tvdss_m = match (r.tvdss_m, r.tvdss_ft, r.depth_md) {
+                (Some(m), None, _) => Ok(m),
+                (None, Some(f), _) => Ok(f * DepthUnit::Foot.factor_to(DepthUnit::Metre)),
+                (None, None, Some(md)) => DepthUnit::from_optional(r.depth_unit.as_deref(), du)
+                    .and_then(|u| tvdss_of(&r.well, md * u.factor_to(du)))
+                    .map(|t| t * to_m),
+                _ => Err("give TVDSS_M or TVDSS_FT (not both), or DEPTH_MD".into()),
+            };
+            let tvdss_m = match tvdss_m {
+                Ok(t) => t,
+                Err(reason) => {
+                    left_out.push(Rejected { line, reason });
                     continue;
                 }
             };

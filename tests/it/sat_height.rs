@@ -285,3 +285,50 @@ fn a_compartment_without_a_free_water_level_is_refused() {
         ],
     );
 }
+
+/// The demo's pressure points given by MD only (the TVDSS_M column removed)
+/// are converted through each well's own elevation and path: the FWLs agree
+/// with the TVDSS run within 0.02 m (both columns are written to 0.01 m).
+#[test]
+fn pressure_points_by_md_give_the_same_fwl() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let text = std::fs::read_to_string(root().join("demo-wells/pressures.csv")).expect("csv");
+    let head: Vec<&str> = text.lines().next().expect("header").split(',').collect();
+    let drop = head.iter().position(|h| *h == "TVDSS_M").expect("TVDSS_M");
+    let md_only: String = text
+        .lines()
+        .map(|l| {
+            let mut f: Vec<&str> = l.split(',').collect();
+            f.remove(drop);
+            f.join(",") + "\n"
+        })
+        .collect();
+    std::fs::write(dir.path().join("p.csv"), md_only).expect("write");
+    let cfg = demo_config(dir.path(), |t| {
+        t.replace(
+            &format!("{}/pressures.csv", root().join("demo-wells").display()),
+            &format!("{}/p.csv", dir.path().display()),
+        )
+    });
+    let out = dir.path().join("out");
+    let run = run_config(&cfg, &out, &[]);
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+    let md: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
+            .expect("json");
+    let reference = run_demo_field(&dir.path().join("ref"));
+    for k in 0..2 {
+        let a = &md["saturation_height"]["compartments"][k];
+        let b = &reference["saturation_height"]["compartments"][k];
+        assert_eq!(a["points_used"], b["points_used"]);
+        let (fa, fb) = (
+            a["fwl_tvdss"].as_f64().expect("fwl"),
+            b["fwl_tvdss"].as_f64().expect("fwl"),
+        );
+        assert!((fa - fb).abs() <= 0.02, "{}: {fa} vs {fb}", a["name"]);
+    }
+}
