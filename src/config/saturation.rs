@@ -22,7 +22,8 @@ pub struct FluidProps {
 #[serde(deny_unknown_fields, rename_all = "kebab-case")]
 pub struct CapillaryConfig {
     /// CSV of lab curves: SAMPLE, WELL, DEPTH_MD, POROSITY_FRAC, PERM_MD,
-    /// PC_PSI, SW_FRAC, SYSTEM (mercury-air, air-brine, oil-brine).
+    /// one of PC_PSI, PC_KPA, PC_MPA, PC_BAR, then SW_FRAC and SYSTEM
+    /// (mercury-air, air-brine, oil-brine).
     pub file: PathBuf,
     /// σ and θ of a lab system, overriding the typical values, by system name
     /// ("mercury-air" 480 dyn/cm 140°, "air-brine" 72/0°, "oil-brine" 48/30°).
@@ -47,8 +48,9 @@ fn default_suggest_ratio() -> f64 {
 #[derive(Debug, Clone, Deserialize)]
 #[serde(deny_unknown_fields, rename_all = "kebab-case")]
 pub struct PressuresConfig {
-    /// CSV: WELL, TVDSS_M or TVDSS_FT, PRESSURE_PSI, optional QUALITY (and any
-    /// other columns, e.g. DEPTH_MD, which are not used).
+    /// CSV: WELL, TVDSS_M or TVDSS_FT (or DEPTH_MD with an optional
+    /// DEPTH_UNIT, converted through the well's depth reference),
+    /// PRESSURE_PSI, optional QUALITY.
     pub file: PathBuf,
     /// QUALITY values whose points are left out (case-insensitive). Default ["poor", "bad"].
     #[serde(default = "default_exclude_quality")]
