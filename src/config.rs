@@ -17,7 +17,8 @@ mod classes;
 mod saturation;
 pub use classes::{ClassesConfig, CoreConfig, CoreFormat, PermMethod, PredictorConfig, SchemeSpec};
 pub use saturation::{
-    CapillaryConfig, CompartmentConfig, FluidProps, PressuresConfig, SatHeightConfig,
+    CapillaryConfig, CompartmentConfig, ContactsConfig, FluidProps, PressuresConfig,
+    SatHeightConfig,
 };
 
 /// An error loading a config file.
@@ -79,6 +80,9 @@ pub struct Config {
     /// Settings of the saturation-height model.
     #[serde(default)]
     pub saturation_height: SatHeightConfig,
+    /// Settings of the saturation-step audit (contacts.csv).
+    #[serde(default)]
+    pub contacts: ContactsConfig,
     /// The folder the config file is in; relative paths start here.
     #[serde(skip)]
     pub base_dir: PathBuf,
@@ -299,6 +303,9 @@ impl Config {
             &self.saturation_height,
             self.classes.is_some(),
         ) {
+            return Err(invalid(&key, message));
+        }
+        if let Err((key, message)) = self.contacts.validate() {
             return Err(invalid(&key, message));
         }
         if self.parameters.has_class_params() && self.classes.is_none() {

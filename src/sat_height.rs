@@ -553,6 +553,43 @@ fn compartments(
 }
 
 impl SatHeightModel {
+    /// A model from given class curves (class 1 first) and compartments, for
+    /// audits and tests that do not read lab or pressure files.
+    pub fn new_for_audit(
+        classes: Vec<JCurve>,
+        sigma_cos_reservoir: f64,
+        compartments: Vec<CompartmentFwl>,
+        depth_unit: DepthUnit,
+    ) -> SatHeightModel {
+        SatHeightModel {
+            capillary_file: String::new(),
+            reservoir: FluidProps {
+                sigma_dyn_cm: sigma_cos_reservoir,
+                theta_deg: 0.0,
+            },
+            sigma_cos_reservoir,
+            form_criterion: J_FORM_CRITERION.to_string(),
+            classes: classes
+                .into_iter()
+                .zip(1u8..)
+                .map(|(curve, class)| ClassJ {
+                    class,
+                    fit: None,
+                    points: curve.points(),
+                    curve,
+                    borrowed_from: None,
+                    plugs: Vec::new(),
+                })
+                .collect(),
+            plugs: Vec::new(),
+            plugs_rejected: Vec::new(),
+            pressure_file: None,
+            pressure_points_left_out: Vec::new(),
+            compartments,
+            depth_unit,
+        }
+    }
+
     /// The compartment of a well (LAS name or file stem).
     pub fn compartment(&self, names: &[&str]) -> Option<&CompartmentFwl> {
         let list: Vec<(String, &CompartmentFwl)> = self
@@ -966,33 +1003,7 @@ mod tests {
     use crate::testutil::assert_close;
 
     fn model(curves: Vec<JCurve>) -> SatHeightModel {
-        SatHeightModel {
-            capillary_file: String::new(),
-            reservoir: FluidProps {
-                sigma_dyn_cm: 26.0,
-                theta_deg: 0.0,
-            },
-            sigma_cos_reservoir: 26.0,
-            form_criterion: String::new(),
-            classes: curves
-                .into_iter()
-                .enumerate()
-                .map(|(i, curve)| ClassJ {
-                    class: u8::try_from(i + 1).expect("few classes"),
-                    fit: None,
-                    curve,
-                    borrowed_from: None,
-                    plugs: Vec::new(),
-                    points: 0,
-                })
-                .collect(),
-            plugs: Vec::new(),
-            plugs_rejected: Vec::new(),
-            pressure_file: None,
-            pressure_points_left_out: Vec::new(),
-            compartments: Vec::new(),
-            depth_unit: DepthUnit::Foot,
-        }
+        SatHeightModel::new_for_audit(curves, 26.0, Vec::new(), DepthUnit::Foot)
     }
 
     fn bc(jd: f64, lambda: f64, swirr: f64) -> JCurve {

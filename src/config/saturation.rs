@@ -252,3 +252,105 @@ pub fn validate(
     }
     Ok(())
 }
+
+/// `[contacts]`: the saturation-step audit (needs the saturation-height model).
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct ContactsConfig {
+    /// Least change of SW across a step, between the beds just above and
+    /// below it, v/v. Default 0.10.
+    #[serde(default = "default_min_step")]
+    pub min_step_vv: f64,
+    /// Thinnest bed a step may bound, m. Default 0.6 (about the vertical
+    /// resolution of deep resistivity tools; common practice).
+    #[serde(default = "default_min_bed")]
+    pub min_bed_thickness_m: f64,
+    /// Multiplier of the segmentation penalty 2·σ²·ln n (σ the SW noise,
+    /// estimated from the data). Default 1.
+    #[serde(default = "default_penalty")]
+    pub penalty: f64,
+    /// Permeability ratio across a step that counts as a rock change even
+    /// when the class does not change. Default 3.
+    #[serde(default = "default_perm_ratio")]
+    pub rock_perm_ratio: f64,
+    /// A modelled step matches an observed one when their sizes differ by at
+    /// most this (v/v) or by `size-tolerance-rel` of the observed size. Default 0.08.
+    #[serde(default = "default_size_tol")]
+    pub size_tolerance_vv: f64,
+    /// Relative part of the size tolerance. Default 0.5.
+    #[serde(default = "default_size_rel")]
+    pub size_tolerance_rel: f64,
+    /// A step without rock change is a fluid contact when the model puts the
+    /// same saturation within this height of it, m. Default 2.
+    #[serde(default = "default_contact_tol")]
+    pub contact_tolerance_m: f64,
+    /// A well's implied FWL disagrees with its compartment's when they differ
+    /// by more than twice their combined standard error and by more than this, m. Default 2.
+    #[serde(default = "default_fwl_tol")]
+    pub fwl_tolerance_m: f64,
+}
+
+fn default_min_step() -> f64 {
+    0.10
+}
+fn default_min_bed() -> f64 {
+    0.6
+}
+fn default_penalty() -> f64 {
+    1.0
+}
+fn default_perm_ratio() -> f64 {
+    3.0
+}
+fn default_size_tol() -> f64 {
+    0.08
+}
+fn default_size_rel() -> f64 {
+    0.5
+}
+fn default_contact_tol() -> f64 {
+    2.0
+}
+fn default_fwl_tol() -> f64 {
+    2.0
+}
+
+impl Default for ContactsConfig {
+    fn default() -> Self {
+        ContactsConfig {
+            min_step_vv: default_min_step(),
+            min_bed_thickness_m: default_min_bed(),
+            penalty: default_penalty(),
+            rock_perm_ratio: default_perm_ratio(),
+            size_tolerance_vv: default_size_tol(),
+            size_tolerance_rel: default_size_rel(),
+            contact_tolerance_m: default_contact_tol(),
+            fwl_tolerance_m: default_fwl_tol(),
+        }
+    }
+}
+
+impl ContactsConfig {
+    /// Refuse values outside their range; (key, message).
+    pub fn validate(&self) -> Result<(), (String, String)> {
+        let checks = [
+            ("min-step-vv", self.min_step_vv, 0.0, 1.0),
+            ("min-bed-thickness-m", self.min_bed_thickness_m, 0.0, 100.0),
+            ("penalty", self.penalty, 0.0, 1000.0),
+            ("rock-perm-ratio", self.rock_perm_ratio, 1.0, 1e6),
+            ("size-tolerance-vv", self.size_tolerance_vv, 0.0, 1.0),
+            ("size-tolerance-rel", self.size_tolerance_rel, 0.0, 10.0),
+            ("contact-tolerance-m", self.contact_tolerance_m, 0.0, 1000.0),
+            ("fwl-tolerance-m", self.fwl_tolerance_m, 0.0, 1000.0),
+        ];
+        for (k, v, lo, hi) in checks {
+            if !(v > lo && v <= hi) {
+                return Err((
+                    format!("contacts.{k}"),
+                    format!("{v} must be above {lo} and at most {hi}"),
+                ));
+            }
+        }
+        Ok(())
+    }
+}

@@ -1,0 +1,829 @@
+//! The contact audit: every saturation step along a well, found and
+//! explained as a rock-quality step, a fluid contact, or unexplained; the free
+//! water level each well's logs imply, against its compartment's.
+//!
+//! ```text
+//! SW (class-aware) ─► segments (penalised least squares, min bed) ─► steps ≥ min-step
+//! each step: rock change? (CLASS, PERM) + SWH step of the same sign and size ─► rock-quality
+//!            no rock change + model puts that saturation at this height        ─► fluid-contact
+//!            otherwise                                                        ─► unexplained
+//!            bad hole or out-of-range input at the step                        ─► flagged
+//! SW against SWH(FWL) over the well ─► implied FWL ± σ ─► agrees with the compartment?
+//! ```
+//!
+//! Units: depths in the project's unit (MD, TVDSS, HAFWL), heights for the
+//! saturation-height model in m, saturation v/v, permeability mD.
+
+use serde::Serialize;
+
+use crate::config::ContactsConfig;
+use crate::core_set::column;
+use crate::output::{OutColumn, Table};
+use crate::sat_height::{CompartmentFwl, SatHeightModel};
+use crate::stages::{FLAG_MISSING_INPUT, FLAG_OUT_OF_RANGE, FLAG_OUTSIDE_ZONE};
+use crate::units::DepthUnit;
+
+/// What a step is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum StepKind {
+    /// The rock changes at the step and the saturation-height model predicts it.
+    RockQuality,
+    /// No rock change; the model puts this saturation change at this height.
+    FluidContact,
+    /// Neither: another FWL, a perched or compartmentalised contact, a tar mat, bad logs.
+    Unexplained,
+    /// Bad hole or an input out of range at the step: reported, not attributed.
+    Flagged,
+}
+
+impl StepKind {
+    pub fn name(self) -> &'static str {
+        match self {
+            StepKind::RockQuality => "rock-quality",
+            StepKind::FluidContact => "fluid-contact",
+            StepKind::Unexplained => "unexplained",
+            StepKind::Flagged => "flagged",
+        }
+    }
+
+    /// The value written in the CONTACT curve.
+    pub fn code(self) -> f64 {
+        match self {
+            StepKind::RockQuality => 1.0,
+            StepKind::FluidContact => 2.0,
+            StepKind::Unexplained => 3.0,
+            StepKind::Flagged => 4.0,
+        }
+    }
+}
+
+/// One saturation step.
+#[derive(Debug, Clone, Serialize)]
+pub struct Step {
+    pub well: String,
+    /// MD and TVDSS of the step (between the last sample above and the first
+    /// below), project depth unit.
+    pub depth_md: f64,
+    pub tvdss: f64,
+    pub kind: StepKind,
+    /// Mean SW over the bed just above and just below, v/v.
+    pub sw_above: f64,
+    pub sw_below: f64,
+    /// Most common class just above and below (0: no class, e.g. shale).
+    pub class_above: u8,
+    pub class_below: u8,
+    /// Mean modelled SW (SWH; 1 in shale) just above and below, v/v.
+    pub swh_above: f64,
+    pub swh_below: f64,
+    /// Height above the compartment's FWL, project depth unit.
+    pub hafwl: f64,
+    /// For a step without rock change: the height (project depth unit) at
+    /// which the model gives this rock the step's middle saturation.
+    pub model_height: Option<f64>,
+    pub explanation: String,
+    /// Row of the first sample below the step.
+    #[serde(skip)]
+    pub row: usize,
+}
+
+/// The FWL a well's logs imply.
+#[derive(Debug, Clone, Serialize)]
+pub struct ImpliedFwl {
+    /// Best fit, TVDSS project depth unit; `None` when the logs only bound it.
+    pub fwl_tvdss: Option<f64>,
+    /// The range within one standard error (project depth unit); an end is
+    /// `None` when the logs do not close it (e.g. no water leg in the well).
+    pub lower: Option<f64>,
+    pub upper: Option<f64>,
+    pub samples: usize,
+    /// RMS of SW − SWH at the best fit, v/v.
+    pub rms: f64,
+    /// The compartment's FWL and whether the implied one agrees with it.
+    pub compartment_fwl: f64,
+    pub agrees: bool,
+    pub note: String,
+}
+
+/// The audit of one well.
+#[derive(Debug, Clone, Serialize)]
+pub struct WellAudit {
+    pub compartment: String,
+    pub steps: Vec<Step>,
+    pub implied_fwl: Option<ImpliedFwl>,
+}
+
+/// Segment boundaries of a piecewise-constant mean: the rows (1..n) where a
+/// new segment starts, each segment at least `min_len` long, minimising the
+/// total within-segment sum of squares plus `penalty` per segment. Optimal
+/// partitioning (Jackson et al. 2005, IEEE Signal Processing Letters 12(2))
+/// with the pruning of PELT (Killick, Fearnhead & Eckley 2012, JASA
+/// 107(500)), valid for this cost; from memory.
+pub fn segment(x: &[f64], min_len: usize, penalty: f64) -> Vec<usize> {
+    let n = x.len();
+    let min_len = min_len.max(1);
+    if n < 2 * min_len {
+        return Vec::new();
+    }
+    let mut s1 = vec![0.0; n + 1];
+    let mut s2 = vec![0.0; n + 1];
+    for (i, v) in x.iter().enumerate() {
+        s1[i + 1] = s1[i] + v;
+        s2[i + 1] = s2[i] + v * v;
+    }
+    let cost = |a: usize, b: usize| {
+        let len = (b - a) as f64;
+        let s = s1[b] - s1[a];
+        (s2[b] - s2[a] - s * s / len).max(0.0)
+    };
+    let mut f = vec![f64::INFINITY; n + 1];
+    let mut last = vec![0usize; n + 1];
+    f[0] = -penalty;
+    let mut cands: Vec<usize> = vec![0];
+    for t in min_len..=n {
+        if t >= 2 * min_len && f[t - min_len].is_finite() {
+            cands.push(t - min_len);
+        }
+        let (mut best, mut arg) = (f64::INFINITY, 0);
+        for &s in &cands {
+            let v = f[s] + cost(s, t) + penalty;
+            if v < best {
+                best = v;
+                arg = s;
+            }
+        }
+        f[t] = best;
+        last[t] = arg;
+        cands.retain(|&s| f[s] + cost(s, t) <= f[t]);
+    }
+    let mut cps = Vec::new();
+    let mut t = n;
+    while t > 0 {
+        let s = last[t];
+        if s > 0 {
+            cps.push(s);
+        }
+        t = s;
+    }
+    cps.reverse();
+    cps
+}
+
+/// Noise σ of a series from its first differences: 1.4826·MAD/√2 (the MAD
+/// scale for a normal distribution; Hampel 1974, JASA 69(346); from memory).
+pub fn noise_sigma(x: &[f64]) -> f64 {
+    if x.len() < 3 {
+        return 0.0;
+    }
+    let mut d: Vec<f64> = x.windows(2).map(|w| w[1] - w[0]).collect();
+    let med = median(&mut d);
+    let mut dev: Vec<f64> = d.iter().map(|v| (v - med).abs()).collect();
+    1.4826 * median(&mut dev) / std::f64::consts::SQRT_2
+}
+
+fn median(v: &mut [f64]) -> f64 {
+    if v.is_empty() {
+        return f64::NAN;
+    }
+    v.sort_by(f64::total_cmp);
+    let n = v.len();
+    if n % 2 == 1 {
+        v[n / 2]
+    } else {
+        0.5 * (v[n / 2 - 1] + v[n / 2])
+    }
+}
+
+fn mean_finite(v: impl Iterator<Item = f64>) -> f64 {
+    let (mut s, mut n) = (0.0, 0usize);
+    for x in v.filter(|x| x.is_finite()) {
+        s += x;
+        n += 1;
+    }
+    if n == 0 { f64::NAN } else { s / n as f64 }
+}
+
+fn mode_class(c: &[f64]) -> u8 {
+    let mut counts = [0usize; 256];
+    for v in c {
+        let k = if v.is_finite() && *v >= 1.0 && *v <= 255.0 {
+            *v as usize
+        } else {
+            0
+        };
+        counts[k] += 1;
+    }
+    // ties: the lowest class number
+    let mut best = 0;
+    for (k, &n) in counts.iter().enumerate() {
+        if n > counts[best] {
+            best = k;
+        }
+    }
+    u8::try_from(best).unwrap_or(0)
+}
+
+/// The depth-indexed inputs of the audit, project depth unit for depths.
+pub struct Profile<'a> {
+    pub md: &'a [f64],
+    pub tvdss: &'a [f64],
+    pub sw: &'a [f64],
+    pub swh: &'a [f64],
+    pub class: &'a [f64],
+    pub perm: &'a [f64],
+    pub phie: &'a [f64],
+    pub flag: &'a [f64],
+}
+
+/// Bits that keep a depth out of the audit's fits.
+const SKIP_FLAGS: u32 = 1 | FLAG_OUT_OF_RANGE | FLAG_MISSING_INPUT | FLAG_OUTSIDE_ZONE;
+/// Bits that make a step "flagged" (bad hole, an input out of range).
+const STEP_FLAGS: u32 = 1 | FLAG_OUT_OF_RANGE;
+
+fn flag_at(f: &[f64], i: usize) -> u32 {
+    f.get(i)
+        .filter(|v| v.is_finite())
+        .map_or(0, |v| *v as u32)
+}
+
+/// The audit's modelled SW at a depth: SWH, or 1 for an unclassed depth with
+/// an SW (shale and other non-reservoir rock hold water).
+fn swh_audit(p: &Profile<'_>, i: usize) -> f64 {
+    if p.swh[i].is_finite() {
+        p.swh[i]
+    } else if p.sw[i].is_finite() && !p.class[i].is_finite() {
+        1.0
+    } else {
+        f64::NAN
+    }
+}
+
+/// Audit one well: steps and implied FWL. `step_m` is the sample spacing in
+/// m (for the minimum bed in samples).
+pub fn audit(
+    well: &str,
+    p: &Profile<'_>,
+    model: &SatHeightModel,
+    comp: &CompartmentFwl,
+    cfg: &ContactsConfig,
+    depth_unit: DepthUnit,
+) -> WellAudit {
+    let n = p.sw.len();
+    let to_m = depth_unit.factor_to(DepthUnit::Metre);
+    let spacing_m = median(&mut p.md.windows(2).map(|w| (w[1] - w[0]) * to_m).collect::<Vec<_>>());
+    let min_len = if spacing_m > 0.0 {
+        ((cfg.min_bed_thickness_m / spacing_m).round() as usize).max(2)
+    } else {
+        2
+    };
+    let drho = comp.rho_water_gcc - comp.rho_hc_gcc;
+    let mut steps = Vec::new();
+    let mut beds = 0usize;
+    // runs of interpreted SW
+    let mut i = 0;
+    while i < n {
+        if !p.sw[i].is_finite() {
+            i += 1;
+            continue;
+        }
+        let start = i;
+        while i < n && p.sw[i].is_finite() {
+            i += 1;
+        }
+        let run = &p.sw[start..i];
+        let sigma = noise_sigma(run).max(0.01);
+        let penalty = cfg.penalty * 2.0 * sigma * sigma * (run.len() as f64).ln().max(1.0);
+        let bounds = segment(run, min_len, penalty);
+        beds += bounds.len() + 1;
+        for b in bounds {
+            let b = start + b;
+            let (lo, hi) = (b.saturating_sub(min_len).max(start), (b + min_len).min(i));
+            let sw_above = mean_finite(p.sw[lo..b].iter().copied());
+            let sw_below = mean_finite(p.sw[b..hi].iter().copied());
+            if !((sw_below - sw_above).abs() >= cfg.min_step_vv) {
+                continue;
+            }
+            if let Some(step) = attribute(well, p, model, comp, cfg, (lo, b, hi), drho, to_m) {
+                steps.push(step);
+            }
+        }
+    }
+    let implied_fwl = implied_fwl(p, model, comp, cfg, drho, to_m, beds);
+    WellAudit {
+        compartment: comp.name.clone(),
+        steps,
+        implied_fwl,
+    }
+}
+
+#[allow(clippy::too_many_arguments)]
+fn attribute(
+    well: &str,
+    p: &Profile<'_>,
+    model: &SatHeightModel,
+    comp: &CompartmentFwl,
+    cfg: &ContactsConfig,
+    (lo, b, hi): (usize, usize, usize),
+    drho: f64,
+    to_m: f64,
+) -> Option<Step> {
+    let mid = |v: &[f64]| 0.5 * (v[b - 1] + v[b]);
+    let (md, tvdss) = (mid(p.md), mid(p.tvdss));
+    let hafwl = comp.fwl_tvdss - tvdss;
+    let sw_above = mean_finite(p.sw[lo..b].iter().copied());
+    let sw_below = mean_finite(p.sw[b..hi].iter().copied());
+    let swh_above = mean_finite((lo..b).map(|k| swh_audit(p, k)));
+    let swh_below = mean_finite((b..hi).map(|k| swh_audit(p, k)));
+    let class_above = mode_class(&p.class[lo..b]);
+    let class_below = mode_class(&p.class[b..hi]);
+    if class_above == 0 && class_below == 0 {
+        // no reservoir on either side: SW there is not a reservoir saturation
+        return None;
+    }
+    let log_k = |r: std::ops::Range<usize>| {
+        let mut v: Vec<f64> = p.perm[r]
+            .iter()
+            .filter(|k| **k > 0.0)
+            .map(|k| k.log10())
+            .collect();
+        median(&mut v)
+    };
+    let (ka, kb) = (log_k(lo..b), log_k(b..hi));
+    let perm_change = (ka - kb).abs() >= cfg.rock_perm_ratio.log10();
+    let rock_change = class_above != class_below || perm_change;
+    let d_sw = sw_below - sw_above;
+    let d_swh = swh_below - swh_above;
+    let tol = cfg
+        .size_tolerance_vv
+        .max(cfg.size_tolerance_rel * d_sw.abs());
+    let model_agrees = d_swh.is_finite() && d_swh * d_sw > 0.0 && (d_sw - d_swh).abs() <= tol;
+    let flagged = (lo..hi).any(|k| flag_at(p.flag, k) & STEP_FLAGS != 0);
+    let mut step = Step {
+        well: well.to_string(),
+        depth_md: md,
+        tvdss,
+        kind: StepKind::Unexplained,
+        sw_above,
+        sw_below,
+        class_above,
+        class_below,
+        swh_above,
+        swh_below,
+        hafwl,
+        model_height: None,
+        explanation: String::new(),
+        row: b,
+    };
+    let classes = if class_above == class_below {
+        format!("class {class_above} on both sides")
+    } else {
+        format!("class {class_above} above, {class_below} below")
+    };
+    let observed = format!("SW {sw_above:.2} → {sw_below:.2}");
+    if flagged {
+        step.kind = StepKind::Flagged;
+        step.explanation = format!(
+            "{observed} at a bad-hole or out-of-range depth: not attributed; check the logs"
+        );
+        return Some(step);
+    }
+    if class_above == 0 || class_below == 0 {
+        // reservoir against non-reservoir rock: only the reservoir side's SW
+        // is a saturation to explain
+        let (side, sw, swh) = if class_above == 0 {
+            ("below", sw_below, swh_below)
+        } else {
+            ("above", sw_above, swh_above)
+        };
+        let ok = (sw - swh).abs() <= cfg.size_tolerance_vv;
+        step.kind = if ok {
+            StepKind::RockQuality
+        } else {
+            StepKind::Unexplained
+        };
+        step.explanation = if ok {
+            format!(
+                "reservoir against non-reservoir rock ({classes}); the reservoir {side} has SW {sw:.2} where the model gives {swh:.2}: a rock-quality step"
+            )
+        } else {
+            format!(
+                "reservoir against non-reservoir rock ({classes}); the reservoir {side} has SW {sw:.2} but the model with FWL {:.1} gives {swh:.2}: look for another FWL, a perched contact, a tar mat, or bad logs",
+                comp.fwl_tvdss
+            )
+        };
+        return Some(step);
+    }
+    if rock_change {
+        if model_agrees {
+            step.kind = StepKind::RockQuality;
+            step.explanation = format!(
+                "{classes}: the saturation-height model with FWL {:.1} predicts SW {swh_above:.2} → {swh_below:.2}, the logs show {observed}: a rock-quality step, not a contact",
+                comp.fwl_tvdss
+            );
+        } else {
+            step.explanation = format!(
+                "{classes}, but the saturation-height model with FWL {:.1} predicts SW {swh_above:.2} → {swh_below:.2} where the logs show {observed}: look for another FWL, a perched or compartmentalised contact, a tar mat, or bad logs",
+                comp.fwl_tvdss
+            );
+        }
+        return Some(step);
+    }
+    // no rock change: where does the model give this rock the step's middle saturation?
+    let k = 10f64.powf(median(
+        &mut p.perm[lo..hi]
+            .iter()
+            .filter(|k| **k > 0.0)
+            .map(|k| k.log10())
+            .collect::<Vec<_>>(),
+    ));
+    let phi = median(
+        &mut p.phie[lo..hi]
+            .iter()
+            .copied()
+            .filter(|v| *v > 0.0)
+            .collect::<Vec<_>>(),
+    );
+    let target = 0.5 * (sw_above + sw_below);
+    let h_model = model_height_m(model, f64::from(class_above), k, phi, drho, target).map(|h| h / to_m);
+    step.model_height = h_model;
+    match h_model {
+        Some(h) if d_sw > 0.0 && (hafwl - h).abs() * to_m <= cfg.contact_tolerance_m => {
+            step.kind = StepKind::FluidContact;
+            step.explanation = format!(
+                "no rock change ({classes}); the model gives this rock SW {target:.2} at {h:.1} above the FWL and the step is at {hafwl:.1}: the fluid contact (transition to water below)"
+            );
+        }
+        Some(h) => {
+            step.explanation = format!(
+                "no rock change ({classes}), {observed}; the model gives this rock SW {target:.2} at {h:.1} above the FWL {:.1}, but the step is at {hafwl:.1}: look for another FWL, a perched or compartmentalised contact, a tar mat, or bad logs",
+                comp.fwl_tvdss
+            );
+        }
+        None => {
+            step.explanation = format!(
+                "no rock change ({classes}), {observed}, and the model has no height for SW {target:.2} in this rock: look for another FWL, a perched contact, a tar mat, or bad logs"
+            );
+        }
+    }
+    Some(step)
+}
+
+/// Height above the FWL (m) at which the model gives a rock of class `class`,
+/// k (mD) and φ the saturation `target`: SWH falls with height, so bisection
+/// between the FWL and 2 000 m. `None` when the rock is undefined or the model
+/// never reaches `target` there.
+pub fn model_height_m(
+    model: &SatHeightModel,
+    class: f64,
+    k: f64,
+    phi: f64,
+    drho: f64,
+    target: f64,
+) -> Option<f64> {
+    let f = |h: f64| model.swh(h, class, k, phi, drho);
+    let (mut lo, mut hi) = (1e-6, 2000.0);
+    let (flo, fhi) = (f(lo), f(hi));
+    if !(flo.is_finite() && fhi.is_finite()) || target > flo || target < fhi {
+        return None;
+    }
+    for _ in 0..60 {
+        let m = 0.5 * (lo + hi);
+        if f(m) > target {
+            lo = m;
+        } else {
+            hi = m;
+        }
+    }
+    Some(0.5 * (lo + hi))
+}
+
+/// The FWL that best explains the well's SW with its classes and the class
+/// J-functions: least squares of SW − SWH(FWL) over classed, unflagged depths,
+/// on a 0.25 m grid from 20 m above the shallowest depth to 200 m below the
+/// deepest. The range holds the FWLs whose rise in the sum of squares stays
+/// within one residual variance per independent bed: residuals are
+/// correlated within a bed, so the well carries about as many independent
+/// values as the segmentation found beds (`beds`); its ends are the first
+/// grid values outside. Our choice, in the spirit of a profile-likelihood
+/// interval.
+fn implied_fwl(
+    p: &Profile<'_>,
+    model: &SatHeightModel,
+    comp: &CompartmentFwl,
+    cfg: &ContactsConfig,
+    drho: f64,
+    to_m: f64,
+    beds: usize,
+) -> Option<ImpliedFwl> {
+    let rows: Vec<usize> = (0..p.sw.len())
+        .filter(|&i| {
+            p.sw[i].is_finite()
+                && p.class[i].is_finite()
+                && p.perm[i] > 0.0
+                && p.phie[i] > 0.0
+                && p.tvdss[i].is_finite()
+                && flag_at(p.flag, i) & SKIP_FLAGS == 0
+        })
+        .collect();
+    if rows.len() < 10 {
+        return None;
+    }
+    let t_m: Vec<f64> = rows.iter().map(|&i| p.tvdss[i] * to_m).collect();
+    let sse = |fwl_m: f64| -> f64 {
+        rows.iter()
+            .zip(&t_m)
+            .map(|(&i, t)| {
+                let s = model.swh(fwl_m - t, p.class[i], p.perm[i], p.phie[i], drho);
+                (p.sw[i] - s).powi(2)
+            })
+            .sum()
+    };
+    let top = t_m.iter().copied().fold(f64::INFINITY, f64::min) - 20.0;
+    let bottom = t_m.iter().copied().fold(f64::NEG_INFINITY, f64::max) + 200.0;
+    let grid: Vec<(f64, f64)> = (0..)
+        .map(|k| top + 0.25 * f64::from(k))
+        .take_while(|f| *f <= bottom)
+        .map(|f| (f, sse(f)))
+        .collect();
+    let (kbest, &(fbest, smin)) = grid
+        .iter()
+        .enumerate()
+        .min_by(|a, b| a.1.1.total_cmp(&b.1.1))?;
+    let n = rows.len() as f64;
+    let per_bed = (n / beds.max(1) as f64).max(1.0);
+    let s2 = smin / n;
+    let allowance = s2 * per_bed;
+    let within = |s: f64| s - smin <= allowance;
+    let upper_k = (0..kbest).rev().find(|&k| !within(grid[k].1));
+    let lower_k = (kbest + 1..grid.len()).find(|&k| !within(grid[k].1));
+    let upper = upper_k.map(|k| grid[k].0 / to_m);
+    let lower = lower_k.map(|k| grid[k].0 / to_m);
+    let closed = upper.is_some() && lower.is_some();
+    let fwl = closed.then_some(fbest / to_m);
+    let tol = cfg.fwl_tolerance_m / to_m;
+    let cf = comp.fwl_tvdss;
+    let comp_sigma = comp.fwl_sigma.unwrap_or(0.0);
+    let (agrees, note) = match (upper, lower) {
+        (Some(u), Some(l)) => {
+            let sigma = 0.5 * (l - u);
+            let bound = tol.max(2.0 * (sigma * sigma + comp_sigma * comp_sigma).sqrt());
+            let d = fbest / to_m - cf;
+            (
+                d.abs() <= bound,
+                format!(
+                    "logs imply FWL {:.1} (range {u:.1}-{l:.1}), the compartment's is {cf:.1}: {}",
+                    fbest / to_m,
+                    if d.abs() <= bound {
+                        "they agree".to_string()
+                    } else {
+                        format!("{d:+.1} apart, beyond {bound:.1}: possibly another compartment")
+                    }
+                ),
+            )
+        }
+        (Some(u), None) => (
+            cf + tol >= u,
+            format!(
+                "logs only bound the FWL: at or below {u:.1} (no water leg seen); the compartment's {cf:.1} {}",
+                if cf + tol >= u { "is consistent" } else { "is too shallow: possibly another compartment" }
+            ),
+        ),
+        (None, Some(l)) => (
+            cf - tol <= l,
+            format!(
+                "logs only bound the FWL: at or above {l:.1}; the compartment's {cf:.1} {}",
+                if cf - tol <= l { "is consistent" } else { "is too deep: possibly another compartment" }
+            ),
+        ),
+        (None, None) => (true, "the logs do not constrain the FWL".into()),
+    };
+    Some(ImpliedFwl {
+        fwl_tvdss: fwl,
+        lower,
+        upper,
+        samples: rows.len(),
+        rms: (smin / n).sqrt(),
+        compartment_fwl: cf,
+        agrees,
+        note,
+    })
+}
+
+/// Audit a well's table (after SWH) and add the CONTACT curve (before FLAG):
+/// the step's kind code at the first sample below each step, 0 elsewhere.
+pub fn apply(
+    table: &mut Table,
+    well: &str,
+    names: &[&str],
+    model: &SatHeightModel,
+    cfg: &ContactsConfig,
+    depth_unit: DepthUnit,
+) -> Option<WellAudit> {
+    let comp = model.compartment(names)?;
+    let n = table.n_rows();
+    let nan = vec![f64::NAN; n];
+    let get = |name: &str| column(table, name).unwrap_or(&nan);
+    let p = Profile {
+        md: get("DEPTH"),
+        tvdss: get("TVDSS"),
+        sw: get("SW"),
+        swh: get("SWH"),
+        class: get("CLASS"),
+        perm: get("PERM"),
+        phie: get("PHIE"),
+        flag: get("FLAG"),
+    };
+    let audit = audit(well, &p, model, comp, cfg, depth_unit);
+    let mut curve = vec![0.0; n];
+    for s in &audit.steps {
+        curve[s.row] = s.kind.code();
+    }
+    let at = table
+        .columns
+        .iter()
+        .position(|c| c.name == "FLAG")
+        .unwrap_or(table.columns.len());
+    table.columns.insert(
+        at,
+        OutColumn {
+            name: "CONTACT".into(),
+            unit: String::new(),
+            description: "SATURATION STEP BELOW: 1 ROCK QUALITY 2 FLUID CONTACT 3 UNEXPLAINED 4 FLAGGED".into(),
+            values: curve,
+            integer: true,
+        },
+    );
+    Some(audit)
+}
+
+/// A fluid contact seen in a well, and the FWL it implies.
+#[derive(Debug, Clone, Serialize)]
+pub struct ApparentContact {
+    pub well: String,
+    pub depth_md: f64,
+    pub tvdss: f64,
+    /// TVDSS of the contact plus the model's height for its saturation:
+    /// where this contact puts the FWL.
+    pub fwl_from_contact: Option<f64>,
+}
+
+/// One compartment across its wells.
+#[derive(Debug, Clone, Serialize)]
+pub struct CompartmentView {
+    pub name: String,
+    pub fwl_tvdss: f64,
+    pub fwl_sigma: Option<f64>,
+    pub fwl_source: String,
+    /// Each well's implied FWL (from its logs) with its note.
+    pub wells: Vec<(String, Option<ImpliedFwl>)>,
+    pub apparent_contacts: Vec<ApparentContact>,
+    /// Wells whose implied FWL or contacts do not line up with the compartment's FWL.
+    pub not_lined_up: Vec<String>,
+}
+
+/// The field view: per compartment, contacts and FWLs across wells.
+pub fn field_view(
+    model: &SatHeightModel,
+    audits: &[(String, &WellAudit)],
+    cfg: &ContactsConfig,
+    depth_unit: DepthUnit,
+) -> Vec<CompartmentView> {
+    let tol = cfg.contact_tolerance_m / depth_unit.factor_to(DepthUnit::Metre);
+    model
+        .compartments
+        .iter()
+        .map(|c| {
+            let mine: Vec<&(String, &WellAudit)> =
+                audits.iter().filter(|(_, a)| a.compartment == c.name).collect();
+            let apparent_contacts: Vec<ApparentContact> = mine
+                .iter()
+                .flat_map(|(w, a)| {
+                    a.steps
+                        .iter()
+                        .filter(|s| s.kind == StepKind::FluidContact)
+                        .map(|s| ApparentContact {
+                            well: w.clone(),
+                            depth_md: s.depth_md,
+                            tvdss: s.tvdss,
+                            fwl_from_contact: s.model_height.map(|h| s.tvdss + h),
+                        })
+                })
+                .collect();
+            let mut not_lined_up: Vec<String> = mine
+                .iter()
+                .filter(|(w, a)| {
+                    a.implied_fwl.as_ref().is_some_and(|f| !f.agrees)
+                        || apparent_contacts.iter().any(|ac| {
+                            ac.well == *w
+                                && ac
+                                    .fwl_from_contact
+                                    .is_some_and(|f| (f - c.fwl_tvdss).abs() > tol)
+                        })
+                })
+                .map(|(w, _)| w.clone())
+                .collect();
+            not_lined_up.dedup();
+            CompartmentView {
+                name: c.name.clone(),
+                fwl_tvdss: c.fwl_tvdss,
+                fwl_sigma: c.fwl_sigma,
+                fwl_source: c.source.clone(),
+                wells: mine
+                    .iter()
+                    .map(|(w, a)| (w.clone(), a.implied_fwl.clone()))
+                    .collect(),
+                apparent_contacts,
+                not_lined_up,
+            }
+        })
+        .collect()
+}
+
+/// contacts.json: the steps and the field view.
+#[derive(Debug, Serialize)]
+struct ContactsJson<'a> {
+    caution: &'static str,
+    depth_unit: DepthUnit,
+    kinds: [(&'static str, &'static str); 4],
+    steps: Vec<&'a Step>,
+    compartments: &'a [CompartmentView],
+}
+
+/// Write `contacts.csv` (one row per step) and `contacts.json` (the steps
+/// and the field view) into `out`. Returns the paths.
+pub fn write_outputs(
+    out: &std::path::Path,
+    steps: &[&Step],
+    view: &[CompartmentView],
+    depth_unit: DepthUnit,
+) -> Result<Vec<std::path::PathBuf>, crate::output::OutputError> {
+    use std::io::Write as _;
+    let json_path = out.join("contacts.json");
+    let doc = ContactsJson {
+        caution: crate::sat_height::CAUTION,
+        depth_unit,
+        kinds: [
+            ("rock-quality", "the rock changes at the step and the saturation-height model predicts a step of that sign and size"),
+            ("fluid-contact", "no rock change; the model gives this rock the step's saturation at about this height above the FWL"),
+            ("unexplained", "neither: another FWL, a perched or compartmentalised contact, a tar mat, or bad logs; look at it"),
+            ("flagged", "bad hole or an input out of range at the step; not attributed"),
+        ],
+        steps: steps.to_vec(),
+        compartments: view,
+    };
+    let io = |p: &std::path::Path| {
+        let p = p.to_path_buf();
+        move |e: std::io::Error| crate::output::OutputError::Io {
+            path: p.clone(),
+            source: e,
+        }
+    };
+    crate::output::write_atomic(&json_path, |w| {
+        serde_json::to_writer_pretty(&mut *w, &doc).map_err(|e| io(&json_path)(std::io::Error::other(e)))?;
+        w.write_all(b"\n").map_err(io(&json_path))
+    })?;
+    let csv_path = out.join("contacts.csv");
+    crate::output::write_atomic(&csv_path, |w| {
+        let mut c = csv::Writer::from_writer(w);
+        let e = |e: csv::Error| io(&csv_path)(std::io::Error::other(e));
+        c.write_record([
+            "WELL",
+            "DEPTH",
+            "TVDSS",
+            "KIND",
+            "SW_ABOVE",
+            "SW_BELOW",
+            "CLASS_ABOVE",
+            "CLASS_BELOW",
+            "SWH_ABOVE",
+            "SWH_BELOW",
+            "HAFWL",
+            "EXPLANATION",
+        ])
+        .map_err(e)?;
+        let f = |v: f64| if v.is_finite() { format!("{v:.4}") } else { String::new() };
+        let class = |c: u8| if c == 0 { String::new() } else { c.to_string() };
+        for s in steps {
+            c.write_record([
+                s.well.clone(),
+                f(s.depth_md),
+                f(s.tvdss),
+                s.kind.name().to_string(),
+                f(s.sw_above),
+                f(s.sw_below),
+                class(s.class_above),
+                class(s.class_below),
+                f(s.swh_above),
+                f(s.swh_below),
+                f(s.hafwl),
+                s.explanation.clone(),
+            ])
+            .map_err(e)?;
+        }
+        c.flush().map_err(io(&csv_path))
+    })?;
+    Ok(vec![csv_path, json_path])
+}
+
+#[cfg(test)]
+mod tests;

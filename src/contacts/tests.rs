@@ -1,0 +1,3 @@
+//! Constructed profiles with known answers for the contact audit.
+
+use super::*;
