@@ -139,13 +139,18 @@ pub fn segment(x: &[f64], min_len: usize, penalty: f64) -> Vec<usize> {
     let mut f = vec![f64::INFINITY; n + 1];
     let mut last = vec![0usize; n + 1];
     f[0] = -penalty;
-    let mut cands: Vec<usize> = vec![0];
+    // candidates with the time from which they are dropped: PELT's rule
+    // (F(s) + C(s, t) > F(t) ⇒ s is never the last change before T) needs
+    // (t, T] to be a valid segment, so with a minimum length a candidate
+    // pruned at t still serves every T < t + min_len
+    let mut cands: Vec<(usize, usize)> = vec![(0, usize::MAX)];
     for t in min_len..=n {
         if t >= 2 * min_len && f[t - min_len].is_finite() {
-            cands.push(t - min_len);
+            cands.push((t - min_len, usize::MAX));
         }
+        cands.retain(|&(_, drop_at)| t < drop_at);
         let (mut best, mut arg) = (f64::INFINITY, 0);
-        for &s in &cands {
+        for &(s, _) in &cands {
             let v = f[s] + cost(s, t) + penalty;
             if v < best {
                 best = v;
@@ -154,7 +159,11 @@ pub fn segment(x: &[f64], min_len: usize, penalty: f64) -> Vec<usize> {
         }
         f[t] = best;
         last[t] = arg;
-        cands.retain(|&s| f[s] + cost(s, t) <= f[t]);
+        for c in &mut cands {
+            if c.1 == usize::MAX && f[c.0] + cost(c.0, t) > f[t] {
+                c.1 = t + min_len;
+            }
+        }
     }
     let mut cps = Vec::new();
     let mut t = n;
@@ -167,6 +176,45 @@ pub fn segment(x: &[f64], min_len: usize, penalty: f64) -> Vec<usize> {
     }
     cps.reverse();
     cps
+}
+
+/// One sharp change within one rock can be cut into a staircase: two
+/// boundaries around a segment shorter than two minimum lengths whose mean
+/// lies between its neighbours', all three of the same class (`class`, the
+/// most common in each). Such a pair becomes one boundary, the one with the
+/// larger jump; a thin bed of other rock is kept. `bounds` are boundaries of
+/// `x` as [`segment`] returns them.
+pub fn merge_staircases(x: &[f64], class: &[f64], bounds: &[usize], min_len: usize) -> Vec<usize> {
+    let mut b = bounds.to_vec();
+    let mean = |a: usize, e: usize| x[a..e].iter().sum::<f64>() / (e - a) as f64;
+    loop {
+        let edges: Vec<usize> = std::iter::once(0)
+            .chain(b.iter().copied())
+            .chain(std::iter::once(x.len()))
+            .collect();
+        let means: Vec<f64> = edges.windows(2).map(|w| mean(w[0], w[1])).collect();
+        let classes: Vec<u8> = edges
+            .windows(2)
+            .map(|w| mode_class(&class[w[0]..w[1]]))
+            .collect();
+        // segment k (between b[k-1] and b[k]) with neighbours k-1 and k+1
+        let merge = (1..means.len().saturating_sub(1)).find(|&k| {
+            let short = edges[k + 1] - edges[k] < 2 * min_len;
+            let (lo, hi) = (
+                means[k - 1].min(means[k + 1]),
+                means[k - 1].max(means[k + 1]),
+            );
+            let same_rock = classes[k - 1] == classes[k] && classes[k] == classes[k + 1];
+            short && same_rock && means[k] > lo && means[k] < hi
+        });
+        let Some(k) = merge else { return b };
+        let (jump_up, jump_down) = (
+            (means[k] - means[k - 1]).abs(),
+            (means[k + 1] - means[k]).abs(),
+        );
+        // boundaries b[k-1] (into segment k) and b[k] (out of it)
+        b.remove(if jump_up >= jump_down { k } else { k - 1 });
+    }
 }
 
 /// Noise σ of a series from its first differences: 1.4826·MAD/√2 (the MAD
@@ -241,9 +289,7 @@ const SKIP_FLAGS: u32 = 1 | FLAG_OUT_OF_RANGE | FLAG_MISSING_INPUT | FLAG_OUTSID
 const STEP_FLAGS: u32 = 1 | FLAG_OUT_OF_RANGE;
 
 fn flag_at(f: &[f64], i: usize) -> u32 {
-    f.get(i)
-        .filter(|v| v.is_finite())
-        .map_or(0, |v| *v as u32)
+    f.get(i).filter(|v| v.is_finite()).map_or(0, |v| *v as u32)
 }
 
 /// The audit's modelled SW at a depth: SWH, or 1 for an unclassed depth with
@@ -270,7 +316,13 @@ pub fn audit(
 ) -> WellAudit {
     let n = p.sw.len();
     let to_m = depth_unit.factor_to(DepthUnit::Metre);
-    let spacing_m = median(&mut p.md.windows(2).map(|w| (w[1] - w[0]) * to_m).collect::<Vec<_>>());
+    let spacing_m = median(
+        &mut p
+            .md
+            .windows(2)
+            .map(|w| (w[1] - w[0]) * to_m)
+            .collect::<Vec<_>>(),
+    );
     let min_len = if spacing_m > 0.0 {
         ((cfg.min_bed_thickness_m / spacing_m).round() as usize).max(2)
     } else {
@@ -293,14 +345,22 @@ pub fn audit(
         let run = &p.sw[start..i];
         let sigma = noise_sigma(run).max(0.01);
         let penalty = cfg.penalty * 2.0 * sigma * sigma * (run.len() as f64).ln().max(1.0);
-        let bounds = segment(run, min_len, penalty);
+        let bounds = merge_staircases(
+            run,
+            &p.class[start..i],
+            &segment(run, min_len, penalty),
+            min_len,
+        );
         beds += bounds.len() + 1;
         for b in bounds {
             let b = start + b;
             let (lo, hi) = (b.saturating_sub(min_len).max(start), (b + min_len).min(i));
             let sw_above = mean_finite(p.sw[lo..b].iter().copied());
             let sw_below = mean_finite(p.sw[b..hi].iter().copied());
-            if !((sw_below - sw_above).abs() >= cfg.min_step_vv) {
+            if (sw_below - sw_above).abs() < cfg.min_step_vv
+                || sw_below.is_nan()
+                || sw_above.is_nan()
+            {
                 continue;
             }
             if let Some(step) = attribute(well, p, model, comp, cfg, (lo, b, hi), drho, to_m) {
@@ -444,7 +504,8 @@ fn attribute(
             .collect::<Vec<_>>(),
     );
     let target = 0.5 * (sw_above + sw_below);
-    let h_model = model_height_m(model, f64::from(class_above), k, phi, drho, target).map(|h| h / to_m);
+    let h_model =
+        model_height_m(model, f64::from(class_above), k, phi, drho, target).map(|h| h / to_m);
     step.model_height = h_model;
     match h_model {
         Some(h) if d_sw > 0.0 && (hafwl - h).abs() * to_m <= cfg.contact_tolerance_m => {
@@ -585,14 +646,22 @@ fn implied_fwl(
             cf + tol >= u,
             format!(
                 "logs only bound the FWL: at or below {u:.1} (no water leg seen); the compartment's {cf:.1} {}",
-                if cf + tol >= u { "is consistent" } else { "is too shallow: possibly another compartment" }
+                if cf + tol >= u {
+                    "is consistent"
+                } else {
+                    "is too shallow: possibly another compartment"
+                }
             ),
         ),
         (None, Some(l)) => (
             cf - tol <= l,
             format!(
                 "logs only bound the FWL: at or above {l:.1}; the compartment's {cf:.1} {}",
-                if cf - tol <= l { "is consistent" } else { "is too deep: possibly another compartment" }
+                if cf - tol <= l {
+                    "is consistent"
+                } else {
+                    "is too deep: possibly another compartment"
+                }
             ),
         ),
         (None, None) => (true, "the logs do not constrain the FWL".into()),
@@ -648,7 +717,9 @@ pub fn apply(
         OutColumn {
             name: "CONTACT".into(),
             unit: String::new(),
-            description: "SATURATION STEP BELOW: 1 ROCK QUALITY 2 FLUID CONTACT 3 UNEXPLAINED 4 FLAGGED".into(),
+            description:
+                "SATURATION STEP BELOW: 1 ROCK QUALITY 2 FLUID CONTACT 3 UNEXPLAINED 4 FLAGGED"
+                    .into(),
             values: curve,
             integer: true,
         },
@@ -693,8 +764,10 @@ pub fn field_view(
         .compartments
         .iter()
         .map(|c| {
-            let mine: Vec<&(String, &WellAudit)> =
-                audits.iter().filter(|(_, a)| a.compartment == c.name).collect();
+            let mine: Vec<&(String, &WellAudit)> = audits
+                .iter()
+                .filter(|(_, a)| a.compartment == c.name)
+                .collect();
             let apparent_contacts: Vec<ApparentContact> = mine
                 .iter()
                 .flat_map(|(w, a)| {
@@ -763,10 +836,22 @@ pub fn write_outputs(
         caution: crate::sat_height::CAUTION,
         depth_unit,
         kinds: [
-            ("rock-quality", "the rock changes at the step and the saturation-height model predicts a step of that sign and size"),
-            ("fluid-contact", "no rock change; the model gives this rock the step's saturation at about this height above the FWL"),
-            ("unexplained", "neither: another FWL, a perched or compartmentalised contact, a tar mat, or bad logs; look at it"),
-            ("flagged", "bad hole or an input out of range at the step; not attributed"),
+            (
+                "rock-quality",
+                "the rock changes at the step and the saturation-height model predicts a step of that sign and size",
+            ),
+            (
+                "fluid-contact",
+                "no rock change; the model gives this rock the step's saturation at about this height above the FWL",
+            ),
+            (
+                "unexplained",
+                "neither: another FWL, a perched or compartmentalised contact, a tar mat, or bad logs; look at it",
+            ),
+            (
+                "flagged",
+                "bad hole or an input out of range at the step; not attributed",
+            ),
         ],
         steps: steps.to_vec(),
         compartments: view,
@@ -779,7 +864,8 @@ pub fn write_outputs(
         }
     };
     crate::output::write_atomic(&json_path, |w| {
-        serde_json::to_writer_pretty(&mut *w, &doc).map_err(|e| io(&json_path)(std::io::Error::other(e)))?;
+        serde_json::to_writer_pretty(&mut *w, &doc)
+            .map_err(|e| io(&json_path)(std::io::Error::other(e)))?;
         w.write_all(b"\n").map_err(io(&json_path))
     })?;
     let csv_path = out.join("contacts.csv");
@@ -801,7 +887,13 @@ pub fn write_outputs(
             "EXPLANATION",
         ])
         .map_err(e)?;
-        let f = |v: f64| if v.is_finite() { format!("{v:.4}") } else { String::new() };
+        let f = |v: f64| {
+            if v.is_finite() {
+                format!("{v:.4}")
+            } else {
+                String::new()
+            }
+        };
         let class = |c: u8| if c == 0 { String::new() } else { c.to_string() };
         for s in steps {
             c.write_record([

@@ -20,7 +20,8 @@
 //!   [`classify`]: the class stage of a run (train or load, apply to wells).
 //! - [`capillary`], [`capillary_data`], [`pressure`]: Leverett J and curve
 //!   forms, lab curves and their J fits, free water levels from pressures;
-//!   [`sat_height`]: the saturation-height stage of a run (SWH per depth).
+//!   [`sat_height`]: the saturation-height stage of a run (SWH per depth);
+//!   [`contacts`]: the audit of every saturation step.
 //! - [`inspect`], [`export`]: the `inspect` and `export` commands.
 //! - [`synth`], [`demo`]: the synthetic forward model behind the invented demo field.
 //! - [`cli`]: the command line.
@@ -36,6 +37,7 @@ pub mod classify;
 pub mod cli;
 pub mod compare;
 pub mod config;
+pub mod contacts;
 pub mod core_data;
 pub mod core_set;
 pub mod curves;
