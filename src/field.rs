@@ -33,6 +33,8 @@ pub struct WellReport {
     pub classes: Option<crate::classify::ClassCounts>,
     /// Height above the FWL, SWH and the SW − SWH residual summary.
     pub saturation_height: Option<crate::sat_height::WellSatHeight>,
+    /// Saturation steps with their kinds, and the FWL the logs imply.
+    pub contacts: Option<crate::contacts::WellAudit>,
 }
 
 /// The run summary (also written as run-summary.json).
@@ -48,6 +50,10 @@ pub struct RunSummary {
     pub saturation_height: Option<crate::sat_height::SatHeightModel>,
     /// Files of the saturation-height model and the residual summary.
     pub saturation_outputs: Vec<String>,
+    /// Per compartment: apparent contacts and FWLs across wells.
+    pub contacts: Vec<crate::contacts::CompartmentView>,
+    /// contacts.csv and contacts.json.
+    pub contact_outputs: Vec<String>,
     pub wells: Vec<WellReport>,
 }
 
@@ -227,6 +233,45 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
             }
         }
     }
+    let mut contact_view = Vec::new();
+    let mut contact_outputs = Vec::new();
+    if let Some(m) = &sat {
+        let audits: Vec<(String, &crate::contacts::WellAudit)> = reports
+            .iter()
+            .filter_map(|r| Some((r.well.clone()?, r.contacts.as_ref()?)))
+            .collect();
+        contact_view =
+            crate::contacts::field_view(m, &audits, &config.contacts, config.project.depth_unit);
+        let steps: Vec<&crate::contacts::Step> =
+            audits.iter().flat_map(|(_, a)| a.steps.iter()).collect();
+        contact_outputs =
+            crate::contacts::write_outputs(out, &steps, &contact_view, config.project.depth_unit)?
+                .iter()
+                .map(|p| p.display().to_string())
+                .collect();
+        if progress {
+            for v in &contact_view {
+                if !v.not_lined_up.is_empty() {
+                    eprintln!(
+                        "contacts: compartment {}: wells not lined up with FWL {:.1}: {}",
+                        v.name,
+                        v.fwl_tvdss,
+                        v.not_lined_up.join(", ")
+                    );
+                }
+            }
+            let count = |k| steps.iter().filter(|s| s.kind == k).count();
+            use crate::contacts::StepKind as K;
+            eprintln!(
+                "contacts: {} steps: {} rock-quality, {} fluid-contact, {} unexplained, {} flagged (contacts.csv)",
+                steps.len(),
+                count(K::RockQuality),
+                count(K::FluidContact),
+                count(K::Unexplained),
+                count(K::Flagged)
+            );
+        }
+    }
     let failed = reports.iter().filter(|r| !r.ok).count();
     let summary = RunSummary {
         tool: format!("flowzone {}", env!("CARGO_PKG_VERSION")),
@@ -236,6 +281,8 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         classes: prepared.map(|p| p.summary),
         saturation_height: sat,
         saturation_outputs,
+        contacts: contact_view,
+        contact_outputs,
         wells: reports,
     };
     let summary_path = out.join("run-summary.json");
@@ -361,6 +408,7 @@ fn one_well(path: &Path, stem: &str, stage: &WellStages<'_>, dir: &Path) -> Well
         stages: None,
         classes: None,
         saturation_height: None,
+        contacts: None,
     };
     let result: Result<(), WellError> = (|| {
         let mut out = well::process(path, ctx)?;
@@ -376,6 +424,24 @@ fn one_well(path: &Path, stem: &str, stage: &WellStages<'_>, dir: &Path) -> Well
             let file_stem = well::stem_of(path);
             let names = [out.name.as_str(), file_stem.as_str()];
             report.saturation_height = sat.apply(&mut out.table, &names, &mut out.warnings);
+            if report.saturation_height.is_some() {
+                report.contacts = crate::contacts::apply(
+                    &mut out.table,
+                    &out.name,
+                    &names,
+                    sat,
+                    &config.contacts,
+                    config.project.depth_unit,
+                );
+                if let Some(f) = report
+                    .contacts
+                    .as_ref()
+                    .and_then(|a| a.implied_fwl.as_ref())
+                    .filter(|f| !f.agrees)
+                {
+                    out.warnings.push(format!("contact audit: {}", f.note));
+                }
+            }
         }
         report.well = Some(out.name.clone());
         report.rows = out.table.n_rows();

@@ -6,6 +6,8 @@ mod classes;
 mod cli;
 /// Shared helpers: paths, the lasio oracle, float comparison.
 mod common;
+/// The contact audit on the demo against the truth; a well under the wrong FWL.
+mod contacts;
 /// The demo core classed by FZI against the forward model's classes.
 mod core_demo;
 /// The real SPWLA core file: counts, ranges, flow-unit quantities and classes.
