@@ -558,10 +558,14 @@ pub fn model_height_m(
     Some(0.5 * (lo + hi))
 }
 
+/// Steps of the implied-FWL search, m.
+const COARSE_STEP_M: f64 = 2.0;
+const FINE_STEP_M: f64 = 0.25;
+
 /// The FWL that best explains the well's SW with its classes and the class
 /// J-functions: least squares of SW − SWH(FWL) over classed, unflagged depths,
-/// on a 0.25 m grid from 20 m above the shallowest depth to 200 m below the
-/// deepest. The range holds the FWLs whose rise in the sum of squares stays
+/// from 20 m above the shallowest depth to 200 m below the deepest: a 2 m
+/// grid on a subsample of rows, then 0.25 m steps about the best. The range holds the FWLs whose rise in the sum of squares stays
 /// within one residual variance per independent bed: residuals are
 /// correlated within a bed, so the well carries about as many independent
 /// values as the segmentation found beds (`beds`); its ends are the first
@@ -601,24 +605,49 @@ fn implied_fwl(
     };
     let top = t_m.iter().copied().fold(f64::INFINITY, f64::min) - 20.0;
     let bottom = t_m.iter().copied().fold(f64::NEG_INFINITY, f64::max) + 200.0;
-    let grid: Vec<(f64, f64)> = (0..)
-        .map(|k| top + 0.25 * f64::from(k))
+    // coarse pass: 2 m steps on at most ~1000 rows
+    let stride = (rows.len() / 1000).max(1);
+    let sse_coarse = |fwl_m: f64| -> f64 {
+        rows.iter()
+            .zip(&t_m)
+            .step_by(stride)
+            .map(|(&i, t)| {
+                (p.sw[i] - model.swh(fwl_m - t, p.class[i], p.perm[i], p.phie[i], drho)).powi(2)
+            })
+            .sum()
+    };
+    let coarse = (0..)
+        .map(|k| top + COARSE_STEP_M * f64::from(k))
         .take_while(|f| *f <= bottom)
+        .map(|f| (f, sse_coarse(f)))
+        .min_by(|a, b| a.1.total_cmp(&b.1))?;
+    // fine pass: 0.25 m steps within one coarse step either side, all rows
+    let (fbest, smin) = (-8..=8)
+        .map(|k| coarse.0 + FINE_STEP_M * f64::from(k))
+        .filter(|f| *f >= top && *f <= bottom)
         .map(|f| (f, sse(f)))
-        .collect();
-    let (kbest, &(fbest, smin)) = grid
-        .iter()
-        .enumerate()
-        .min_by(|a, b| a.1.1.total_cmp(&b.1.1))?;
+        .min_by(|a, b| a.1.total_cmp(&b.1))?;
     let n = rows.len() as f64;
     let per_bed = (n / beds.max(1) as f64).max(1.0);
     let s2 = smin / n;
     let allowance = s2 * per_bed;
-    let within = |s: f64| s - smin <= allowance;
-    let upper_k = (0..kbest).rev().find(|&k| !within(grid[k].1));
-    let lower_k = (kbest + 1..grid.len()).find(|&k| !within(grid[k].1));
-    let upper = upper_k.map(|k| grid[k].0 / to_m);
-    let lower = lower_k.map(|k| grid[k].0 / to_m);
+    // walk out from the best until the sum of squares leaves the allowance:
+    // 0.25 m steps for the first 8 m, then 2 m steps; `None` at the grid's end
+    let walk = |dir: f64| -> Option<f64> {
+        let mut d = 0.0;
+        loop {
+            d += if d < 8.0 { FINE_STEP_M } else { COARSE_STEP_M };
+            let f = fbest + dir * d;
+            if f < top || f > bottom {
+                return None;
+            }
+            if sse(f) - smin > allowance {
+                return Some(f);
+            }
+        }
+    };
+    let upper = walk(-1.0).map(|f| f / to_m);
+    let lower = walk(1.0).map(|f| f / to_m);
     let closed = upper.is_some() && lower.is_some();
     let fwl = closed.then_some(fbest / to_m);
     let tol = cfg.fwl_tolerance_m / to_m;
