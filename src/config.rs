@@ -86,6 +86,9 @@ pub struct Config {
     /// The folder the config file is in; relative paths start here.
     #[serde(skip)]
     pub base_dir: PathBuf,
+    /// The config file itself (for the run manifest).
+    #[serde(skip)]
+    pub source: PathBuf,
 }
 
 /// `[project]`
@@ -270,6 +273,7 @@ impl Config {
             source: Box::new(source),
         })?;
         config.base_dir = base_dir;
+        config.source = path.to_path_buf();
         config.validate(path)?;
         Ok(config)
     }

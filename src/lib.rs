@@ -47,6 +47,7 @@ pub mod error;
 pub mod export;
 pub mod field;
 pub mod inspect;
+pub mod manifest;
 pub mod las;
 pub mod output;
 pub mod params;
