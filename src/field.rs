@@ -95,6 +95,7 @@ pub fn check_out_dir(out: &Path, inputs: &[PathBuf]) -> Result<(), Error> {
 
 /// Run every well of the config into `out`.
 pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Error> {
+    let started = std::time::SystemTime::now();
     let files = config.well_files()?;
     if files.is_empty() {
         return Err(Error::Usage(
@@ -141,10 +142,13 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         sat: sat.as_ref(),
     };
     let wells_dir = out.join("wells");
-    std::fs::create_dir_all(&wells_dir).map_err(|source| Error::Io {
-        path: wells_dir.clone(),
-        source,
-    })?;
+    let field_dir = out.join("field").join("curves");
+    for d in [&wells_dir, &field_dir] {
+        std::fs::create_dir_all(d).map_err(|source| Error::Io {
+            path: d.clone(),
+            source,
+        })?;
+    }
 
     let mut stems: Vec<String> = files.iter().map(|f| file_stem(&well::stem_of(f))).collect();
     // two inputs with the same stem: suffix the later ones
@@ -159,19 +163,40 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
 
     let total = files.len();
     let done = std::sync::atomic::AtomicUsize::new(0);
+    // a bar on a terminal, a line per well otherwise, nothing with --quiet
+    let bar = (progress && std::io::IsTerminal::is_terminal(&std::io::stderr())).then(|| {
+        let b = indicatif::ProgressBar::new(total as u64);
+        b.set_style(
+            indicatif::ProgressStyle::with_template(
+                "{elapsed_precise} [{bar:40}] {pos}/{len} wells, {per_sec}, eta {eta}",
+            )
+            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+        );
+        b
+    });
     let reports: Vec<WellReport> = files
         .par_iter()
         .zip(stems.par_iter())
         .map(|(path, stem)| {
-            let report = one_well(path, stem, &stage, &wells_dir);
+            let report = one_well(path, stem, &stage, &wells_dir, &field_dir);
             let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
-            if progress {
-                let status = if report.ok { "ok" } else { "FAILED" };
-                eprintln!("[{n}/{total}] {} {status}", path.display());
+            let status = if report.ok { "ok" } else { "FAILED" };
+            match &bar {
+                Some(b) => {
+                    b.inc(1);
+                    if !report.ok {
+                        b.println(format!("{} FAILED", path.display()));
+                    }
+                }
+                None if progress => eprintln!("[{n}/{total}] {} {status}", path.display()),
+                None => {}
             }
             report
         })
         .collect();
+    if let Some(b) = bar {
+        b.finish_and_clear();
+    }
 
     let mut reports = reports;
     let mut saturation_outputs = Vec::new();
@@ -285,6 +310,14 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         contact_outputs,
         wells: reports,
     };
+    let manifest = crate::manifest::build(config, &files, started, (total, failed));
+    let manifest_path = out.join("run-manifest.json");
+    output::write_atomic(&manifest_path, |w| {
+        serde_json::to_writer_pretty(&mut *w, &manifest).map_err(|e| output::OutputError::Io {
+            path: manifest_path.clone(),
+            source: std::io::Error::other(e),
+        })
+    })?;
     let summary_path = out.join("run-summary.json");
     output::write_atomic(&summary_path, |w| {
         serde_json::to_writer_pretty(&mut *w, &summary).map_err(|e| output::OutputError::Io {
@@ -392,7 +425,13 @@ fn report_model(m: &crate::sat_height::SatHeightModel) {
     }
 }
 
-fn one_well(path: &Path, stem: &str, stage: &WellStages<'_>, dir: &Path) -> WellReport {
+fn one_well(
+    path: &Path,
+    stem: &str,
+    stage: &WellStages<'_>,
+    dir: &Path,
+    field_dir: &Path,
+) -> WellReport {
     let ctx = stage.ctx;
     let setup = stage.classes;
     let config = &ctx.config;
@@ -457,6 +496,9 @@ fn one_well(path: &Path, stem: &str, stage: &WellStages<'_>, dir: &Path) -> Well
                 output::write_table(&out.table, dir, stem, format, Some(config.output.decimals))?;
             report.outputs.push(p.display().to_string());
         }
+        let part = field_dir.join(format!("{stem}.parquet"));
+        output::write_field_part(&out.table, &out.name, &part)?;
+        report.outputs.push(part.display().to_string());
         Ok(())
     })();
     match result {

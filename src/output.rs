@@ -61,34 +61,85 @@ impl Table {
 
     fn data_frame(&self) -> Result<DataFrame, polars::error::PolarsError> {
         let height = self.n_rows();
-        let columns: Vec<Column> = self
-            .columns
-            .iter()
-            .map(|c| {
-                if c.integer {
-                    let v: Vec<Option<i64>> = c
-                        .values
-                        .iter()
-                        .map(|&x| {
-                            if x.is_finite() {
-                                Some(x.round() as i64)
-                            } else {
-                                None
-                            }
-                        })
-                        .collect();
-                    return Column::new(c.name.as_str().into(), v);
-                }
-                let v: Vec<Option<f64>> = c
-                    .values
-                    .iter()
-                    .map(|&x| if x.is_finite() { Some(x) } else { None })
-                    .collect();
-                Column::new(c.name.as_str().into(), v)
-            })
-            .collect();
+        let columns: Vec<Column> = self.columns.iter().map(OutColumn::polars).collect();
         DataFrame::new(height, columns)
     }
+}
+
+impl OutColumn {
+    /// The column for polars: integers as i64, floats as f64, NaN as null.
+    fn polars(&self) -> Column {
+        let name = self.name.as_str().into();
+        if self.integer {
+            let v: Vec<Option<i64>> = self
+                .values
+                .iter()
+                .map(|&x| x.is_finite().then(|| x.round() as i64))
+                .collect();
+            return Column::new(name, v);
+        }
+        let v: Vec<Option<f64>> = self
+            .values
+            .iter()
+            .map(|&x| x.is_finite().then_some(x))
+            .collect();
+        Column::new(name, v)
+    }
+}
+
+/// The computed curves of the field table, in order; a well without one
+/// (no classes, no saturation-height) gets nulls, so every file has one schema.
+pub const FIELD_COLUMNS: [(&str, bool); 16] = [
+    ("DEPTH", false),
+    ("TVDSS", false),
+    ("VSH", false),
+    ("PHIT", false),
+    ("PHIE", false),
+    ("SW", false),
+    ("SW_FIXED", false),
+    ("BVW", false),
+    ("CLASS", true),
+    ("CLASS_PROB", false),
+    ("PERM", false),
+    ("HAFWL", false),
+    ("SWH", false),
+    ("SW_RESID", false),
+    ("CONTACT", true),
+    ("FLAG", true),
+];
+
+/// Write a well's rows of the field table: WELL, then [`FIELD_COLUMNS`], as
+/// Parquet (zstd). One file per well, each with the same schema, so a glob
+/// over the folder reads as one table sorted by file name and depth.
+pub fn write_field_part(table: &Table, well: &str, path: &Path) -> Result<(), OutputError> {
+    let table_err = |source| OutputError::Table {
+        path: path.to_path_buf(),
+        source,
+    };
+    let n = table.n_rows();
+    let mut columns = vec![Column::new("WELL".into(), vec![well; n])];
+    for (name, integer) in FIELD_COLUMNS {
+        let col = match table.columns.iter().find(|c| c.name == name) {
+            Some(c) => c.polars(),
+            None => OutColumn {
+                name: name.into(),
+                unit: String::new(),
+                description: String::new(),
+                values: vec![f64::NAN; n],
+                integer,
+            }
+            .polars(),
+        };
+        columns.push(col);
+    }
+    let mut df = DataFrame::new(n, columns).map_err(table_err)?;
+    write_atomic(path, |out| {
+        ParquetWriter::new(out)
+            .with_compression(ParquetCompression::Zstd(None))
+            .finish(&mut df)
+            .map(|_| ())
+            .map_err(table_err)
+    })
 }
 
 /// Write `path` through a temporary file in the same folder, renamed when done.
