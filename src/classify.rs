@@ -336,6 +336,9 @@ pub fn prepare(
                     );
                 }
                 let model = train(&set, &info, &predictor_cfg, cl.perm_method, perm_fit)?;
+                if progress {
+                    eprintln!("train: forest fitted in {:.3} s", model.header.fit_seconds);
+                }
                 std::fs::create_dir_all(&model_dir).map_err(|source| Error::Io {
                     path: model_dir.clone(),
                     source,
@@ -477,8 +480,8 @@ pub fn report_text(h: &ModelHeader, summary: &ClassSummary) -> String {
     let _ = writeln!(s, "features: {}", feats.join(", "));
     let _ = writeln!(
         s,
-        "forest: {} trees, max depth {}, min leaf {}, seed {}; fitted in {:.3} s",
-        h.params.trees, h.params.max_depth, h.params.min_samples_leaf, h.params.seed, h.fit_seconds
+        "forest: {} trees, max depth {}, min leaf {}, seed {}",
+        h.params.trees, h.params.max_depth, h.params.min_samples_leaf, h.params.seed
     );
     let _ = writeln!(
         s,

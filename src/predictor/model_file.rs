@@ -79,7 +79,10 @@ pub struct ModelHeader {
     pub perm: Vec<ClassPerm>,
     /// Leave-one-well-out scores (absent with one cored well).
     pub validation: Option<Validation>,
-    /// Seconds to fit the final forest.
+    /// Seconds to fit the final forest. Not written (nor read), so the same
+    /// training data give a byte-identical model file and report; a file
+    /// from an older flowzone that has it still loads.
+    #[serde(skip_serializing, default)]
     pub fit_seconds: f64,
 }
 
