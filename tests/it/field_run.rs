@@ -1,0 +1,147 @@
+//! The field run as a batch engine: byte-identical outputs whatever the
+//! thread count, the field table in Parquet, and the run manifest.
+
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+
+use polars::prelude::{DataType, ParquetReader, SerReader};
+
+use crate::common::{col, read_table, root, run_config};
+
+/// Every file under `dir` (relative path → bytes), except the manifest,
+/// whose start and end times change from run to run.
+fn files(dir: &Path) -> BTreeMap<PathBuf, Vec<u8>> {
+    let mut out = BTreeMap::new();
+    let mut stack = vec![dir.to_path_buf()];
+    while let Some(d) = stack.pop() {
+        for e in std::fs::read_dir(&d).expect("read dir") {
+            let p = e.expect("entry").path();
+            if p.is_dir() {
+                stack.push(p);
+            } else if p.file_name().is_some_and(|n| n != "run-manifest.json") {
+                let rel = p.strip_prefix(dir).expect("under dir").to_path_buf();
+                out.insert(rel, std::fs::read(&p).expect("read"));
+            }
+        }
+    }
+    out
+}
+
+/// The demo run with 1 thread and with 4 threads, into the same folder one
+/// after the other (paths in the summary name the folder): every output is
+/// the same byte for byte.
+#[test]
+fn outputs_do_not_depend_on_the_thread_count() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("out");
+    let cfg = root().join("config/demo-field.toml");
+    let mut runs = Vec::new();
+    for threads in ["1", "4"] {
+        let run = run_config(&cfg, &out, &["--threads", threads]);
+        assert!(
+            run.status.success(),
+            "{}",
+            String::from_utf8_lossy(&run.stderr)
+        );
+        runs.push(files(&out));
+        std::fs::remove_dir_all(&out).expect("clean");
+    }
+    assert!(runs[0].len() > 30, "{} files", runs[0].len());
+    assert_eq!(
+        runs[0].keys().collect::<Vec<_>>(),
+        runs[1].keys().collect::<Vec<_>>()
+    );
+    for (k, v) in &runs[0] {
+        assert!(
+            runs[1][k] == *v,
+            "{} differs between 1 and 4 threads",
+            k.display()
+        );
+    }
+}
+
+/// The field table: one Parquet file per well with one schema (WELL, then
+/// the computed curves), its rows those of the well's CSV; the manifest
+/// hashes every input (checked against coreutils `sha256sum`).
+#[test]
+fn field_table_and_manifest() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("out");
+    let run = run_config(&root().join("config/demo-field.toml"), &out, &[]);
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+    let mut schema = None;
+    for i in 1..=8 {
+        let f = std::fs::File::open(out.join(format!("field/curves/tarnby-{i}.parquet")))
+            .expect("part");
+        let df = ParquetReader::new(f).finish().expect("parquet");
+        let names: Vec<String> = df
+            .get_column_names()
+            .iter()
+            .map(|s| s.to_string())
+            .collect();
+        assert_eq!(names[0], "WELL");
+        assert!(names.iter().any(|n| n == "CONTACT") && names.iter().any(|n| n == "SWH"));
+        let types: Vec<DataType> = df.dtypes();
+        match &schema {
+            None => schema = Some((names.clone(), types.clone())),
+            Some(s) => assert_eq!(*s, (names.clone(), types.clone()), "tarnby-{i}"),
+        }
+        let well = df
+            .column("WELL")
+            .expect("WELL")
+            .str()
+            .expect("text")
+            .get(0)
+            .map(String::from);
+        assert_eq!(well.as_deref(), Some(format!("Tarnby-{i}").as_str()));
+        let (h, rows) = read_table(&out.join(format!("wells/tarnby-{i}.csv")));
+        assert_eq!(df.height(), rows.len());
+        let sw = df.column("SW").expect("SW").f64().expect("f64");
+        let c = col(&h, "SW");
+        for (k, r) in rows.iter().enumerate().step_by(97) {
+            match (sw.get(k), r[c].parse::<f64>().ok()) {
+                (Some(a), Some(b)) => assert!((a - b).abs() <= 5e-5, "row {k}: {a} vs {b}"),
+                (None, None) => {}
+                (a, b) => panic!("tarnby-{i} row {k}: {a:?} vs {b:?}"),
+            }
+        }
+    }
+    let m: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(out.join("run-manifest.json")).expect("manifest"))
+            .expect("json");
+    let inputs = m["inputs"].as_array().expect("inputs");
+    let wells: Vec<&serde_json::Value> = inputs.iter().filter(|i| i["role"] == "well").collect();
+    assert_eq!(wells.len(), 8);
+    for role in ["tops", "survey", "core", "capillary", "pressures"] {
+        assert!(inputs.iter().any(|i| i["role"] == role), "no {role}");
+    }
+    let file = root().join("demo-wells/tarnby-3.las");
+    let sum = std::process::Command::new("sha256sum")
+        .arg(&file)
+        .output()
+        .expect("sha256sum runs");
+    let expected = String::from_utf8_lossy(&sum.stdout)
+        .split_whitespace()
+        .next()
+        .unwrap_or("")
+        .to_string();
+    let ours = wells
+        .iter()
+        .find(|w| {
+            w["path"]
+                .as_str()
+                .is_some_and(|p| p.ends_with("tarnby-3.las"))
+        })
+        .expect("tarnby-3");
+    assert_eq!(ours["sha256"], expected.as_str());
+    assert!(
+        m["config_text"]
+            .as_str()
+            .is_some_and(|t| t.contains("Tarnby Ridge"))
+    );
+    assert!(m["started_utc"].as_str().is_some_and(|t| t.ends_with('Z')));
+}
