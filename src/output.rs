@@ -133,12 +133,20 @@ pub fn write_field_part(table: &Table, well: &str, path: &Path) -> Result<(), Ou
         columns.push(col);
     }
     let mut df = DataFrame::new(n, columns).map_err(table_err)?;
+    write_frame_parquet(&mut df, path)
+}
+
+/// Write a data frame as Parquet (zstd) through [`write_atomic`].
+fn write_frame_parquet(df: &mut DataFrame, path: &Path) -> Result<(), OutputError> {
     write_atomic(path, |out| {
         ParquetWriter::new(out)
             .with_compression(ParquetCompression::Zstd(None))
-            .finish(&mut df)
+            .finish(df)
             .map(|_| ())
-            .map_err(table_err)
+            .map_err(|source| OutputError::Table {
+                path: path.to_path_buf(),
+                source,
+            })
     })
 }
 
@@ -200,13 +208,7 @@ pub fn write_parquet(table: &Table, path: &Path) -> Result<(), OutputError> {
         source,
     };
     let mut df = table.data_frame().map_err(table_err)?;
-    write_atomic(path, |out| {
-        ParquetWriter::new(out)
-            .with_compression(ParquetCompression::Zstd(None))
-            .finish(&mut df)
-            .map(|_| ())
-            .map_err(table_err)
-    })
+    write_frame_parquet(&mut df, path)
 }
 
 /// Write a table as LAS 2.0; `decimals` as in [`write_csv`].

@@ -163,3 +163,26 @@ pub fn col(head: &[String], name: &str) -> usize {
         .position(|h| h == name)
         .unwrap_or_else(|| panic!("no column {name} in {head:?}"))
 }
+
+/// The demo config with its paths made absolute, passed through `edit`,
+/// written into `dir` as field.toml.
+pub fn demo_config_edited(dir: &Path, edit: impl Fn(String) -> String) -> PathBuf {
+    let text = std::fs::read_to_string(root().join("config/demo-field.toml")).expect("config");
+    let abs = root().join("demo-wells");
+    let text = text.replace("\"../demo-wells", &format!("\"{}", abs.display()));
+    let path = dir.join("field.toml");
+    std::fs::write(&path, edit(text)).expect("write config");
+    path
+}
+
+/// `run` with `cfg` into `out`, which must succeed; returns run-summary.json.
+pub fn run_summary(cfg: &Path, out: &Path) -> serde_json::Value {
+    let run = run_config(cfg, out, &[]);
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+    serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
+        .expect("json")
+}

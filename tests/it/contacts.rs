@@ -25,7 +25,7 @@
 
 use std::path::Path;
 
-use crate::common::{col, read_table, root, run_config, run_demo_field};
+use crate::common::{col, demo_config_edited, read_table, root, run_demo_field, run_summary};
 
 const WINDOW: usize = 4; // 0.6 m at 0.1524 m
 const MIN_STEP: f64 = 0.10;
@@ -180,26 +180,14 @@ fn demo_contact_audit_against_the_truth() {
 #[test]
 fn a_well_under_the_wrong_fwl_is_listed_and_its_contact_unexplained() {
     let dir = tempfile::tempdir().expect("temp dir");
-    let text = std::fs::read_to_string(root().join("config/demo-field.toml")).expect("config");
-    let abs = root().join("demo-wells");
-    let text = text
-        .replace("\"../demo-wells", &format!("\"{}", abs.display()))
-        .replace(
+    let cfg = demo_config_edited(dir.path(), |t| {
+        t.replace(
             "wells = [\"Tarnby-7\"]",
             "wells = [\"Tarnby-7\"]\nfwl-tvdss = 2085.0",
-        );
-    let cfg = dir.path().join("c.toml");
-    std::fs::write(&cfg, text).expect("write");
+        )
+    });
     let out = dir.path().join("out");
-    let run = run_config(&cfg, &out, &[]);
-    assert!(
-        run.status.success(),
-        "{}",
-        String::from_utf8_lossy(&run.stderr)
-    );
-    let summary: serde_json::Value =
-        serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
-            .expect("json");
+    let summary = run_summary(&cfg, &out);
     let east = summary["contacts"]
         .as_array()
         .expect("view")

@@ -20,23 +20,12 @@
 //!   errors of PHIE, PERM (RMS log10 0.25 against the truth) and of the class
 //!   prediction, on top of the J fit's own RMS of about 0.02-0.03.
 
-use std::path::Path;
-
-use crate::common::{col, read_table, root, run_config, run_demo_field};
+use crate::common::{
+    col, demo_config_edited, read_table, root, run_config, run_demo_field, run_summary,
+};
 
 fn num(s: &str) -> f64 {
     s.parse().unwrap_or(f64::NAN)
-}
-
-/// The demo config with its paths made absolute, edited by `edit`, written
-/// into `dir`.
-fn demo_config(dir: &Path, edit: impl Fn(String) -> String) -> std::path::PathBuf {
-    let text = std::fs::read_to_string(root().join("config/demo-field.toml")).expect("config");
-    let abs = root().join("demo-wells");
-    let text = text.replace("\"../demo-wells", &format!("\"{}", abs.display()));
-    let path = dir.join("field.toml");
-    std::fs::write(&path, edit(text)).expect("write config");
-    path
 }
 
 fn rms(d: &[f64]) -> f64 {
@@ -169,22 +158,13 @@ fn demo_class_aware_saturation_and_saturation_height() {
 #[test]
 fn a_well_under_the_wrong_fwl_is_reported() {
     let dir = tempfile::tempdir().expect("temp dir");
-    let cfg = demo_config(dir.path(), |t| {
+    let cfg = demo_config_edited(dir.path(), |t| {
         t.replace(
             "wells = [\"Tarnby-7\"]",
             "wells = [\"Tarnby-7\"]\nfwl-tvdss = 2085.0",
         )
     });
-    let out = dir.path().join("out");
-    let run = run_config(&cfg, &out, &[]);
-    assert!(
-        run.status.success(),
-        "{}",
-        String::from_utf8_lossy(&run.stderr)
-    );
-    let summary: serde_json::Value =
-        serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
-            .expect("json");
+    let summary = run_summary(&cfg, &dir.path().join("out"));
     let marked: Vec<&str> = summary["wells"]
         .as_array()
         .expect("wells")
@@ -203,7 +183,7 @@ fn run_expect_error(edit: impl Fn(String) -> String, files: &[(&str, &str)], nee
     for (name, text) in files {
         std::fs::write(dir.path().join(name), text).expect("write");
     }
-    let cfg = demo_config(dir.path(), |t| {
+    let cfg = demo_config_edited(dir.path(), |t| {
         edit(t).replace("@DIR@", &dir.path().display().to_string())
     });
     let run = run_config(&cfg, &dir.path().join("out"), &[]);
@@ -304,22 +284,13 @@ fn pressure_points_by_md_give_the_same_fwl() {
         })
         .collect();
     std::fs::write(dir.path().join("p.csv"), md_only).expect("write");
-    let cfg = demo_config(dir.path(), |t| {
+    let cfg = demo_config_edited(dir.path(), |t| {
         t.replace(
             &format!("{}/pressures.csv", root().join("demo-wells").display()),
             &format!("{}/p.csv", dir.path().display()),
         )
     });
-    let out = dir.path().join("out");
-    let run = run_config(&cfg, &out, &[]);
-    assert!(
-        run.status.success(),
-        "{}",
-        String::from_utf8_lossy(&run.stderr)
-    );
-    let md: serde_json::Value =
-        serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
-            .expect("json");
+    let md = run_summary(&cfg, &dir.path().join("out"));
     let reference = run_demo_field(&dir.path().join("ref"));
     for k in 0..2 {
         let a = &md["saturation_height"]["compartments"][k];
