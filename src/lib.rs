@@ -57,6 +57,7 @@ pub mod pressure;
 pub mod sat_height;
 pub mod saturation;
 pub mod stages;
+pub mod summary;
 pub mod synth;
 pub mod tables;
 pub mod units;
