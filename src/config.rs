@@ -83,6 +83,9 @@ pub struct Config {
     /// Settings of the saturation-step audit (contacts.csv).
     #[serde(default)]
     pub contacts: ContactsConfig,
+    /// Net cutoffs of the per-well, per-zone summary (field/zone-summary.csv).
+    #[serde(default)]
+    pub summary: crate::summary::SummaryConfig,
     /// The folder the config file is in; relative paths start here.
     #[serde(skip)]
     pub base_dir: PathBuf,
@@ -307,6 +310,9 @@ impl Config {
             &self.saturation_height,
             self.classes.is_some(),
         ) {
+            return Err(invalid(&key, message));
+        }
+        if let Err((key, message)) = self.summary.validate() {
             return Err(invalid(&key, message));
         }
         if let Err((key, message)) = self.contacts.validate() {

@@ -35,6 +35,8 @@ pub struct WellReport {
     pub saturation_height: Option<crate::sat_height::WellSatHeight>,
     /// Saturation steps with their kinds, and the FWL the logs imply.
     pub contacts: Option<crate::contacts::WellAudit>,
+    /// Gross, net, net-to-gross, averages and HPT per zone.
+    pub zones: Vec<crate::summary::ZoneSummary>,
 }
 
 /// The run summary (also written as run-summary.json).
@@ -297,6 +299,19 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
             );
         }
     }
+    let zone_rows: Vec<crate::summary::ZoneSummary> = reports
+        .iter()
+        .flat_map(|r| r.zones.iter().cloned())
+        .collect();
+    let zone_outputs = crate::summary::write(&zone_rows, &out.join("field"))?;
+    if progress {
+        eprintln!(
+            "summary: {} zones of {} wells in {}",
+            zone_rows.len(),
+            reports.iter().filter(|r| r.ok).count(),
+            zone_outputs[0].display()
+        );
+    }
     let failed = reports.iter().filter(|r| !r.ok).count();
     let summary = RunSummary {
         tool: format!("flowzone {}", env!("CARGO_PKG_VERSION")),
@@ -448,6 +463,7 @@ fn one_well(
         classes: None,
         saturation_height: None,
         contacts: None,
+        zones: Vec::new(),
     };
     let result: Result<(), WellError> = (|| {
         let mut out = well::process(path, ctx)?;
@@ -496,6 +512,20 @@ fn one_well(
                 output::write_table(&out.table, dir, stem, format, Some(config.output.decimals))?;
             report.outputs.push(p.display().to_string());
         }
+        let nan = vec![f64::NAN; out.table.n_rows()];
+        let get = |n: &str| out.column(n).unwrap_or(&nan);
+        let zone_names: Vec<String> = out.report.zones.iter().map(|z| z.name.clone()).collect();
+        report.zones = crate::summary::zone_summary(
+            &out.name,
+            get("DEPTH"),
+            &out.zone_of,
+            &zone_names,
+            get("VSH"),
+            get("PHIE"),
+            get("SW"),
+            get("CLASS"),
+            &config.summary,
+        );
         let part = field_dir.join(format!("{stem}.parquet"));
         output::write_field_part(&out.table, &out.name, &part)?;
         report.outputs.push(part.display().to_string());

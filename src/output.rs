@@ -137,7 +137,7 @@ pub fn write_field_part(table: &Table, well: &str, path: &Path) -> Result<(), Ou
 }
 
 /// Write a data frame as Parquet (zstd) through [`write_atomic`].
-fn write_frame_parquet(df: &mut DataFrame, path: &Path) -> Result<(), OutputError> {
+pub fn write_frame_parquet(df: &mut DataFrame, path: &Path) -> Result<(), OutputError> {
     write_atomic(path, |out| {
         ParquetWriter::new(out)
             .with_compression(ParquetCompression::Zstd(None))
@@ -192,12 +192,24 @@ pub fn write_csv(table: &Table, path: &Path, decimals: Option<usize>) -> Result<
         source,
     };
     let mut df = table.data_frame().map_err(table_err)?;
+    write_frame_csv(&mut df, path, decimals)
+}
+
+/// Write a data frame as CSV through [`write_atomic`]; `decimals` as in [`write_csv`].
+pub fn write_frame_csv(
+    df: &mut DataFrame,
+    path: &Path,
+    decimals: Option<usize>,
+) -> Result<(), OutputError> {
     write_atomic(path, |out| {
         CsvWriter::new(out)
             .include_header(true)
             .with_float_precision(decimals)
-            .finish(&mut df)
-            .map_err(table_err)
+            .finish(df)
+            .map_err(|source| OutputError::Table {
+                path: path.to_path_buf(),
+                source,
+            })
     })
 }
 

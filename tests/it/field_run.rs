@@ -145,3 +145,103 @@ fn field_table_and_manifest() {
     );
     assert!(m["started_utc"].as_str().is_some_and(|t| t.ends_with('Z')));
 }
+
+/// The zone summary on the demo: GROSS is the distance between consecutive
+/// tops of zones.csv (within one 0.1524 m sample), and net pay and HPT come
+/// close to those of the forward model's own curves (truth VSH, PHIE, SW,
+/// CLASS) under the same default cutoffs, summed here independently with
+/// 0.1524 m per sample: HPT within 10 % and net pay within 15 % per
+/// Upper/Lower Kell zone (SW and PHIE errors of 0.02-0.04 and 0.01 move
+/// samples across the SW 0.6 and PHIE 0.06 cutoffs).
+#[test]
+fn zone_summary_against_tops_and_truth() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("out");
+    let run = run_config(&root().join("config/demo-field.toml"), &out, &[]);
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+    let (h, rows) = read_table(&out.join("field/zone-summary.csv"));
+    let (w, z, g, np, hpt) = (
+        col(&h, "WELL"),
+        col(&h, "ZONE"),
+        col(&h, "GROSS"),
+        col(&h, "NET_PAY"),
+        col(&h, "HPT"),
+    );
+    let (th, tops) = read_table(&root().join("demo-wells/zones.csv"));
+    let (tw, tz, tt) = (col(&th, "WELL"), col(&th, "ZONE"), col(&th, "TOP_MD"));
+    let unit = th.iter().position(|c| c == "DEPTH_UNIT");
+    let to_m = |r: &Vec<String>| -> f64 {
+        let v: f64 = r[tt].parse().expect("top");
+        match unit.map(|u| r[u].as_str()) {
+            Some("ft") | Some("FT") => v * 0.3048,
+            _ => v,
+        }
+    };
+    let mut checked = 0;
+    for r in &rows {
+        let well_tops: Vec<&Vec<String>> = tops.iter().filter(|t| t[tw] == r[w]).collect();
+        let Some(k) = well_tops.iter().position(|t| t[tz] == r[z]) else {
+            continue;
+        };
+        let Some(next) = well_tops.get(k + 1) else {
+            continue;
+        };
+        let gross: f64 = r[g].parse().expect("gross");
+        assert!(
+            ((to_m(next) - to_m(well_tops[k])) - gross).abs() <= 0.1524,
+            "{} {}: gross {gross}",
+            r[w],
+            r[z]
+        );
+        checked += 1;
+        // truth: the model's curves with the default cutoffs
+        let well = r[w].to_lowercase();
+        let (eh, truth) = read_table(&root().join(format!("demo-wells/truth/{well}.csv")));
+        let (d, v, p, s) = (
+            col(&eh, "DEPTH"),
+            col(&eh, "VSH"),
+            col(&eh, "PHIE"),
+            col(&eh, "SW"),
+        );
+        let to_m_well = if well == "tarnby-4" { 0.3048 } else { 1.0 };
+        let (top, base) = (to_m(well_tops[k]), to_m(next));
+        let (mut net, mut h_pt) = (0.0, 0.0);
+        for t in &truth {
+            let md = t[d].parse::<f64>().expect("md") * to_m_well;
+            let (vsh, phie, sw) = (
+                t[v].parse::<f64>().unwrap_or(f64::NAN),
+                t[p].parse::<f64>().unwrap_or(f64::NAN),
+                t[s].parse::<f64>().unwrap_or(f64::NAN),
+            );
+            if md >= top && md < base && vsh <= 0.5 && phie >= 0.06 && sw <= 0.6 {
+                net += 0.1524;
+                h_pt += 0.1524 * phie * (1.0 - sw);
+            }
+        }
+        if r[z].contains("Kell") && h_pt > 0.5 {
+            let (ours_np, ours_hpt): (f64, f64) =
+                (r[np].parse().expect("np"), r[hpt].parse().expect("hpt"));
+            eprintln!(
+                "{} {}: net pay {ours_np:.2} (truth {net:.2}), HPT {ours_hpt:.3} (truth {h_pt:.3})",
+                r[w], r[z]
+            );
+            assert!(
+                (ours_hpt / h_pt - 1.0).abs() <= 0.10,
+                "{} {} HPT",
+                r[w],
+                r[z]
+            );
+            assert!(
+                (ours_np / net - 1.0).abs() <= 0.15,
+                "{} {} net pay",
+                r[w],
+                r[z]
+            );
+        }
+    }
+    assert!(checked >= 16, "{checked} zones checked");
+}
