@@ -420,6 +420,55 @@ pub fn zone_summary(
         .collect()
 }
 
+/// Write `zone-summary.csv` and `zone-summary.parquet` into `dir`: one row
+/// per well and zone, columns in upper case with units in the names.
+pub fn write(
+    rows: &[ZoneSummary],
+    dir: &std::path::Path,
+) -> Result<Vec<std::path::PathBuf>, crate::output::OutputError> {
+    use polars::prelude::{Column, DataFrame};
+    let csv_path = dir.join("zone-summary.csv");
+    let parquet_path = dir.join("zone-summary.parquet");
+    let text =
+        |f: fn(&ZoneSummary) -> &str| rows.iter().map(|r| f(r).to_string()).collect::<Vec<_>>();
+    let num = |f: fn(&ZoneSummary) -> f64| {
+        rows.iter()
+            .map(|r| Some(f(r)).filter(|v| v.is_finite()))
+            .collect::<Vec<Option<f64>>>()
+    };
+    let count =
+        |f: fn(&ZoneSummary) -> usize| rows.iter().map(|r| f(r) as u64).collect::<Vec<u64>>();
+    let columns = vec![
+        Column::new("WELL".into(), text(|r| &r.well)),
+        Column::new("ZONE".into(), text(|r| &r.zone)),
+        Column::new("TOP_MD".into(), num(|r| r.top_md)),
+        Column::new("BASE_MD".into(), num(|r| r.base_md)),
+        Column::new("GROSS".into(), num(|r| r.gross)),
+        Column::new("NET_RESERVOIR".into(), num(|r| r.net_reservoir)),
+        Column::new("NET_PAY".into(), num(|r| r.net_pay)),
+        Column::new("NTG_VV".into(), num(|r| r.ntg)),
+        Column::new("PHIE_AVG_VV".into(), num(|r| r.phie_avg)),
+        Column::new("SW_AVG_VV".into(), num(|r| r.sw_avg)),
+        Column::new("HPT".into(), num(|r| r.hpt)),
+        Column::new("SAMPLES".into(), count(|r| r.samples)),
+        Column::new(
+            "SAMPLES_NOT_INTERPRETED".into(),
+            count(|r| r.samples_not_interpreted),
+        ),
+    ];
+    let err = |path: &std::path::Path| {
+        let path = path.to_path_buf();
+        move |source| crate::output::OutputError::Table {
+            path: path.clone(),
+            source,
+        }
+    };
+    let mut df = DataFrame::new(rows.len(), columns).map_err(err(&csv_path))?;
+    crate::output::write_frame_csv(&mut df, &csv_path, Some(4))?;
+    crate::output::write_frame_parquet(&mut df, &parquet_path)?;
+    Ok(vec![csv_path, parquet_path])
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -800,53 +849,4 @@ mod tests {
             proptest::prop_assert_eq!(total_samples, zone_of.iter().flatten().count());
         }
     }
-}
-
-/// Write `zone-summary.csv` and `zone-summary.parquet` into `dir`: one row
-/// per well and zone, columns in upper case with units in the names.
-pub fn write(
-    rows: &[ZoneSummary],
-    dir: &std::path::Path,
-) -> Result<Vec<std::path::PathBuf>, crate::output::OutputError> {
-    use polars::prelude::{Column, DataFrame};
-    let csv_path = dir.join("zone-summary.csv");
-    let parquet_path = dir.join("zone-summary.parquet");
-    let text =
-        |f: fn(&ZoneSummary) -> &str| rows.iter().map(|r| f(r).to_string()).collect::<Vec<_>>();
-    let num = |f: fn(&ZoneSummary) -> f64| {
-        rows.iter()
-            .map(|r| Some(f(r)).filter(|v| v.is_finite()))
-            .collect::<Vec<Option<f64>>>()
-    };
-    let count =
-        |f: fn(&ZoneSummary) -> usize| rows.iter().map(|r| f(r) as u64).collect::<Vec<u64>>();
-    let columns = vec![
-        Column::new("WELL".into(), text(|r| &r.well)),
-        Column::new("ZONE".into(), text(|r| &r.zone)),
-        Column::new("TOP_MD".into(), num(|r| r.top_md)),
-        Column::new("BASE_MD".into(), num(|r| r.base_md)),
-        Column::new("GROSS".into(), num(|r| r.gross)),
-        Column::new("NET_RESERVOIR".into(), num(|r| r.net_reservoir)),
-        Column::new("NET_PAY".into(), num(|r| r.net_pay)),
-        Column::new("NTG_VV".into(), num(|r| r.ntg)),
-        Column::new("PHIE_AVG_VV".into(), num(|r| r.phie_avg)),
-        Column::new("SW_AVG_VV".into(), num(|r| r.sw_avg)),
-        Column::new("HPT".into(), num(|r| r.hpt)),
-        Column::new("SAMPLES".into(), count(|r| r.samples)),
-        Column::new(
-            "SAMPLES_NOT_INTERPRETED".into(),
-            count(|r| r.samples_not_interpreted),
-        ),
-    ];
-    let err = |path: &std::path::Path| {
-        let path = path.to_path_buf();
-        move |source| crate::output::OutputError::Table {
-            path: path.clone(),
-            source,
-        }
-    };
-    let mut df = DataFrame::new(rows.len(), columns).map_err(err(&csv_path))?;
-    crate::output::write_frame_csv(&mut df, &csv_path, Some(4))?;
-    crate::output::write_frame_parquet(&mut df, &parquet_path)?;
-    Ok(vec![csv_path, parquet_path])
 }
