@@ -137,9 +137,15 @@ pub fn write_field_part(table: &Table, well: &str, path: &Path) -> Result<(), Ou
 }
 
 /// Write a data frame as Parquet (zstd) through [`write_atomic`].
+///
+/// Single-threaded on purpose, as is [`write_frame_csv`]: runs parallelise
+/// across wells, and a rayon worker that waits on polars' own pool keeps
+/// taking other wells from ours while it waits, nesting them on one stack
+/// until it overflows (found at 1 000 wells).
 pub fn write_frame_parquet(df: &mut DataFrame, path: &Path) -> Result<(), OutputError> {
     write_atomic(path, |out| {
         ParquetWriter::new(out)
+            .set_parallel(false)
             .with_compression(ParquetCompression::Zstd(None))
             .finish(df)
             .map(|_| ())
@@ -203,6 +209,7 @@ pub fn write_frame_csv(
 ) -> Result<(), OutputError> {
     write_atomic(path, |out| {
         CsvWriter::new(out)
+            .n_threads(1)
             .include_header(true)
             .with_float_precision(decimals)
             .finish(df)
