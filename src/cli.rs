@@ -104,7 +104,7 @@ pub enum Command {
         command: ClassesCommand,
     },
     /// Write the invented demo field (LAS wells and CSV tables) made by the
-    /// synthetic forward model.
+    /// synthetic forward model; with --wells, a synthetic bench field instead.
     Demo {
         /// Output folder.
         #[arg(long)]
@@ -112,6 +112,14 @@ pub enum Command {
         /// Random seed of the model.
         #[arg(long, default_value_t = crate::synth::DEMO_SEED)]
         seed: u64,
+        /// Write a synthetic bench field of this many wells (synth-0001.las,
+        /// ...; eight logs each), with zones.csv and field.toml (stages: read,
+        /// shale volume, porosity, saturation), instead of the demo field.
+        #[arg(long)]
+        wells: Option<usize>,
+        /// Depth samples per bench well, about (at least 1000). Default 10000.
+        #[arg(long, requires = "wells")]
+        depths: Option<usize>,
     },
 }
 
@@ -152,7 +160,20 @@ pub fn run(args: Args) -> Result<(), Error> {
             quiet,
             keep_going,
         } => cmd_run(&config, out, threads, quiet, keep_going),
-        Command::Demo { out, seed } => crate::demo::write_demo(&out, seed),
+        Command::Demo {
+            out,
+            seed,
+            wells,
+            depths,
+        } => match wells {
+            None => crate::demo::write_demo(&out, seed),
+            Some(n) => crate::demo::write_field(
+                &out,
+                n,
+                depths.unwrap_or(crate::synth::FIELD_DEFAULT_DEPTHS),
+                seed,
+            ),
+        },
         Command::Core { config, out, quiet } => cmd_class_stage(&config, &out, quiet, Mode::Core),
         Command::Train { config, out, quiet } => cmd_class_stage(&config, &out, quiet, Mode::Train),
         Command::Classes {

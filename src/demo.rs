@@ -1,10 +1,14 @@
 //! `flowzone demo`: writes the invented demo field (see `demo-wells/README.md`)
 //! from the synthetic forward model in [`crate::synth`]: one LAS 2.0 file per
 //! well, the CSV tables (core, capillary pressure, pressures, zone tops,
-//! survey), the model's truth per well under `truth/`, and the README.
+//! survey), the model's truth per well under `truth/`, and the README; or,
+//! with `--wells N`, a synthetic bench field of N wells from the same model
+//! ([`write_field`]).
 
 use std::io::Write as _;
 use std::path::Path;
+
+use rayon::prelude::*;
 
 use crate::error::Error;
 use crate::las::{CurveInfo, HeaderItem, writer};
@@ -88,14 +92,7 @@ pub fn write_demo(out: &Path, seed: u64) -> Result<(), Error> {
         std::fs::create_dir_all(&d).map_err(io(&d))?;
     }
     for w in &field.wells {
-        let (las, decimals) = well_las(w);
-        let path = out.join(format!("{}.las", w.file_stem));
-        write_atomic(&path, |f| {
-            writer::write_las(f, &las, &decimals).map_err(|source| crate::output::OutputError::Io {
-                path: path.clone(),
-                source,
-            })
-        })?;
+        write_well_las(out, w)?;
         write_csv(
             &truth_table(w),
             &out.join("truth").join(format!("{}.csv", w.file_stem)),
@@ -109,6 +106,77 @@ pub fn write_demo(out: &Path, seed: u64) -> Result<(), Error> {
     eprintln!(
         "wrote the demo field ({} wells, seed {seed}) to {}",
         field.wells.len(),
+        out.display()
+    );
+    Ok(())
+}
+
+/// Write `out/<file stem>.las`.
+fn write_well_las(out: &Path, w: &SynthWell) -> Result<(), crate::output::OutputError> {
+    let (las, decimals) = well_las(w);
+    let path = out.join(format!("{}.las", w.file_stem));
+    write_atomic(&path, |f| {
+        writer::write_las(f, &las, &decimals).map_err(|source| crate::output::OutputError::Io {
+            path: path.clone(),
+            source,
+        })
+    })
+}
+
+/// Write a synthetic bench field into `out`: `wells` LAS files
+/// (`synth-0001.las`, ...) of about `depths` samples each, `zones.csv`, and
+/// `field.toml`, which runs the stages read, shale volume, porosity and
+/// saturation on them. Wells are generated in parallel; the files depend only
+/// on `seed`, `wells` and `depths`.
+pub fn write_field(out: &Path, wells: usize, depths: usize, seed: u64) -> Result<(), Error> {
+    if wells == 0 {
+        return Err(Error::Usage("--wells must be at least 1".into()));
+    }
+    if depths < synth::FIELD_MIN_DEPTHS {
+        return Err(Error::Usage(format!(
+            "--depths must be at least {} (the log holds 100 m above and below the reservoir)",
+            synth::FIELD_MIN_DEPTHS
+        )));
+    }
+    std::fs::create_dir_all(out).map_err(|source| Error::Io {
+        path: out.to_path_buf(),
+        source,
+    })?;
+    let written: Vec<(String, Vec<String>)> = (0..wells)
+        .into_par_iter()
+        .map(|i| -> Result<(String, Vec<String>), Error> {
+            let (w, rows) = synth::field_well(seed, i, depths);
+            write_well_las(out, &w)?;
+            Ok((format!("{}.las", w.file_stem), rows))
+        })
+        .collect::<Result<_, Error>>()?;
+    let mut zones = format!("{}\n", synth::FIELD_ZONES_HEADER);
+    for row in written.iter().flat_map(|w| &w.1) {
+        zones += row;
+        zones.push('\n');
+    }
+    write_text(&out.join("zones.csv"), &zones)?;
+    write_text(
+        &out.join("field.toml"),
+        &synth::field_config(wells, depths, seed),
+    )?;
+    let ours: std::collections::BTreeSet<&str> = written.iter().map(|w| w.0.as_str()).collect();
+    let others = std::fs::read_dir(out)
+        .map(|rd| {
+            rd.filter_map(Result::ok)
+                .map(|e| e.file_name().to_string_lossy().into_owned())
+                .filter(|n| n.to_ascii_lowercase().ends_with(".las") && !ours.contains(n.as_str()))
+                .count()
+        })
+        .unwrap_or(0);
+    if others > 0 {
+        eprintln!(
+            "warning: {} holds {others} other LAS files, which field.toml's [input] reads too",
+            out.display()
+        );
+    }
+    eprintln!(
+        "wrote a synthetic field ({wells} wells of ~{depths} samples, seed {seed}) and field.toml to {}",
         out.display()
     );
     Ok(())

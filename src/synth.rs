@@ -330,6 +330,10 @@ struct WellSpec {
     tops: [f64; 3],
     grid_en: (f64, f64),
     styles: [CurveStyle; 6],
+    /// Offset of this well's random-number streams (the demo well's index; see `field_spec`).
+    stream: u64,
+    /// Whether the NULLS stretches of the demo apply (demo wells only).
+    log_nulls: bool,
 }
 
 fn well_spec(idx: usize) -> WellSpec {
@@ -346,6 +350,8 @@ fn well_spec(idx: usize) -> WellSpec {
         tops,
         grid_en: (v[4], v[5]),
         styles: WELL_STYLES[idx % 8],
+        stream: idx as u64,
+        log_nulls: true,
     }
 }
 
@@ -706,7 +712,7 @@ fn unit_name(spec: &WellSpec) -> &'static str {
 
 /// Earth model, depth grid and truth of one well.
 fn plan_well(seed: u64, spec: WellSpec) -> WellModel {
-    let mut rng = sub_rng(seed, STREAM_BEDS + spec.idx as u64);
+    let mut rng = sub_rng(seed, STREAM_BEDS + spec.stream);
     let tops = spec.tops;
     let beds = build_beds(&mut rng, &tops);
     let f = unit_factor(&spec);
@@ -760,7 +766,7 @@ fn entry(mn: &str, unit: &str, value: String, desc: &str) -> HeaderEntry {
 /// Forward-models the logs (with noise and null stretches) and assembles one well.
 fn render_well(seed: u64, m: &WellModel) -> SynthWell {
     let s = &m.spec;
-    let mut rng = sub_rng(seed, STREAM_LOGS + s.idx as u64);
+    let mut rng = sub_rng(seed, STREAM_LOGS + s.stream);
     let mut logs: [Vec<f64>; 6] = Default::default();
     for t in &m.truth {
         let rt = rt_from_volumes(t.vsh, t.phie, t.sw, t.class);
@@ -777,7 +783,7 @@ fn render_well(seed: u64, m: &WellModel) -> SynthWell {
         }
     }
     let md0 = m.md_m.first().copied().unwrap_or(0.0);
-    for &(_, li, from, to) in NULLS.iter().filter(|n| n.0 == s.idx) {
+    for &(_, li, from, to) in NULLS.iter().filter(|n| s.log_nulls && n.0 == s.idx) {
         if let Some(log) = logs.get_mut(li) {
             for (v, md) in log.iter_mut().zip(&m.md_m) {
                 if (from..to).contains(&(md - md0)) {
@@ -1174,6 +1180,171 @@ two points flagged QUALITY=poor carry an extra +{}-{} psi (supercharging-like).\
     s
 }
 
+// ------------------------------------------------------------------ bench field
+
+/// Default depth samples per well of a synthetic bench field.
+pub const FIELD_DEFAULT_DEPTHS: usize = 10_000;
+/// Fewest depth samples per well of a bench field: the log must hold the
+/// margins above and below the reservoir (100 m) and some reservoir.
+pub const FIELD_MIN_DEPTHS: usize = 1_000;
+/// Header line of a bench field's zones.csv.
+pub const FIELD_ZONES_HEADER: &str = "WELL,ZONE,TOP_MD,DEPTH_UNIT";
+/// Random-number stream tags of a bench well's layout and of its extra log (SP).
+const STREAM_LAYOUT: u64 = 600;
+const STREAM_EXTRA_LOGS: u64 = 700;
+/// Bench well k's streams are offset by (k + 1)·2^16, clear of every demo stream
+/// (tag + demo well index < 2^16) and of each other.
+const FIELD_STREAM_SHIFT: u32 = 16;
+/// Bench field structure (invented): an anticline elongated east-west, top Upper Kell
+/// at FIELD_CREST_M m TVDSS over the crest at grid (E, N) = FIELD_CREST_EN m, deepening
+/// quadratically (m per m², east and north) away from it, plus a small per-well
+/// scatter (1σ, m, clipped at ±2.5σ). Wells are scattered uniformly over FIELD_EXTENT_M.
+const FIELD_CREST_M: f64 = 1990.0;
+const FIELD_CREST_EN: (f64, f64) = (6000.0, 4500.0);
+const FIELD_CURVATURE: (f64, f64) = (1.5e-6, 8.0e-6);
+const FIELD_EXTENT_M: (f64, f64) = (12_000.0, 9_000.0);
+const FIELD_TOP_SD_M: f64 = 3.0;
+/// KB elevation range of bench wells, m.
+const FIELD_EKB_M: (f64, f64) = (24.0, 36.0);
+/// Upper Kell's share of the reservoir (drawn per well); the rest is Lower Kell.
+const FIELD_UPPER_SHARE: (f64, f64) = (0.40, 0.50);
+/// The field's FWL lies this share of the reservoir thickness below the crest's top.
+const FIELD_FWL_SHARE: f64 = 0.55;
+/// SP: shale baseline 0 mV, clean-sand deflection and noise (1σ), mV (scenario choices).
+const SP_CLEAN_MV: f64 = -70.0;
+const SP_NOISE_MV: f64 = 1.5;
+/// Log names of every bench well, in the order GR, density, neutron, sonic, resistivity, caliper.
+const FIELD_STYLES: [CurveStyle; 6] = [GR, RHOB, NPHI, DT, RT, CALI];
+
+/// SP (mV), linear in shale volume between the shale baseline (0 mV) and the clean-sand
+/// deflection (the SP shale index, common practice).
+fn sp_from_vsh(vsh: f64) -> f64 {
+    SP_CLEAN_MV * (1.0 - vsh)
+}
+
+/// Reservoir (Upper plus Lower Kell) thickness, m, that makes a vertical well's log
+/// about `depths` samples long.
+fn field_reservoir_m(depths: usize) -> f64 {
+    let logged = depths.saturating_sub(1) as f64 * STEP_M;
+    (logged - LOG_ABOVE_TOP_M - LOG_BELOW_BASE_M).max(10.0)
+}
+
+/// Bench well `idx` (0-based): a vertical metric well placed on the field's structure,
+/// everything drawn from its own streams of `seed`.
+fn field_spec(seed: u64, idx: usize, depths: usize) -> WellSpec {
+    let stream = (idx as u64 + 1) << FIELD_STREAM_SHIFT;
+    let mut rng = sub_rng(seed, STREAM_LAYOUT + stream);
+    let east = rng.random_range(0.0..FIELD_EXTENT_M.0);
+    let north = rng.random_range(0.0..FIELD_EXTENT_M.1);
+    let (de, dn) = (east - FIELD_CREST_EN.0, north - FIELD_CREST_EN.1);
+    let scatter = FIELD_TOP_SD_M * normal(&mut rng).clamp(-2.5, 2.5);
+    let structure = FIELD_CURVATURE.0 * de * de + FIELD_CURVATURE.1 * dn * dn;
+    let top = round_to(FIELD_CREST_M + structure + scatter, 1);
+    let ekb = round_to(rng.random_range(FIELD_EKB_M.0..FIELD_EKB_M.1), 1);
+    let thick = field_reservoir_m(depths);
+    let upper = round_to(
+        rng.random_range(FIELD_UPPER_SHARE.0..FIELD_UPPER_SHARE.1) * thick,
+        1,
+    );
+    let fwl = FIELD_CREST_M + FIELD_FWL_SHARE * thick;
+    WellSpec {
+        idx,
+        name: format!("Synth-{:04}", idx + 1),
+        feet: false,
+        deviated: false,
+        compartment: Compartment("Field", fwl, f64::NAN),
+        ekb,
+        tops: [top, top + upper, top + thick],
+        grid_en: (east, north),
+        styles: FIELD_STYLES,
+        stream,
+        log_nulls: false,
+    }
+}
+
+/// Well `idx` (0-based) of a synthetic bench field: the demo's forward model (beds,
+/// classes, truth, logs) on a vertical metric well of about `depths` samples whose
+/// structure, KB and zone thicknesses come from `seed` and `idx`, with eight logs
+/// (GR, RHOB, NPHI, DT, RT, CALI, SP, BS). The Upper and Lower Kell are stretched to
+/// fill the log. Returns the well and its zones.csv rows (see [`FIELD_ZONES_HEADER`]).
+/// Same seed and index, same bits, whatever else is generated.
+pub fn field_well(seed: u64, idx: usize, depths: usize) -> (SynthWell, Vec<String>) {
+    let m = plan_well(seed, field_spec(seed, idx, depths));
+    let mut w = render_well(seed, &m);
+    let mut rng = sub_rng(seed, STREAM_EXTRA_LOGS + m.spec.stream);
+    let sp: Vec<f64> = m
+        .truth
+        .iter()
+        .map(|t| sp_from_vsh(t.vsh) + SP_NOISE_MV * normal(&mut rng))
+        .collect();
+    w.curves
+        .push(curve("SP", "MV", "Spontaneous potential", 2, sp));
+    let bs = vec![BIT_SIZE_IN; m.depth.len()];
+    w.curves.push(curve("BS", "IN", "Bit size", 2, bs));
+    for e in &mut w.well_items {
+        match e.mnemonic.as_str() {
+            "FLD" => e.value = "Tarnby Ridge (synthetic bench field)".into(),
+            "UWI" => e.value = format!("MRV-TRS-{:05}", idx + 1),
+            _ => {}
+        }
+    }
+    let s = &m.spec;
+    let zone_rows = ZONE_NAMES
+        .iter()
+        .zip(s.tops)
+        .map(|(zone, top)| format!("{},{zone},{:.2},M", s.name, m.geo.md_m(top)))
+        .collect();
+    (w, zone_rows)
+}
+
+/// Text of a bench field's `field.toml`: the stages read, shale volume, porosity and
+/// water saturation only (no core, classes or capillary data), with the values the
+/// model was built with; `wells` and `depths` only go into the comments.
+pub fn field_config(wells: usize, depths: usize, seed: u64) -> String {
+    format!(
+        "# Synthetic bench field: {wells} invented wells of about {depths} depth samples,\n\
+# written by `flowzone demo --wells {wells} --depths {depths} --seed {seed}` from the\n\
+# Tarnby Ridge forward model (field, operator, wells and numbers are made up).\n\
+# Run: flowzone run --config field.toml --out OUT   (OUT outside this folder)\n\
+# Stages: read, shale volume, porosity, water saturation. The parameters are the\n\
+# ones the model was built with (Archie m = n = 2 for every rock).\n\
+\n\
+[project]\n\
+name = \"Tarnby Ridge synthetic field ({wells} wells, seed {seed})\"\n\
+depth-unit = \"m\"\n\
+\n\
+[input]\n\
+wells = [\".\"]\n\
+\n\
+[output]\n\
+formats = [\"las\"]\n\
+decimals = 4\n\
+\n\
+[zones]\n\
+tops = \"zones.csv\"\n\
+\n\
+[parameters.field]\n\
+# linear gamma-ray index between clean sand and shale, gAPI\n\
+gr-clean-gapi = {GR_CLEAN}\n\
+gr-shale-gapi = {GR_SHALE}\n\
+shale-model = \"linear\"\n\
+# neutron-density mean, shale-corrected with what it reads in shale\n\
+porosity-method = \"neutron-density\"\n\
+rho-matrix-gcc = {RHO_MATRIX}\n\
+rho-fluid-gcc = {RHO_W}\n\
+rho-shale-gcc = {RHO_SHALE}\n\
+nphi-shale-vv = {NPHI_SHALE}\n\
+phi-max-vv = 0.5\n\
+# Archie, Rw at formation temperature (no temperature correction)\n\
+saturation-model = \"archie\"\n\
+rw-ohmm = {RW}\n\
+archie-a = {ARCHIE_A:.1}\n\
+archie-m = 2.0\n\
+archie-n = 2.0\n\
+bad-hole-in = 1.0\n"
+    )
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -1388,6 +1559,43 @@ mod tests {
             (num(r[3]) - phie[j]).abs() < 0.05
         });
         assert!(matched.count() * 10 >= t3.len() * 9);
+    }
+
+    #[test]
+    fn bench_field_wells_are_deterministic_and_differ() {
+        let (a, rows) = field_well(DEMO_SEED, 0, 2_000);
+        let (b, _) = field_well(DEMO_SEED, 0, 2_000);
+        assert_eq!(a, b);
+        assert_eq!(a.file_stem, "synth-0001");
+        assert!(
+            (1_990..=2_010).contains(&a.depth.len()),
+            "{}",
+            a.depth.len()
+        );
+        let names: Vec<&str> = a.curves.iter().map(|c| c.mnemonic.as_str()).collect();
+        assert_eq!(
+            names,
+            ["GR", "RHOB", "NPHI", "DT", "RT", "CALI", "SP", "BS"]
+        );
+        assert!(
+            a.curves
+                .iter()
+                .all(|c| c.values.iter().all(|v| v.is_finite()))
+        );
+        assert_eq!(rows.len(), 3);
+        assert!(rows[0].starts_with("Synth-0001,Upper Kell,"));
+        let (c, _) = field_well(DEMO_SEED, 1, 2_000);
+        assert_ne!(a.depth[0], c.depth[0]);
+        assert_ne!(a.curves[0].values[..100], c.curves[0].values[..100]);
+        let (d, _) = field_well(DEMO_SEED + 1, 0, 2_000);
+        assert_ne!(a.curves[0].values[..100], d.curves[0].values[..100]);
+        // the demo wells are untouched by the bench wells' streams
+        assert_ne!(
+            generate(DEMO_SEED).wells[0].curves[0].values[..100],
+            a.curves[0].values[..100]
+        );
+        let toml = field_config(3, 2_000, DEMO_SEED);
+        assert!(toml.contains("rw-ohmm = 0.045") && toml.contains("gr-shale-gapi = 130"));
     }
 
     #[test]
