@@ -233,10 +233,10 @@ fn segment_finds_exact_boundaries() {
 /// Hand computed: x = [0, 1, 1, 2, 0, 3], segments of at least 2, no
 /// penalty. Admissible segmentations and their sums of squares: none 6.83,
 /// [2] 0.5 + 5 = 5.5, [3] 2/3 + 14/3 = 5.33, [4] 2 + 4.5 = 6.5, [2, 4] 0.5 +
-/// 0.5 + 4.5 = 5.5: the optimum is [3]. (The pruning rule discards the
+/// 0.5 + 4.5 = 5.5: the optimum is [3]. (Plain PELT pruning discards the
 /// candidate 3 at t = 5, where 2/3 + C(3,5) = 2.67 exceeds f(5) = 2.5, but 5
 /// cannot end a segment before t = 7, so the bound behind the rule does not
-/// hold at t = 6.)
+/// hold at t = 6; `segment` keeps a pruned candidate until t + min_len.)
 #[test]
 fn segment_min_len_keeps_the_optimum() {
     let x = [0.0, 1.0, 1.0, 2.0, 0.0, 3.0];
@@ -394,8 +394,8 @@ fn uniform_bed_crossing_its_entry_height_is_fluid_contact() {
 /// Constructed case: the uniform bed has one contact, so one step. Hand
 /// computed SWH at 0.52, 0.37, 0.22 and 0.06 m above the FWL (samples 95-98):
 /// 0.145, 0.207, 0.468, 1; the transition zone is thinner than a metre but
-/// its four samples (0.61 m) pass the 0.6 m minimum bed, so the audit may
-/// split it into two steps, both fluid contacts.
+/// its four samples (0.61 m) pass the 0.6 m minimum bed, so the segmentation
+/// alone cuts it into a staircase of two steps, which must be merged.
 #[test]
 fn one_contact_is_one_step() {
     let w = uniform_bed();
