@@ -106,14 +106,7 @@ pub fn chain(e: &dyn std::error::Error) -> String {
 /// Run the README's main job (`run --config config/demo-field.toml`) into `out`;
 /// it must succeed. Returns run-summary.json.
 pub fn run_demo_field(out: &Path) -> serde_json::Value {
-    let run = run_config(&root().join("config/demo-field.toml"), out, &[]);
-    assert!(
-        run.status.success(),
-        "{}",
-        String::from_utf8_lossy(&run.stderr)
-    );
-    serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
-        .expect("json")
+    run_summary(&root().join("config/demo-field.toml"), out)
 }
 
 /// `flowzone run --quiet [extra...] --config CFG --out OUT`.

@@ -6,7 +6,7 @@ use std::path::{Path, PathBuf};
 
 use polars::prelude::{DataType, ParquetReader, SerReader};
 
-use crate::common::{col, read_table, root, run_config};
+use crate::common::{col, read_table, root, run_config, run_demo_field};
 
 /// Every file under `dir` (relative path → bytes), except the manifest,
 /// whose start and end times change from run to run.
@@ -67,12 +67,7 @@ fn outputs_do_not_depend_on_the_thread_count() {
 fn field_table_and_manifest() {
     let dir = tempfile::tempdir().expect("temp dir");
     let out = dir.path().join("out");
-    let run = run_config(&root().join("config/demo-field.toml"), &out, &[]);
-    assert!(
-        run.status.success(),
-        "{}",
-        String::from_utf8_lossy(&run.stderr)
-    );
+    run_demo_field(&out);
     let mut schema = None;
     for i in 1..=8 {
         let f = std::fs::File::open(out.join(format!("field/curves/tarnby-{i}.parquet")))
@@ -157,12 +152,7 @@ fn field_table_and_manifest() {
 fn zone_summary_against_tops_and_truth() {
     let dir = tempfile::tempdir().expect("temp dir");
     let out = dir.path().join("out");
-    let run = run_config(&root().join("config/demo-field.toml"), &out, &[]);
-    assert!(
-        run.status.success(),
-        "{}",
-        String::from_utf8_lossy(&run.stderr)
-    );
+    run_demo_field(&out);
     let (h, rows) = read_table(&out.join("field/zone-summary.csv"));
     let (w, z, g, np, hpt) = (
         col(&h, "WELL"),
