@@ -49,6 +49,7 @@ pub mod field;
 pub mod inspect;
 pub mod las;
 pub mod manifest;
+pub mod numfmt;
 pub mod output;
 pub mod params;
 pub mod petro;

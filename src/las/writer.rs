@@ -10,7 +10,8 @@
 
 use std::io::{self, Write};
 
-use super::{HeaderItem, LasFile, median_step, step_range};
+use super::{CurveInfo, HeaderItem, LasFile, median_step, step_range};
+use crate::numfmt;
 
 /// The NULL value written for missing samples: the usual LAS value.
 pub const WRITE_NULL: f64 = -999.25;
@@ -81,18 +82,49 @@ fn header_line(
     )
 }
 
+/// What a LAS file is written from, borrowed: the header sections and the
+/// columns, index first. [`write_las`] takes a whole [`LasFile`]; computed
+/// tables are written through this without copying their columns.
+#[derive(Debug, Clone, Copy)]
+pub struct LasParts<'a> {
+    /// ~W items (STRT, STOP, STEP, NULL among them are skipped: the writer
+    /// takes those from the data).
+    pub well_items: &'a [HeaderItem],
+    pub params: &'a [HeaderItem],
+    /// ~O text.
+    pub other: &'a str,
+    pub curves: &'a [CurveInfo],
+    pub columns: &'a [&'a [f64]],
+    /// Unit of the index (STRT, STOP, STEP).
+    pub index_unit: &'a str,
+}
+
 /// Write a LAS 2.0 file. `decimals[i]` is the precision of column `i`
 /// (missing entries default to what [`decimals_needed`] finds).
-pub fn write_las(mut out: impl Write, file: &LasFile, decimals: &[usize]) -> io::Result<()> {
-    let index = file.index();
+pub fn write_las(out: impl Write, file: &LasFile, decimals: &[usize]) -> io::Result<()> {
+    let columns: Vec<&[f64]> = file.columns.iter().map(Vec::as_slice).collect();
+    let parts = LasParts {
+        well_items: &file.well_items,
+        params: &file.params,
+        other: &file.other,
+        curves: &file.curves,
+        columns: &columns,
+        index_unit: file.index_unit(),
+    };
+    write_parts(out, &parts, decimals)
+}
+
+/// Write a LAS 2.0 file from borrowed parts; `decimals` as in [`write_las`].
+pub fn write_parts(mut out: impl Write, file: &LasParts<'_>, decimals: &[usize]) -> io::Result<()> {
+    let index: &[f64] = file.columns.first().copied().unwrap_or(&[]);
     let n = index.len();
-    let unit = file.index_unit().to_string();
+    let unit = file.index_unit;
     let decimals: Vec<usize> = (0..file.columns.len())
         .map(|i| {
             decimals
                 .get(i)
                 .copied()
-                .unwrap_or_else(|| decimals_needed(&file.columns[i], MAX_DECIMALS))
+                .unwrap_or_else(|| decimals_needed(file.columns[i], MAX_DECIMALS))
         })
         .collect();
     let d0 = decimals.first().copied().unwrap_or(4).max(1);
@@ -117,12 +149,12 @@ pub fn write_las(mut out: impl Write, file: &LasFile, decimals: &[usize]) -> io:
     let (lo, hi) = step_range(index);
     let regular = n > 1 && (hi - lo) <= 1e-6 * spacing.abs().max(1e-9);
     let step = if regular { spacing } else { 0.0 };
-    header_line(&mut out, "STRT", &unit, &fmt(strt, d0), "START DEPTH")?;
-    header_line(&mut out, "STOP", &unit, &fmt(stop, d0), "STOP DEPTH")?;
+    header_line(&mut out, "STRT", unit, &fmt(strt, d0), "START DEPTH")?;
+    header_line(&mut out, "STOP", unit, &fmt(stop, d0), "STOP DEPTH")?;
     header_line(
         &mut out,
         "STEP",
-        &unit,
+        unit,
         &fmt(step, d0),
         if regular {
             "STEP"
@@ -140,12 +172,12 @@ pub fn write_las(mut out: impl Write, file: &LasFile, decimals: &[usize]) -> io:
         write_item(&mut out, item)?;
     }
     writeln!(out, "~CURVE INFORMATION")?;
-    for c in &file.curves {
+    for c in file.curves {
         header_line(&mut out, &c.mnemonic, &c.unit, &c.api_code, &c.description)?;
     }
     if !file.params.is_empty() {
         writeln!(out, "~PARAMETER INFORMATION")?;
-        for item in &file.params {
+        for item in file.params {
             write_item(&mut out, item)?;
         }
     }
@@ -164,7 +196,7 @@ pub fn write_las(mut out: impl Write, file: &LasFile, decimals: &[usize]) -> io:
         .columns
         .iter()
         .zip(&decimals)
-        .zip(&file.curves)
+        .zip(file.curves)
         .map(|((col, &d), c)| {
             let (lo, hi) = col
                 .iter()
@@ -183,21 +215,21 @@ pub fn write_las(mut out: impl Write, file: &LasFile, decimals: &[usize]) -> io:
         write!(out, " {:>w$}", clean_mnemonic(&c.mnemonic), w = w - 1)?;
     }
     writeln!(out)?;
-    let mut line = String::with_capacity(widths.iter().sum::<usize>() + 2);
+    let mut line: Vec<u8> = Vec::with_capacity(widths.iter().sum::<usize>() + 2);
     for row in 0..n {
         line.clear();
-        line.push(' ');
+        line.push(b' ');
         for (col, (&d, &w)) in file.columns.iter().zip(decimals.iter().zip(&widths)) {
-            let v = col[row];
-            use std::fmt::Write as _;
+            let v = col.get(row).copied().unwrap_or(f64::NAN);
+            line.push(b' ');
             if v.is_finite() {
-                let _ = write!(line, " {v:>w$.d$}", w = w - 1);
+                numfmt::push_fixed_right(&mut line, v, d, w - 1);
             } else {
-                let _ = write!(line, " {WRITE_NULL_TEXT:>w$}", w = w - 1);
+                numfmt::push_right(&mut line, WRITE_NULL_TEXT.as_bytes(), w - 1);
             }
         }
-        line.push('\n');
-        out.write_all(line.as_bytes())?;
+        line.push(b'\n');
+        out.write_all(&line)?;
     }
     Ok(())
 }
