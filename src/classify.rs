@@ -16,7 +16,7 @@ use std::sync::{Arc, Mutex};
 use std::time::Instant;
 
 use rayon::prelude::*;
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 use crate::classes::{self, ClassScheme, perm};
 use crate::config::{PermMethod, PredictorConfig};
@@ -84,7 +84,7 @@ pub struct Prepared {
 }
 
 /// Per-well class counts.
-#[derive(Debug, Clone, Default, Serialize, PartialEq)]
+#[derive(Debug, Clone, Default, Serialize, PartialEq, Deserialize)]
 pub struct ClassCounts {
     /// Depths given a class.
     pub classified: usize,
@@ -252,7 +252,7 @@ pub fn prepare(
         .map(|(n, s)| (n.clone(), s.as_ref()))
         .collect();
     core_set::write_core_table(&table_path, &core, &refs)?;
-    summary.outputs.push(table_path.display().to_string());
+    summary.outputs.push(crate::output::shown(out, &table_path));
 
     let setup = if mode == Mode::Core || !wants_model {
         None
@@ -345,9 +345,9 @@ pub fn prepare(
                 })?;
                 let path = model_dir.join("class-model.fzm");
                 model.save(&path)?;
-                summary.model_file = Some(path.display().to_string());
+                summary.model_file = Some(crate::output::shown(out, &path));
                 summary.trained = true;
-                summary.outputs.push(path.display().to_string());
+                summary.outputs.push(crate::output::shown(out, &path));
                 let json = model_dir.join("training-report.json");
                 write_json(&json, &model.header)?;
                 let text = model_dir.join("training-report.txt");
@@ -359,8 +359,8 @@ pub fn prepare(
                             source,
                         })
                 })?;
-                summary.outputs.push(json.display().to_string());
-                summary.outputs.push(text.display().to_string());
+                summary.outputs.push(crate::output::shown(out, &json));
+                summary.outputs.push(crate::output::shown(out, &text));
                 model
             }
         };
@@ -373,7 +373,9 @@ pub fn prepare(
         })
     };
     let report_path = core_dir.join("core-report.json");
-    summary.outputs.push(report_path.display().to_string());
+    summary
+        .outputs
+        .push(crate::output::shown(out, &report_path));
     write_json(&report_path, &summary)?;
     Ok(Prepared {
         setup,

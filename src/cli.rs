@@ -70,6 +70,34 @@ pub enum Command {
         /// Exit 0 even when some wells failed (they are still reported).
         #[arg(long)]
         keep_going: bool,
+        /// Run only the K-th of N subsets of the wells (e.g. 3/8), balanced by
+        /// file size and the same on every machine; writes the wells' outputs
+        /// and shards/shard-K-of-N.state for `flowzone merge`, but no
+        /// field-level outputs.
+        #[arg(long, value_name = "K/N")]
+        shard: Option<crate::shard::ShardSpec>,
+    },
+    /// Combine the shards of a sharded run (`run --shard K/N`) into the
+    /// field-level outputs a single run makes: run summary and manifest, zone
+    /// summary, saturation-height residuals, contacts. Checks that every
+    /// shard ran with the same tool, config and inputs.
+    Merge {
+        /// The project config the shards ran with.
+        #[arg(long)]
+        config: PathBuf,
+        /// Output folder; overrides [output] dir of the config.
+        #[arg(long)]
+        out: Option<PathBuf>,
+        /// Shard output folders (default: the output folder itself, for
+        /// shards that all wrote to one shared folder). Their wells' files
+        /// are copied into the output folder.
+        shards: Vec<PathBuf>,
+        /// No progress lines.
+        #[arg(long)]
+        quiet: bool,
+        /// Exit 0 even when some wells failed (they are still reported).
+        #[arg(long)]
+        keep_going: bool,
     },
     /// Core: match the core file to the wells, apply the accepted depth
     /// shifts, write the core table (RQI, FZI, R35, class per scheme) and
@@ -159,7 +187,15 @@ pub fn run(args: Args) -> Result<(), Error> {
             threads,
             quiet,
             keep_going,
-        } => cmd_run(&config, out, threads, quiet, keep_going),
+            shard,
+        } => cmd_run(&config, out, threads, quiet, keep_going, shard),
+        Command::Merge {
+            config,
+            out,
+            shards,
+            quiet,
+            keep_going,
+        } => cmd_merge(&config, out, &shards, quiet, keep_going),
         Command::Demo {
             out,
             seed,
@@ -250,48 +286,88 @@ fn cmd_export(files: &[PathBuf], format: Format, out: &PathBuf, strict: bool) ->
     Ok(())
 }
 
+/// The output folder: --out, or [output] dir of the config.
+fn out_dir(config: &Config, out: Option<PathBuf>) -> Result<PathBuf, Error> {
+    out.or_else(|| config.output.dir.as_ref().map(|d| config.resolve_path(d)))
+        .ok_or_else(|| {
+            Error::Usage(
+                "no output folder: give --out DIR or set [output] dir in the config".into(),
+            )
+        })
+}
+
+/// Print the failed wells and the totals; an error when wells failed and
+/// `keep_going` is off.
+fn report_wells(
+    wells: &[field::WellReport],
+    total: usize,
+    quiet: bool,
+    keep_going: bool,
+    done: &str,
+) -> Result<(), Error> {
+    let failed = wells.iter().filter(|w| !w.ok).count();
+    for w in wells.iter().filter(|w| !w.ok) {
+        eprintln!("error: {}", w.error.as_deref().unwrap_or("unknown error"));
+    }
+    if !quiet {
+        eprintln!("{total} wells, {failed} failed; {done}");
+    }
+    if failed > 0 && !keep_going {
+        return Err(Error::Partial {
+            failed,
+            total,
+            what: "wells",
+        });
+    }
+    Ok(())
+}
+
 fn cmd_run(
     config_path: &std::path::Path,
     out: Option<PathBuf>,
     threads: Option<usize>,
     quiet: bool,
     keep_going: bool,
+    shard: Option<crate::shard::ShardSpec>,
 ) -> Result<(), Error> {
     let config = Config::load(config_path)?;
-    let out = match out.or_else(|| config.output.dir.as_ref().map(|d| config.resolve_path(d))) {
-        Some(o) => o,
-        None => {
-            return Err(Error::Usage(
-                "no output folder: give --out DIR or set [output] dir in the config".into(),
-            ));
-        }
-    };
+    let out = out_dir(&config, out)?;
     if let Some(n) = threads {
         // a second call in the same process fails; the first pool stays in use
         let _ = rayon::ThreadPoolBuilder::new()
             .num_threads(n.max(1))
             .build_global();
     }
-    let summary = field::run(&config, &out, !quiet)?;
-    for w in summary.wells.iter().filter(|w| !w.ok) {
-        eprintln!("error: {}", w.error.as_deref().unwrap_or("unknown error"));
-    }
-    if !quiet {
-        eprintln!(
-            "{} wells, {} failed; outputs in {} (summary: run-summary.json)",
-            summary.wells_total,
-            summary.wells_failed,
-            out.display()
+    if let Some(spec) = shard {
+        let done = crate::shard::run_shard(&config, &out, spec, !quiet)?;
+        if done.trained && !quiet {
+            eprintln!(
+                "note: shard {spec} trained the class model itself, as every shard will; train it once (`flowzone train`) and set [predictor] model to share it"
+            );
+        }
+        let msg = format!(
+            "shard {spec} done; state in {} (then: flowzone merge)",
+            done.state_file.display()
         );
+        return report_wells(&done.reports, done.reports.len(), quiet, keep_going, &msg);
     }
-    if summary.wells_failed > 0 && !keep_going {
-        return Err(Error::Partial {
-            failed: summary.wells_failed,
-            total: summary.wells_total,
-            what: "wells",
-        });
-    }
-    Ok(())
+    let summary = field::run(&config, &out, !quiet)?;
+    let msg = format!("outputs in {} (summary: run-summary.json)", out.display());
+    report_wells(&summary.wells, summary.wells_total, quiet, keep_going, &msg)
+}
+
+fn cmd_merge(
+    config_path: &std::path::Path,
+    out: Option<PathBuf>,
+    shards: &[PathBuf],
+    quiet: bool,
+    keep_going: bool,
+) -> Result<(), Error> {
+    let config = Config::load(config_path)?;
+    let out = out_dir(&config, out)?;
+    let summary = crate::shard::merge(&config, &out, shards, !quiet)?;
+    let msg = format!("outputs in {} (summary: run-summary.json)", out.display());
+    report_wells(&summary.wells, summary.wells_total, quiet, keep_going, &msg)
 }
 
 fn cmd_class_stage(

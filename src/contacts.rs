@@ -14,7 +14,7 @@
 //! Units: depths in the project's unit (MD, TVDSS, HAFWL), heights for the
 //! saturation-height model in m, saturation v/v, permeability mD.
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 use crate::config::ContactsConfig;
 use crate::core_set::column;
@@ -24,7 +24,7 @@ use crate::stages::{FLAG_MISSING_INPUT, FLAG_OUT_OF_RANGE, FLAG_OUTSIDE_ZONE};
 use crate::units::DepthUnit;
 
 /// What a step is.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum StepKind {
     /// The rock changes at the step and the saturation-height model predicts it.
@@ -59,7 +59,7 @@ impl StepKind {
 }
 
 /// One saturation step.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct Step {
     pub well: String,
     /// MD and TVDSS of the step (between the last sample above and the first
@@ -88,7 +88,7 @@ pub struct Step {
 }
 
 /// The FWL a well's logs imply.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct ImpliedFwl {
     /// Best fit, TVDSS project depth unit; `None` when the logs only bound it.
     pub fwl_tvdss: Option<f64>,
@@ -106,7 +106,7 @@ pub struct ImpliedFwl {
 }
 
 /// The audit of one well.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct WellAudit {
     pub compartment: String,
     pub steps: Vec<Step>,

@@ -8,7 +8,7 @@
 use std::path::{Path, PathBuf};
 
 use rayon::prelude::*;
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 use crate::config::Config;
 use crate::error::{Error, chain};
@@ -16,7 +16,7 @@ use crate::output::{self, file_stem};
 use crate::well::{self, WellError};
 
 /// What happened to one well.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct WellReport {
     pub file: String,
     pub well: Option<String>,
@@ -95,9 +95,35 @@ pub fn check_out_dir(out: &Path, inputs: &[PathBuf]) -> Result<(), Error> {
     Ok(())
 }
 
-/// Run every well of the config into `out`.
-pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Error> {
-    let started = std::time::SystemTime::now();
+/// What every well of a run shares, made once before the wells: the files
+/// (sorted) and their output stems, the tables, the class model and the
+/// saturation-height model.
+pub struct FieldSetup {
+    pub files: Vec<PathBuf>,
+    /// Output file stem of each file (unique within the field).
+    pub stems: Vec<String>,
+    ctx: well::RunContext,
+    prepared: Option<crate::classify::Prepared>,
+    sat: Option<crate::sat_height::SatHeightModel>,
+}
+
+impl FieldSetup {
+    /// Whether this run trained the class model (rather than loading one).
+    pub fn trained(&self) -> bool {
+        self.prepared.as_ref().is_some_and(|p| p.summary.trained)
+    }
+
+    /// The class and saturation-height models as JSON: equal for runs that
+    /// will give the same results (shards check it against the merge).
+    pub fn fingerprint(&self) -> String {
+        let classes = self.prepared.as_ref().map(|p| &p.summary);
+        serde_json::to_string(&(classes, &self.sat)).unwrap_or_default()
+    }
+}
+
+/// Check the output folder, load the tables, build the class model (or load
+/// it) and the saturation-height model: everything before the wells.
+pub fn setup(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup, Error> {
     let files = config.well_files()?;
     if files.is_empty() {
         return Err(Error::Usage(
@@ -118,40 +144,28 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
     } else {
         None
     };
-    let setup = prepared.as_ref().and_then(|p| p.setup.as_ref());
-    let lookup = DepthLookup {
-        files: &files,
-        ctx: &ctx,
-        cache: std::sync::Mutex::new(std::collections::BTreeMap::new()),
-    };
-    let tvdss_of = |well: &str, md: f64| lookup.tvdss(well, md);
-    let sat = match setup {
-        Some(s) => crate::sat_height::prepare(config, &s.scheme, &tvdss_of)?,
-        None if config.capillary.is_some() => {
-            return Err(Error::Usage(
-                "[capillary] needs a class model: give [classes] with [core] or [predictor] model"
-                    .into(),
-            ));
+    let sat = {
+        let setup = prepared.as_ref().and_then(|p| p.setup.as_ref());
+        let lookup = DepthLookup {
+            files: &files,
+            ctx: &ctx,
+            cache: std::sync::Mutex::new(std::collections::BTreeMap::new()),
+        };
+        let tvdss_of = |well: &str, md: f64| lookup.tvdss(well, md);
+        match setup {
+            Some(s) => crate::sat_height::prepare(config, &s.scheme, &tvdss_of)?,
+            None if config.capillary.is_some() => {
+                return Err(Error::Usage(
+                    "[capillary] needs a class model: give [classes] with [core] or [predictor] model"
+                        .into(),
+                ));
+            }
+            None => None,
         }
-        None => None,
     };
     if let (Some(m), true) = (&sat, progress) {
         report_model(m);
     }
-    let stage = WellStages {
-        ctx: &ctx,
-        classes: setup,
-        sat: sat.as_ref(),
-    };
-    let wells_dir = out.join("wells");
-    let field_dir = out.join("field").join("curves");
-    for d in [&wells_dir, &field_dir] {
-        std::fs::create_dir_all(d).map_err(|source| Error::Io {
-            path: d.clone(),
-            source,
-        })?;
-    }
-
     let mut stems: Vec<String> = files.iter().map(|f| file_stem(&well::stem_of(f))).collect();
     // two inputs with the same stem: suffix the later ones
     for i in 1..stems.len() {
@@ -162,8 +176,41 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
             stems[i] = format!("{base}-{k}");
         }
     }
+    Ok(FieldSetup {
+        files,
+        stems,
+        ctx,
+        prepared,
+        sat,
+    })
+}
 
-    let total = files.len();
+/// Run every well of the config into `out`.
+pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Error> {
+    let started = std::time::SystemTime::now();
+    let setup = setup(config, out, progress)?;
+    let all: Vec<usize> = (0..setup.files.len()).collect();
+    let reports = process_wells(&setup, &all, out, progress)?;
+    finish(config, out, setup, reports, started, Vec::new(), progress)
+}
+
+/// Process the wells `indices` (into `setup.files`) in parallel, writing
+/// their per-well outputs; their reports in the order of `indices`.
+pub fn process_wells(
+    setup: &FieldSetup,
+    indices: &[usize],
+    out: &Path,
+    progress: bool,
+) -> Result<Vec<WellReport>, Error> {
+    let stage = WellStages {
+        ctx: &setup.ctx,
+        classes: setup.prepared.as_ref().and_then(|p| p.setup.as_ref()),
+        sat: setup.sat.as_ref(),
+    };
+    for d in [out.join(WELLS_DIR), out.join(FIELD_CURVES_DIR)] {
+        std::fs::create_dir_all(&d).map_err(|source| Error::Io { path: d, source })?;
+    }
+    let total = indices.len();
     let done = std::sync::atomic::AtomicUsize::new(0);
     // a bar on a terminal, a line per well otherwise, nothing with --quiet
     let bar = (progress && std::io::IsTerminal::is_terminal(&std::io::stderr())).then(|| {
@@ -176,11 +223,11 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         );
         b
     });
-    let reports: Vec<WellReport> = files
+    let reports: Vec<WellReport> = indices
         .par_iter()
-        .zip(stems.par_iter())
-        .map(|(path, stem)| {
-            let report = one_well(path, stem, &stage, &wells_dir, &field_dir);
+        .map(|&i| {
+            let path = &setup.files[i];
+            let report = one_well(path, &setup.stems[i], &stage, out);
             let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
             let status = if report.ok { "ok" } else { "FAILED" };
             match &bar {
@@ -199,15 +246,34 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
     if let Some(b) = bar {
         b.finish_and_clear();
     }
+    Ok(reports)
+}
 
-    let mut reports = reports;
-    let saturation_outputs = match (&sat, setup) {
-        (Some(m), Some(setup)) => {
-            saturation_outputs(config, out, m, setup, &mut reports, progress)?
-        }
+/// Per-well outputs (LAS, CSV, Parquet) under the output folder.
+pub const WELLS_DIR: &str = "wells";
+/// The field table's per-well Parquet parts under the output folder.
+pub const FIELD_CURVES_DIR: &str = "field/curves";
+
+/// After every well: the field-level outputs (saturation-height model and
+/// residuals, contacts, zone summary), the manifest and the run summary.
+/// `reports` are every well's, in the order of `setup.files`; `shards` the
+/// shard runs merged (empty for a single run).
+pub fn finish(
+    config: &Config,
+    out: &Path,
+    setup: FieldSetup,
+    mut reports: Vec<WellReport>,
+    started: std::time::SystemTime,
+    shards: Vec<crate::manifest::ShardRun>,
+    progress: bool,
+) -> Result<RunSummary, Error> {
+    let total = setup.files.len();
+    let class_setup = setup.prepared.as_ref().and_then(|p| p.setup.as_ref());
+    let saturation_outputs = match (&setup.sat, class_setup) {
+        (Some(m), Some(cs)) => saturation_outputs(config, out, m, cs, &mut reports, progress)?,
         _ => Vec::new(),
     };
-    let (contact_view, contact_outputs) = match &sat {
+    let (contact_view, contact_outputs) = match &setup.sat {
         Some(m) => contact_outputs(config, out, m, &reports, progress)?,
         None => (Vec::new(), Vec::new()),
     };
@@ -225,34 +291,34 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
         );
     }
     let failed = reports.iter().filter(|r| !r.ok).count();
+    let mut manifest = crate::manifest::build(config, &setup.files, started, (total, failed));
+    manifest.shards = shards;
     let summary = RunSummary {
         tool: format!("flowzone {}", env!("CARGO_PKG_VERSION")),
         project: config.project.name.clone(),
         wells_total: total,
         wells_failed: failed,
-        classes: prepared.map(|p| p.summary),
-        saturation_height: sat,
+        classes: setup.prepared.map(|p| p.summary),
+        saturation_height: setup.sat,
         saturation_outputs,
         contacts: contact_view,
         contact_outputs,
         wells: reports,
     };
-    let manifest = crate::manifest::build(config, &files, started, (total, failed));
-    let manifest_path = out.join("run-manifest.json");
-    output::write_atomic(&manifest_path, |w| {
-        serde_json::to_writer_pretty(&mut *w, &manifest).map_err(|e| output::OutputError::Io {
-            path: manifest_path.clone(),
-            source: std::io::Error::other(e),
-        })
-    })?;
-    let summary_path = out.join("run-summary.json");
-    output::write_atomic(&summary_path, |w| {
-        serde_json::to_writer_pretty(&mut *w, &summary).map_err(|e| output::OutputError::Io {
-            path: summary_path.clone(),
-            source: std::io::Error::other(e),
-        })
-    })?;
+    write_json(&out.join("run-manifest.json"), &manifest)?;
+    write_json(&out.join("run-summary.json"), &summary)?;
     Ok(summary)
+}
+
+/// Write `value` as pretty JSON through a temporary file.
+fn write_json<T: Serialize>(path: &Path, value: &T) -> Result<(), Error> {
+    output::write_atomic(path, |w| {
+        serde_json::to_writer_pretty(&mut *w, value).map_err(|e| output::OutputError::Io {
+            path: path.to_path_buf(),
+            source: std::io::Error::other(e),
+        })
+    })?;
+    Ok(())
 }
 
 /// The field-level saturation-height outputs: marks wells whose residuals
@@ -308,7 +374,7 @@ fn saturation_outputs(
     };
     let written = crate::sat_height::write_outputs(out, &export, &listed)?
         .iter()
-        .map(|p| p.display().to_string())
+        .map(|p| output::shown(out, p))
         .collect::<Vec<String>>();
     for (well, msg) in marked {
         if progress {
@@ -343,7 +409,7 @@ fn contact_outputs(
     let contact_outputs =
         crate::contacts::write_outputs(out, &steps, &contact_view, config.project.depth_unit)?
             .iter()
-            .map(|p| p.display().to_string())
+            .map(|p| output::shown(out, p))
             .collect();
     if progress {
         for v in &contact_view {
@@ -467,13 +533,9 @@ fn report_model(m: &crate::sat_height::SatHeightModel) {
     }
 }
 
-fn one_well(
-    path: &Path,
-    stem: &str,
-    stage: &WellStages<'_>,
-    dir: &Path,
-    field_dir: &Path,
-) -> WellReport {
+fn one_well(path: &Path, stem: &str, stage: &WellStages<'_>, out: &Path) -> WellReport {
+    let dir = out.join(WELLS_DIR);
+    let field_dir = out.join(FIELD_CURVES_DIR);
     let ctx = stage.ctx;
     let setup = stage.classes;
     let config = &ctx.config;
@@ -536,8 +598,10 @@ fn one_well(
             .collect();
         for &format in &config.output.formats {
             let p =
-                output::write_table(&out.table, dir, stem, format, Some(config.output.decimals))?;
-            report.outputs.push(p.display().to_string());
+                output::write_table(&out.table, &dir, stem, format, Some(config.output.decimals))?;
+            report
+                .outputs
+                .push(format!("{WELLS_DIR}/{}", file_name(&p)));
         }
         let nan = vec![f64::NAN; out.table.n_rows()];
         let get = |n: &str| out.column(n).unwrap_or(&nan);
@@ -555,7 +619,9 @@ fn one_well(
         );
         let part = field_dir.join(format!("{stem}.parquet"));
         output::write_field_part(&out.table, &out.name, &part)?;
-        report.outputs.push(part.display().to_string());
+        report
+            .outputs
+            .push(format!("{FIELD_CURVES_DIR}/{}", file_name(&part)));
         Ok(())
     })();
     match result {
@@ -563,4 +629,11 @@ fn one_well(
         Err(e) => report.error = Some(chain(&e)),
     }
     report
+}
+
+/// The last part of a path, as text.
+fn file_name(p: &Path) -> String {
+    p.file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default()
 }

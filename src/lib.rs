@@ -57,6 +57,7 @@ pub mod predictor;
 pub mod pressure;
 pub mod sat_height;
 pub mod saturation;
+pub mod shard;
 pub mod stages;
 pub mod summary;
 pub mod synth;

@@ -45,6 +45,26 @@ pub struct Manifest {
     pub inputs: Vec<InputFile>,
     pub wells_total: usize,
     pub wells_failed: usize,
+    /// The shard runs a `flowzone merge` combined (absent for a single run).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub shards: Vec<ShardRun>,
+}
+
+/// One shard run (`run --shard K/N`) as the merge's manifest records it.
+#[derive(Debug, Clone, Serialize, serde::Deserialize, PartialEq)]
+pub struct ShardRun {
+    /// K of K/N (1-based) and N.
+    pub shard: usize,
+    pub of: usize,
+    pub wells: usize,
+    pub wells_failed: usize,
+    pub command: Vec<String>,
+    /// Machine the shard ran on (the HOSTNAME environment variable; empty when unset).
+    pub host: String,
+    pub threads: usize,
+    pub started_utc: String,
+    pub finished_utc: String,
+    pub seconds: f64,
 }
 
 /// SHA-256 and size of a file, read in 1 MiB blocks.
@@ -139,6 +159,7 @@ pub fn build(
         inputs,
         wells_total: counts.0,
         wells_failed: counts.1,
+        shards: Vec::new(),
     }
 }
 

@@ -157,6 +157,16 @@ pub fn write_frame_parquet(df: &mut DataFrame, path: &Path) -> Result<(), Output
     })
 }
 
+/// A tag no other writer uses at the same time: several processes may write
+/// the same final file at once (shards on a shared folder, containers that
+/// all run as pid 1), and threads of one process may too.
+fn temp_tag() -> String {
+    use std::sync::atomic::{AtomicU64, Ordering};
+    static COUNTER: AtomicU64 = AtomicU64::new(0);
+    let n = COUNTER.fetch_add(1, Ordering::Relaxed);
+    format!("{}-{n}-{:016x}", std::process::id(), rand::random::<u64>())
+}
+
 /// Write `path` through a temporary file in the same folder, renamed when done.
 pub fn write_atomic(
     path: &Path,
@@ -174,7 +184,7 @@ pub fn write_atomic(
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_default();
-    let tmp = dir.join(format!(".{name}.partial-{}", std::process::id()));
+    let tmp = dir.join(format!(".{name}.partial-{}", temp_tag()));
     let file = File::create(&tmp).map_err(io)?;
     let mut out = BufWriter::new(file);
     let result = write(&mut out).and_then(|()| out.flush().map_err(io));
@@ -342,6 +352,13 @@ pub fn write_table(
         Format::Las => write_las(table, &path, decimals)?,
     }
     Ok(path)
+}
+
+/// How an output path is shown in summaries and reports: relative to the
+/// output folder when it is inside it (so a run's reports do not depend on
+/// where the folder is, and shard outputs merge byte for byte).
+pub fn shown(out: &Path, path: &Path) -> String {
+    path.strip_prefix(out).unwrap_or(path).display().to_string()
 }
 
 /// A file name from a well name: lower case, letters, digits, `-` and `_`.

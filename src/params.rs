@@ -206,8 +206,12 @@ fn class_key(prefix: &str, k: &str) -> Result<u8, (String, String)> {
     }
 }
 
+fn default_archie() -> ArchieParams {
+    ArchieParams::DEFAULT
+}
+
 /// Parameters of one well and zone with every default filled in.
-#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct ZoneParams {
     pub gr_clean_gapi: Option<f64>,
     pub gr_shale_gapi: Option<f64>,
@@ -227,7 +231,9 @@ pub struct ZoneParams {
     pub rw_temperature_c: Option<f64>,
     pub surface_temperature_c: f64,
     pub geothermal_gradient_c_per_m: Option<f64>,
-    #[serde(skip)]
+    /// Not in the summary (written with the class table); a merged shard
+    /// report gets the default here, never read after the wells are done.
+    #[serde(skip, default = "default_archie")]
     pub archie: ArchieParams,
     pub saturation_model: SaturationModel,
     pub rsh_ohmm: Option<f64>,

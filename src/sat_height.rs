@@ -17,7 +17,7 @@
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 use crate::capillary::{FluidSystem, leverett_j, pc_at_height_psi, sigma_cos};
 use crate::capillary_data::{self, CapSample, J_FORM_CRITERION, JCurve, JFit};
@@ -113,7 +113,7 @@ pub struct SatHeightModel {
 }
 
 /// Mean and RMS of SW − SWH over some depths.
-#[derive(Debug, Clone, Default, Serialize, PartialEq)]
+#[derive(Debug, Clone, Default, Serialize, PartialEq, Deserialize)]
 pub struct Residual {
     pub samples: usize,
     pub mean: f64,
@@ -139,7 +139,7 @@ impl Residual {
 }
 
 /// The saturation-height result of one well.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct WellSatHeight {
     pub compartment: String,
     /// FWL used, TVDSS project depth unit.

@@ -11,7 +11,7 @@
 //! [`simandoux_1963`], [`indonesia`].
 
 /// Archie parameters at one depth.
-#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct ArchieParams {
     /// Tortuosity factor a.
     pub a: f64,

@@ -11,7 +11,7 @@
 //! only applies them, clips to physical bounds (counting every clip) and
 //! flags. No allocation per sample: one output vector per curve.
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 use crate::params::{PorosityMethod, ZoneParams};
 use crate::petro::porosity::{
@@ -63,7 +63,7 @@ pub struct Inputs<'a> {
 }
 
 /// One zone as the chain sees it: resolved parameters and the gamma-ray picks.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct ZoneSetup {
     pub name: String,
     pub params: ZoneParams,
@@ -77,7 +77,7 @@ pub struct ZoneSetup {
 }
 
 /// What the chain clipped, flagged and could not define.
-#[derive(Debug, Clone, Default, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, Default, PartialEq, Eq, Serialize, Deserialize)]
 pub struct Counts {
     pub samples: usize,
     pub vsh_clipped: usize,

@@ -262,7 +262,7 @@ fn hydrocarbon_pore_thickness(phie: f64, sw: f64, h: f64) -> f64 {
 
 /// One zone of one well: thicknesses in the project's depth unit, measured
 /// along the hole (MD); porosity and saturation in v/v.
-#[derive(Debug, Clone, Serialize, PartialEq)]
+#[derive(Debug, Clone, Serialize, PartialEq, Deserialize)]
 pub struct ZoneSummary {
     pub well: String,
     pub zone: String,

@@ -8,7 +8,7 @@
 
 use std::path::{Path, PathBuf};
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 use crate::config::Config;
 use crate::curves::{self, CurveError, LogicalCurve, ResolvedCurve};
@@ -47,7 +47,7 @@ pub enum WellError {
 }
 
 /// What the stages did to a well, for the run summary.
-#[derive(Debug, Clone, Serialize, Default)]
+#[derive(Debug, Clone, Serialize, Default, Deserialize)]
 pub struct WellReport {
     /// Elevation of the depth reference above sea level (project depth unit) and where it came from.
     pub elevation: Option<f64>,
@@ -60,7 +60,7 @@ pub struct WellReport {
 }
 
 /// What the class-dependent exponents did in a well.
-#[derive(Debug, Clone, Serialize, Default)]
+#[derive(Debug, Clone, Serialize, Default, Deserialize)]
 pub struct ClassExponentCounts {
     /// Interpreted depths without a class: the zone's exponents (FLAG 64).
     pub no_class: usize,

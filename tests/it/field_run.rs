@@ -60,6 +60,132 @@ fn outputs_do_not_depend_on_the_thread_count() {
     }
 }
 
+#[track_caller]
+fn ok(run: &std::process::Output) {
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+}
+
+/// `merge --quiet --config CFG --out OUT [DIRS...]`.
+fn merge(cfg: &Path, out: &Path, dirs: &[PathBuf]) -> std::process::Output {
+    crate::common::flowzone()
+        .args(["merge", "--quiet", "--config"])
+        .arg(cfg)
+        .arg("--out")
+        .arg(out)
+        .args(dirs)
+        .output()
+        .expect("runs")
+}
+
+/// Sharding: the demo field in 3 shards (each its own folder, as on three
+/// machines) + merge gives the single run's files byte for byte, and so do 3
+/// shards into one shared folder; every well is in exactly one shard; a
+/// missing shard or a changed config is refused by name.
+#[test]
+fn three_shards_and_merge_equal_one_run() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let cfg = root().join("config/demo-field.toml");
+    let one = dir.path().join("one");
+    ok(&run_config(&cfg, &one, &[]));
+    let single = files(&one);
+
+    let shard_dirs: Vec<PathBuf> = (1..=3).map(|k| dir.path().join(format!("s{k}"))).collect();
+    let mut wells_seen = Vec::new();
+    for (k, d) in shard_dirs.iter().enumerate() {
+        ok(&run_config(&cfg, d, &["--shard", &format!("{}/3", k + 1)]));
+        assert!(
+            d.join(format!("shards/shard-{}-of-3.state", k + 1))
+                .is_file()
+        );
+        assert!(
+            !d.join("run-summary.json").exists(),
+            "a shard writes no field-level outputs"
+        );
+        for e in std::fs::read_dir(d.join("wells")).expect("wells") {
+            wells_seen.push(e.expect("entry").file_name());
+        }
+    }
+    let n_wells = std::fs::read_dir(one.join("wells")).expect("wells").count();
+    wells_seen.sort();
+    let before = wells_seen.len();
+    wells_seen.dedup();
+    assert_eq!(
+        (before, wells_seen.len()),
+        (n_wells, n_wells),
+        "each well in one shard"
+    );
+    for d in &shard_dirs {
+        let k = std::fs::read_dir(d.join("wells")).expect("wells").count();
+        assert!(
+            k > 0 && k < n_wells,
+            "{} holds {k} of {n_wells} well files",
+            d.display()
+        );
+    }
+
+    let merged = dir.path().join("merged");
+    ok(&merge(&cfg, &merged, &shard_dirs));
+    let got = files(&merged);
+    assert_eq!(
+        single.keys().collect::<Vec<_>>(),
+        got.keys().collect::<Vec<_>>()
+    );
+    for (k, v) in &single {
+        assert!(
+            got[k] == *v,
+            "{} differs between one run and 3 shards + merge",
+            k.display()
+        );
+    }
+    let manifest: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(merged.join("run-manifest.json")).expect("manifest"))
+            .expect("json");
+    let shards = manifest["shards"].as_array().expect("shards listed");
+    assert_eq!(shards.len(), 3);
+    assert_eq!(
+        shards
+            .iter()
+            .map(|s| s["wells"].as_u64().expect("wells"))
+            .sum::<u64>(),
+        manifest["wells_total"].as_u64().expect("total")
+    );
+
+    // one shared folder: the shards' states stay beside the outputs
+    let shared = dir.path().join("shared");
+    for k in 1..=3 {
+        ok(&run_config(&cfg, &shared, &["--shard", &format!("{k}/3")]));
+    }
+    ok(&merge(&cfg, &shared, &[]));
+    let got: BTreeMap<PathBuf, Vec<u8>> = files(&shared)
+        .into_iter()
+        .filter(|(k, _)| !k.starts_with("shards"))
+        .collect();
+    assert_eq!(
+        single.keys().collect::<Vec<_>>(),
+        got.keys().collect::<Vec<_>>()
+    );
+    for (k, v) in &single {
+        assert!(got[k] == *v, "{} differs (shared folder)", k.display());
+    }
+
+    // refusals: a missing shard, a config changed after the shards ran
+    let run = merge(&cfg, &dir.path().join("m2"), &shard_dirs[..2]);
+    assert!(!run.status.success());
+    let err = String::from_utf8_lossy(&run.stderr);
+    assert!(err.contains("3/3 missing"), "{err}");
+    let edited = crate::common::demo_config_edited(dir.path(), |t| {
+        t.replace("decimals = 4", "decimals = 5")
+    });
+    let run = merge(&edited, &dir.path().join("m3"), &shard_dirs);
+    assert!(!run.status.success());
+    let err = String::from_utf8_lossy(&run.stderr);
+    assert!(err.contains("another config"), "{err}");
+}
+
 /// The field table: one Parquet file per well with one schema (WELL, then
 /// the computed curves), its rows those of the well's CSV; the manifest
 /// hashes every input (checked against coreutils `sha256sum`).
