@@ -1,6 +1,7 @@
-//! LAS read throughput (criterion): a generated LAS 2.0 file of about 30 MB,
-//! 200 000 depth steps by 12 curves written `%12.5f`-style with about 0.1 %
-//! NULLs, parsed from memory, so the figure is the parser's, not the disk's.
+//! LAS read and write throughput (criterion): a generated LAS 2.0 file of
+//! about 30 MB, 200 000 depth steps by 12 curves written `%12.5f`-style with
+//! about 0.1 % NULLs, parsed from memory and written back to memory with 5
+//! decimals, so the figures are the parser's and the writer's, not the disk's.
 //! `benches/lasio_read.py` times lasio on the same file for comparison.
 //!
 //! Run: `cargo bench --bench las_read`; the generated file is left at
@@ -10,7 +11,7 @@ use std::hint::black_box;
 use std::path::Path;
 
 use criterion::{Criterion, Throughput, criterion_group, criterion_main};
-use flowzone::las::{ReadOptions, read_bytes};
+use flowzone::las::{ReadOptions, read_bytes, writer};
 
 const ROWS: usize = 200_000;
 const CURVES: usize = 12;
@@ -66,6 +67,22 @@ fn bench(c: &mut Criterion) {
             )
             .expect("benchmark input should be valid");
             black_box(f.columns.len())
+        })
+    });
+    group.finish();
+
+    let file = read_bytes(&bytes, Path::new("bench.las"), ReadOptions::default())
+        .expect("benchmark input should be valid");
+    let decimals = vec![5; file.columns.len()];
+    let mut group = c.benchmark_group("las_write");
+    group.throughput(Throughput::Bytes(bytes.len() as u64));
+    group.sample_size(20);
+    group.bench_function("write_las_30mb", |b| {
+        let mut out = Vec::with_capacity(bytes.len() + (1 << 20));
+        b.iter(|| {
+            out.clear();
+            writer::write_las(&mut out, black_box(&file), &decimals).expect("in memory");
+            black_box(out.len())
         })
     });
     group.finish();

@@ -10,6 +10,10 @@ fn every_command_has_help() {
         &["inspect", "--help"],
         &["export", "--help"],
         &["run", "--help"],
+        &["merge", "--help"],
+        &["core", "--help"],
+        &["train", "--help"],
+        &["classes", "compare", "--help"],
         &["demo", "--help"],
     ] {
         let out = flowzone().args(cmd).output().expect("runs");
@@ -208,6 +212,78 @@ fn run_isolates_a_bad_well() {
     assert!(out_dir.path().join("wells/a.las").is_file());
     let keep = run_config(&cfg, out_dir.path(), &["--keep-going"]);
     assert_eq!(keep.status.code(), Some(0));
+}
+
+/// Output files are named from sanitised file stems, never from the WELL
+/// header: wells called `../../escape` and `/tmp/abs`, and a file named
+/// `...las`, write only inside the output folder, keep their names as data,
+/// and leave the input folder untouched.
+#[test]
+fn hostile_well_names_stay_inside_the_output_folder() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let input = dir.path().join("in");
+    std::fs::create_dir(&input).expect("in");
+    let text = std::fs::read_to_string(root().join("demo-wells/tarnby-1.las")).expect("las");
+    let named = |well: &str| {
+        let t = text.replacen("Tarnby-1", well, 1);
+        assert!(t.contains(well));
+        t
+    };
+    std::fs::write(input.join("a.las"), named("../../escape")).expect("write");
+    std::fs::write(input.join("b.las"), named("/tmp/abs")).expect("write");
+    std::fs::write(input.join("...las"), named("dots")).expect("write");
+    let cfg = dir.path().join("project.toml");
+    std::fs::write(
+        &cfg,
+        "[project]\nname = \"t\"\n[input]\nwells = [\"in\"]\n[output]\nformats = [\"las\", \"csv\", \"parquet\"]\n[parameters.field]\nrw-ohmm = 0.045\nrho-shale-gcc = 2.55\n",
+    )
+    .expect("config");
+    let out = dir.path().join("out");
+    let run = run_config(&cfg, &out, &[]);
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+
+    let names = |d: &std::path::Path| {
+        let mut v: Vec<String> = std::fs::read_dir(d)
+            .expect("list")
+            .map(|e| e.expect("entry").file_name().to_string_lossy().into_owned())
+            .collect();
+        v.sort();
+        v
+    };
+    assert_eq!(names(dir.path()), ["in", "out", "project.toml"]);
+    assert_eq!(names(&input), ["...las", "a.las", "b.las"]);
+    assert_eq!(
+        names(&out),
+        ["field", "run-manifest.json", "run-summary.json", "wells"]
+    );
+    assert_eq!(
+        names(&out.join("wells")),
+        [
+            "a.csv",
+            "a.las",
+            "a.parquet",
+            "b.csv",
+            "b.las",
+            "b.parquet",
+            "well.csv",
+            "well.las",
+            "well.parquet"
+        ]
+    );
+    let summary: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
+            .expect("json");
+    let wells: Vec<&str> = summary["wells"]
+        .as_array()
+        .expect("wells")
+        .iter()
+        .map(|w| w["well"].as_str().expect("name"))
+        .collect();
+    assert_eq!(wells, ["dots", "../../escape", "/tmp/abs"]);
 }
 
 /// Rw carried to formation temperature with the gradient from the header's

@@ -186,6 +186,72 @@ fn three_shards_and_merge_equal_one_run() {
     assert!(err.contains("another config"), "{err}");
 }
 
+/// The Slurm example (deploy/slurm) run here without Slurm: the scripts are
+/// plain bash with `#SBATCH` comments, so setting the array variables Slurm
+/// sets runs them as the cluster would. Train once, 3 shard tasks that load
+/// the model (none trains), merge: the same files as a single run with that
+/// config.
+#[test]
+fn slurm_example_scripts_run_the_field() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("shared");
+    let model = out.join("model-run/model/class-model.fzm");
+    let cfg = crate::common::demo_config_edited(dir.path(), |t| {
+        t.replace(
+            "[predictor]\n",
+            &format!("[predictor]\nmodel = \"{}\"\n", model.display()),
+        )
+    });
+    let script = |name: &str, env: &[(&str, String)]| {
+        let run = std::process::Command::new("bash")
+            .arg(root().join("deploy/slurm").join(name))
+            .env("FLOWZONE", env!("CARGO_BIN_EXE_flowzone"))
+            .env("CONFIG", &cfg)
+            .env("OUT", &out)
+            .envs(env.iter().map(|(k, v)| (*k, v.as_str())))
+            .output()
+            .expect("bash runs");
+        ok(&run);
+        String::from_utf8_lossy(&run.stderr).into_owned()
+    };
+    script("train.sbatch", &[]);
+    assert!(model.is_file());
+    for k in 1..=3 {
+        let err = script(
+            "shard.sbatch",
+            &[
+                ("SLURM_ARRAY_TASK_ID", k.to_string()),
+                ("SLURM_ARRAY_TASK_COUNT", "3".into()),
+                ("SLURM_CPUS_PER_TASK", "1".into()),
+            ],
+        );
+        assert!(!err.contains("trained the class model"), "{err}");
+    }
+    script("merge.sbatch", &[]);
+    let merged = out.join("field-run");
+    let summary: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(merged.join("run-summary.json")).expect("summary"))
+            .expect("json");
+    assert_eq!(summary["wells_total"], 8);
+    assert_eq!(summary["wells_failed"], 0);
+    assert_eq!(summary["classes"]["trained"], false);
+
+    let one = dir.path().join("one");
+    ok(&run_config(&cfg, &one, &[]));
+    let single = files(&one);
+    let got: BTreeMap<PathBuf, Vec<u8>> = files(&merged)
+        .into_iter()
+        .filter(|(k, _)| !k.starts_with("shards"))
+        .collect();
+    assert_eq!(
+        single.keys().collect::<Vec<_>>(),
+        got.keys().collect::<Vec<_>>()
+    );
+    for (k, v) in &single {
+        assert!(got[k] == *v, "{} differs (Slurm example)", k.display());
+    }
+}
+
 /// The field table: one Parquet file per well with one schema (WELL, then
 /// the computed curves), its rows those of the well's CSV; the manifest
 /// hashes every input (checked against coreutils `sha256sum`).
