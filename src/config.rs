@@ -145,6 +145,13 @@ pub struct Output {
     /// Decimals written for computed curves in CSV and LAS. Default 4.
     #[serde(default = "default_decimals")]
     pub decimals: usize,
+    /// Write the HTML report (report/index.html and a page per well). Default true.
+    #[serde(default = "default_report")]
+    pub report: bool,
+}
+
+fn default_report() -> bool {
+    true
 }
 
 fn default_formats() -> Vec<Format> {
@@ -161,6 +168,7 @@ impl Default for Output {
             dir: None,
             formats: default_formats(),
             decimals: default_decimals(),
+            report: default_report(),
         }
     }
 }

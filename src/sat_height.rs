@@ -89,6 +89,9 @@ pub struct CompartmentFwl {
     /// "config" or "pressure gradients".
     pub density_source: String,
     pub points_used: usize,
+    /// The pressure points used, (TVDSS m, psi), for the report's plot.
+    #[serde(skip)]
+    pub points_m: Vec<(f64, f64)>,
 }
 
 /// The field's saturation-height model.
@@ -110,6 +113,10 @@ pub struct SatHeightModel {
     pub compartments: Vec<CompartmentFwl>,
     #[serde(skip)]
     depth_unit: DepthUnit,
+    /// The plugs' (class, Sw v/v, J) points, for the report's J-function plot
+    /// (not in the summary: the fits above summarise them).
+    #[serde(skip)]
+    pub j_points: Vec<(u8, f64, f64)>,
 }
 
 /// Mean and RMS of SW − SWH over some depths.
@@ -237,6 +244,7 @@ pub fn prepare(
 
     // a J-function per class that has plugs
     let mut own: BTreeMap<u8, (JFit, Vec<String>, usize)> = BTreeMap::new();
+    let mut j_points = Vec::new();
     for c in 1..=class_count {
         let members: Vec<&CapSample> = samples
             .iter()
@@ -252,6 +260,7 @@ pub fn prepare(
             .flat_map(|s| s.j.iter().zip(&s.steps).map(|(j, st)| (*j, st.1)))
             .collect();
         let names: Vec<String> = members.iter().map(|s| s.sample.clone()).collect();
+        j_points.extend(pts.iter().map(|&(j, sw)| (c, sw, j)));
         let fit = capillary_data::fit_j_curve(&pts).map_err(|m| {
             usage(format!(
                 "capillary class {c} (plugs {}): the J-function fit failed: {m}",
@@ -338,6 +347,7 @@ pub fn prepare(
         pressure_points_left_out,
         compartments,
         depth_unit: config.project.depth_unit,
+        j_points,
     }))
 }
 
@@ -546,6 +556,7 @@ fn compartments(
             rho_hc_gcc: rho_hc,
             density_source: density_source.into(),
             points_used: pts.len(),
+            points_m: pts,
             name,
         });
     }
@@ -587,6 +598,7 @@ impl SatHeightModel {
             pressure_points_left_out: Vec::new(),
             compartments,
             depth_unit,
+            j_points: Vec::new(),
         }
     }
 

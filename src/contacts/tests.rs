@@ -37,6 +37,7 @@ fn comp(fwl: f64, rho_water: f64, rho_hc: f64) -> CompartmentFwl {
         rho_hc_gcc: rho_hc,
         density_source: "config".into(),
         points_used: 0,
+        points_m: Vec::new(),
     }
 }
 

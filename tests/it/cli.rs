@@ -258,7 +258,17 @@ fn hostile_well_names_stay_inside_the_output_folder() {
     assert_eq!(names(&input), ["...las", "a.las", "b.las"]);
     assert_eq!(
         names(&out),
-        ["field", "run-manifest.json", "run-summary.json", "wells"]
+        [
+            "field",
+            "report",
+            "run-manifest.json",
+            "run-summary.json",
+            "wells"
+        ]
+    );
+    assert_eq!(
+        names(&out.join("report/wells")),
+        ["a.html", "b.html", "well.html"]
     );
     assert_eq!(
         names(&out.join("wells")),

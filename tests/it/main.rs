@@ -27,6 +27,8 @@ mod las_rs_oracle;
 mod lasio_interop;
 /// The real, openly licensed files in ../shared/las-samples, against lasio.
 mod real_files;
+/// The HTML report opened by headless chromium: no console output, every plot rendered.
+mod report;
 /// Class-aware SW, J-functions, FWL per compartment and SWH on the demo field; failed fits.
 mod sat_height;
 /// `run` on the demo field recovers the forward model's truth within stated tolerances.

@@ -1,0 +1,563 @@
+//! The HTML report: `report/index.html` (the field page) and
+//! `report/wells/<stem>.html` (a page per well).
+//!
+//! A well's page is written while the well is in memory (its log plot,
+//! Pickett plot, zone summary, contact steps and warnings), so the report
+//! adds no second pass over the logs; the field page is written after every
+//! well (wells table, crossplots, contacts, zone summary, the run's key
+//! facts). Pages are self-contained: plots are inline SVG, styles inline, no
+//! scripts, fonts or anything else from the network. Every page carries the
+//! interpretation caution.
+
+use std::fmt::Write as _;
+use std::path::Path;
+
+use crate::output::{self, OutputError, Table};
+use crate::plots::{self, ArchieLine, Boundaries, CorePoint, JClass, PickettPoint, WellCurves};
+use crate::svg::escape;
+
+/// Folder of the report under the output folder.
+pub const REPORT_DIR: &str = "report";
+
+/// The caution every page carries.
+pub const CAUTION: &str = "Interpretations inform reserves and well decisions. These results come from an automated batch and must be reviewed by a qualified petrophysicist, and used under local regulation and licensed practice.";
+
+/// Most rows of a table on the field page; the CSV files hold them all.
+pub const MAX_TABLE_ROWS: usize = 500;
+
+/// Most points per well on the Pickett plot.
+const PICKETT_POINTS_PER_WELL: usize = 1500;
+
+const STYLE: &str = "body{font-family:sans-serif;margin:1.5em;color:#222;max-width:1400px}\
+h1{font-size:1.5em}h2{font-size:1.2em;margin-top:1.6em}\
+.caution{border:2px solid #D55E00;background:#fff4ec;padding:.6em 1em;margin:1em 0}\
+table{border-collapse:collapse;font-size:.85em;margin:.5em 0}\
+th,td{border:1px solid #ccc;padding:.2em .5em;text-align:left}\
+th{background:#f2f2f2}td.num{text-align:right}\
+.failed{color:#D55E00;font-weight:bold}.plots{display:flex;flex-wrap:wrap;gap:1em}\
+.plot{border:1px solid #ddd}.note{color:#555;font-size:.9em}";
+
+/// Open an HTML page: doctype, title, inline style, the caution.
+fn page_start(title: &str, h1: &str) -> String {
+    let mut h = String::with_capacity(64 << 10);
+    let _ = write!(
+        h,
+        "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>{}</title><style>{STYLE}</style></head><body>\n<h1>{}</h1>\n<p class=\"caution\" id=\"caution\"><strong>Caution.</strong> {}</p>\n",
+        escape(title),
+        escape(h1),
+        escape(CAUTION)
+    );
+    h
+}
+
+fn page_end(h: &mut String) {
+    let _ = write!(
+        h,
+        "<p class=\"note\">Made by flowzone {}.</p>\n</body></html>\n",
+        env!("CARGO_PKG_VERSION")
+    );
+}
+
+/// A table cell.
+enum Cell {
+    Text(String),
+    Num(String),
+    /// Already-escaped HTML (links).
+    Html(String),
+}
+
+/// A table: header cells (none: no header row) and rows of cells, text escaped.
+fn table(h: &mut String, class: &str, head: &[&str], rows: &[Vec<Cell>]) {
+    let _ = write!(h, "<table class=\"{}\">", escape(class));
+    if !head.is_empty() {
+        h.push_str("<thead><tr>");
+        for c in head {
+            let _ = write!(h, "<th>{}</th>", escape(c));
+        }
+        h.push_str("</tr></thead>");
+    }
+    h.push_str("<tbody>");
+    for r in rows {
+        h.push_str("<tr>");
+        for cell in r {
+            let _ = match cell {
+                Cell::Text(t) => write!(h, "<td>{}</td>", escape(t)),
+                Cell::Num(t) => write!(h, "<td class=\"num\">{}</td>", escape(t)),
+                Cell::Html(t) => write!(h, "<td>{t}</td>"),
+            };
+        }
+        h.push_str("</tr>");
+    }
+    h.push_str("</tbody></table>\n");
+}
+
+fn fmt(v: f64, d: usize) -> Cell {
+    Cell::Num(if v.is_finite() {
+        format!("{v:.d$}")
+    } else {
+        String::new()
+    })
+}
+
+fn text(s: impl Into<String>) -> Cell {
+    Cell::Text(s.into())
+}
+
+fn count(n: usize) -> Cell {
+    Cell::Num(n.to_string())
+}
+
+fn plot(h: &mut String, svg: &str) {
+    h.push_str("<div class=\"plot\">");
+    h.push_str(svg.trim_end());
+    h.push_str("</div>\n");
+}
+
+/// What a well page shows besides the table's curves.
+pub struct WellPage<'a> {
+    pub stem: &'a str,
+    pub well: &'a str,
+    pub file: &'a str,
+    pub depth_unit: &'a str,
+    pub table: &'a Table,
+    pub zone_marks: Vec<plots::ZoneMark>,
+    pub zones: &'a [crate::summary::ZoneSummary],
+    pub steps: &'a [crate::contacts::Step],
+    pub implied_fwl: Option<&'a crate::contacts::ImpliedFwl>,
+    pub fwl_tvdss: Option<f64>,
+    pub class_count: u8,
+    pub archie: Vec<ArchieLine>,
+    /// Median Rw of the well's depths, ohm.m.
+    pub rw_ohmm: f64,
+    pub warnings: &'a [String],
+}
+
+/// The column `name` of a table.
+fn column<'a>(t: &'a Table, name: &str) -> Option<&'a [f64]> {
+    t.columns
+        .iter()
+        .find(|c| c.name == name)
+        .map(|c| c.values.as_slice())
+}
+
+/// Up to `max` (PHIE, RT, CLASS) points of a well, evenly strided.
+pub fn pickett_points(t: &Table, max: usize) -> Vec<PickettPoint> {
+    let (Some(phi), Some(rt), Some(class)) =
+        (column(t, "PHIE"), column(t, "RT"), column(t, "CLASS"))
+    else {
+        return Vec::new();
+    };
+    let all: Vec<PickettPoint> = phi
+        .iter()
+        .zip(rt)
+        .zip(class)
+        .filter(|((p, r), c)| **p > 0.0 && **r > 0.0 && c.is_finite() && **c >= 1.0)
+        .map(|((p, r), c)| PickettPoint {
+            phi: *p,
+            rt: *r,
+            class: c.round().clamp(1.0, 255.0) as u8,
+        })
+        .collect();
+    let stride = all.len().div_ceil(max.max(1)).max(1);
+    all.into_iter().step_by(stride).collect()
+}
+
+/// Write a well's page; returns its path relative to `out`.
+pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<String, OutputError> {
+    let dir = out.join(REPORT_DIR).join("wells");
+    std::fs::create_dir_all(&dir).map_err(|source| OutputError::Io {
+        path: dir.clone(),
+        source,
+    })?;
+    let t = p.table;
+    let md = column(t, "DEPTH").unwrap_or(&[]);
+    let mut curves = std::collections::BTreeMap::new();
+    for name in [
+        "GR",
+        "VSH",
+        "RT",
+        "RHOB",
+        "NPHI",
+        "PHIT",
+        "PHIE",
+        "CLASS",
+        "CLASS_PROB",
+        "SW",
+        "SWH",
+        "SW_FIXED",
+        "FLAG",
+    ] {
+        if let Some(c) = column(t, name) {
+            curves.insert(name, c);
+        }
+    }
+    let curves_in = WellCurves {
+        well: p.well,
+        depth_unit: p.depth_unit,
+        md,
+        tvdss: column(t, "TVDSS"),
+        curves,
+        zones: p.zone_marks.clone(),
+        steps: p
+            .steps
+            .iter()
+            .map(|s| plots::StepMark {
+                md: s.depth_md,
+                kind: s.kind.name().to_string(),
+                explanation: s.explanation.clone(),
+            })
+            .collect(),
+        fwl_tvdss: p.fwl_tvdss,
+        class_count: p.class_count,
+    };
+    let mut h = page_start(&format!("{} — flowzone", p.well), p.well);
+    let _ = writeln!(
+        h,
+        "<p><a href=\"../index.html\">Field page</a> · file <code>{}</code> · {} depths</p>",
+        escape(p.file),
+        md.len()
+    );
+    if !p.warnings.is_empty() {
+        h.push_str("<h2>Warnings</h2><ul class=\"warnings\">");
+        for w in p.warnings {
+            let _ = write!(h, "<li>{}</li>", escape(w));
+        }
+        h.push_str("</ul>\n");
+    }
+    h.push_str("<h2>Zones</h2>\n");
+    let rows: Vec<Vec<Cell>> = p
+        .zones
+        .iter()
+        .map(|z| {
+            vec![
+                text(&z.zone),
+                fmt(z.top_md, 2),
+                fmt(z.base_md, 2),
+                fmt(z.gross, 2),
+                fmt(z.net_reservoir, 2),
+                fmt(z.net_pay, 2),
+                fmt(z.ntg, 3),
+                fmt(z.phie_avg, 3),
+                fmt(z.sw_avg, 3),
+                fmt(z.hpt, 3),
+            ]
+        })
+        .collect();
+    let u = p.depth_unit;
+    table(
+        &mut h,
+        "zones",
+        &[
+            "zone",
+            &format!("top MD {u}"),
+            &format!("base MD {u}"),
+            &format!("gross {u}"),
+            &format!("net reservoir {u}"),
+            &format!("net pay {u}"),
+            "NTG",
+            "PHIE avg",
+            "SW avg",
+            &format!("HPT {u}"),
+        ],
+        &rows,
+    );
+    h.push_str("<h2>Saturation steps</h2>\n");
+    if let Some(f) = p.implied_fwl {
+        let _ = writeln!(h, "<p>{}</p>", escape(&f.note));
+    }
+    if p.steps.is_empty() {
+        h.push_str("<p class=\"note\">No saturation step audited in this well.</p>\n");
+    } else {
+        let rows: Vec<Vec<Cell>> = p
+            .steps
+            .iter()
+            .map(|s| {
+                vec![
+                    fmt(s.depth_md, 2),
+                    fmt(s.tvdss, 2),
+                    text(s.kind.name()),
+                    fmt(s.sw_above, 3),
+                    fmt(s.sw_below, 3),
+                    text(format!("{} → {}", s.class_above, s.class_below)),
+                    text(&s.explanation),
+                ]
+            })
+            .collect();
+        table(
+            &mut h,
+            "steps",
+            &[
+                &format!("MD {u}"),
+                &format!("TVDSS {u}"),
+                "kind",
+                "SW above",
+                "SW below",
+                "class above → below",
+                "explanation",
+            ],
+            &rows,
+        );
+    }
+    h.push_str("<h2>Log plot</h2>\n");
+    plot(&mut h, &plots::logplot::log_plot(&curves_in));
+    h.push_str("<h2>Pickett plot</h2>\n");
+    plot(
+        &mut h,
+        &plots::crossplots::pickett(
+            &pickett_points(t, PICKETT_POINTS_PER_WELL),
+            &p.archie,
+            p.rw_ohmm,
+        ),
+    );
+    page_end(&mut h);
+    let path = dir.join(format!("{}.html", p.stem));
+    output::write_atomic(&path, |w| {
+        use std::io::Write as _;
+        w.write_all(h.as_bytes()).map_err(|source| OutputError::Io {
+            path: path.clone(),
+            source,
+        })
+    })?;
+    Ok(format!("{REPORT_DIR}/wells/{}.html", p.stem))
+}
+
+/// One well's line on the field page.
+pub struct WellRow<'a> {
+    pub report: &'a crate::field::WellReport,
+    /// The well's page, relative to the report folder, when it has one.
+    pub page: Option<String>,
+}
+
+/// What the field page shows.
+pub struct FieldPage<'a> {
+    pub project: &'a str,
+    pub depth_unit: &'a str,
+    pub wells: Vec<WellRow<'a>>,
+    pub manifest: &'a crate::manifest::Manifest,
+    pub core: Vec<CorePoint>,
+    pub boundaries: Boundaries,
+    pub class_count: u8,
+    pub j_classes: Vec<JClass>,
+    pub pressures: Vec<plots::PressureCompartment>,
+    /// The class predictor's leave-one-well-out confusion matrix.
+    pub confusion: Option<Vec<Vec<usize>>>,
+    pub zones: &'a [crate::summary::ZoneSummary],
+}
+
+/// Write the field page, `report/index.html`; returns its path relative to `out`.
+pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputError> {
+    let dir = out.join(REPORT_DIR);
+    std::fs::create_dir_all(&dir).map_err(|source| OutputError::Io {
+        path: dir.clone(),
+        source,
+    })?;
+    let m = p.manifest;
+    let failed = p.wells.iter().filter(|w| !w.report.ok).count();
+    let mut h = page_start(&format!("{} — flowzone", p.project), p.project);
+    h.push_str("<h2>Run</h2>\n");
+    // no times and no shard list here: the report is byte-identical for the
+    // same inputs, however the run was split; run-manifest.json has both
+    let facts = vec![
+        vec![text("tool"), text(&m.tool)],
+        vec![
+            text("config"),
+            text(format!("{} (SHA-256 {})", m.config.path, m.config.sha256)),
+        ],
+        vec![text("input files hashed"), count(m.inputs.len())],
+        vec![
+            text("wells"),
+            text(format!("{} ({failed} failed)", p.wells.len())),
+        ],
+    ];
+    table(&mut h, "facts", &[], &facts);
+    h.push_str("<p class=\"note\">run-manifest.json holds every input's SHA-256, the command, the start and end times and, for a sharded run, the shards; run-summary.json and the CSV files hold every number shown here.</p>\n");
+
+    h.push_str("<h2>Wells</h2>\n");
+    let rows: Vec<Vec<Cell>> = p
+        .wells
+        .iter()
+        .map(|w| {
+            let r = w.report;
+            let name = r.well.clone().unwrap_or_else(|| "(unread)".into());
+            let steps = r.contacts.as_ref().map_or(0, |a| a.steps.len());
+            let fluid = r.contacts.as_ref().map_or(0, |a| {
+                a.steps
+                    .iter()
+                    .filter(|s| s.kind == crate::contacts::StepKind::FluidContact)
+                    .count()
+            });
+            let unexplained = r.contacts.as_ref().map_or(0, |a| {
+                a.steps
+                    .iter()
+                    .filter(|s| s.kind == crate::contacts::StepKind::Unexplained)
+                    .count()
+            });
+            let name_cell = match &w.page {
+                Some(page) => Cell::Html(format!(
+                    "<a href=\"{}\">{}</a>",
+                    escape(page),
+                    escape(&name)
+                )),
+                None => text(name),
+            };
+            vec![
+                name_cell,
+                text(&r.file),
+                text(if r.ok { "ok" } else { "FAILED" }),
+                count(r.rows),
+                count(steps),
+                count(fluid),
+                count(unexplained),
+                count(r.warnings.len()),
+                text(r.error.clone().unwrap_or_default()),
+            ]
+        })
+        .collect();
+    let mut wells_html = String::new();
+    table(
+        &mut wells_html,
+        "wells",
+        &[
+            "well",
+            "file",
+            "status",
+            "depths",
+            "steps",
+            "fluid contacts",
+            "unexplained",
+            "warnings",
+            "error",
+        ],
+        &rows,
+    );
+    h.push_str(&wells_html);
+
+    h.push_str("<h2>Crossplots</h2>\n<div class=\"plots\">\n");
+    plot(
+        &mut h,
+        &plots::crossplots::core_phi_k(&p.core, &p.boundaries, p.class_count),
+    );
+    plot(&mut h, &plots::crossplots::j_function(&p.j_classes));
+    plot(
+        &mut h,
+        &plots::crossplots::pressure_depth(&p.pressures, p.depth_unit),
+    );
+    match &p.confusion {
+        Some(c) => plot(
+            &mut h,
+            &plots::crossplots::confusion(c, "class predictor, leave one well out"),
+        ),
+        None => plot(
+            &mut h,
+            &plots::crossplots::confusion(&[], "no class predictor in this run"),
+        ),
+    }
+    h.push_str("</div>\n<p class=\"note\">Pickett plots are on each well's page.</p>\n");
+
+    h.push_str("<h2>Saturation steps</h2>\n");
+    let steps: Vec<&crate::contacts::Step> = p
+        .wells
+        .iter()
+        .filter_map(|w| w.report.contacts.as_ref())
+        .flat_map(|a| a.steps.iter())
+        .collect();
+    let u = p.depth_unit;
+    let rows: Vec<Vec<Cell>> = steps
+        .iter()
+        .take(MAX_TABLE_ROWS)
+        .map(|s| {
+            vec![
+                text(&s.well),
+                fmt(s.depth_md, 2),
+                fmt(s.tvdss, 2),
+                text(s.kind.name()),
+                fmt(s.sw_above, 3),
+                fmt(s.sw_below, 3),
+                text(&s.explanation),
+            ]
+        })
+        .collect();
+    if steps.len() > MAX_TABLE_ROWS {
+        let _ = writeln!(
+            h,
+            "<p class=\"note\">The first {MAX_TABLE_ROWS} of {} steps; all are in contacts.csv.</p>",
+            steps.len()
+        );
+    }
+    table(
+        &mut h,
+        "contacts",
+        &[
+            "well",
+            &format!("MD {u}"),
+            &format!("TVDSS {u}"),
+            "kind",
+            "SW above",
+            "SW below",
+            "explanation",
+        ],
+        &rows,
+    );
+
+    h.push_str("<h2>Zone summary</h2>\n");
+    let rows: Vec<Vec<Cell>> = p
+        .zones
+        .iter()
+        .take(MAX_TABLE_ROWS)
+        .map(|z| {
+            vec![
+                text(&z.well),
+                text(&z.zone),
+                fmt(z.gross, 2),
+                fmt(z.net_pay, 2),
+                fmt(z.ntg, 3),
+                fmt(z.phie_avg, 3),
+                fmt(z.sw_avg, 3),
+                fmt(z.hpt, 3),
+            ]
+        })
+        .collect();
+    if p.zones.len() > MAX_TABLE_ROWS {
+        let _ = writeln!(
+            h,
+            "<p class=\"note\">The first {MAX_TABLE_ROWS} of {} zones; all are in field/zone-summary.csv.</p>",
+            p.zones.len()
+        );
+    }
+    table(
+        &mut h,
+        "zone-summary",
+        &[
+            "well",
+            "zone",
+            &format!("gross {u}"),
+            &format!("net pay {u}"),
+            "NTG",
+            "PHIE avg",
+            "SW avg",
+            &format!("HPT {u}"),
+        ],
+        &rows,
+    );
+    page_end(&mut h);
+    let path = dir.join("index.html");
+    output::write_atomic(&path, |w| {
+        use std::io::Write as _;
+        w.write_all(h.as_bytes()).map_err(|source| OutputError::Io {
+            path: path.clone(),
+            source,
+        })
+    })?;
+    Ok(format!("{REPORT_DIR}/index.html"))
+}
+
+/// A J-curve sampled for plotting: Sw at J on a log grid, Sw increasing.
+pub fn sample_j_curve(curve: &crate::capillary_data::JCurve) -> Vec<(f64, f64)> {
+    let mut v: Vec<(f64, f64)> = (0..=80)
+        .map(|i| 10f64.powf(-2.0 + 4.0 * f64::from(i) / 80.0))
+        .map(|j| (curve.sw(j), j))
+        .filter(|(sw, _)| sw.is_finite())
+        .collect();
+    v.sort_by(|a, b| a.0.total_cmp(&b.0));
+    v
+}
