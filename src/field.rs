@@ -37,6 +37,10 @@ pub struct WellReport {
     pub contacts: Option<crate::contacts::WellAudit>,
     /// Gross, net, net-to-gross, averages and HPT per zone.
     pub zones: Vec<crate::summary::ZoneSummary>,
+    /// A sample of the well's (PHIE, RT, CLASS) for the field Pickett plot
+    /// (not in the summary; shard states carry it beside the report).
+    #[serde(skip)]
+    pub pickett: Vec<crate::plots::PickettPoint>,
 }
 
 /// The run summary (also written as run-summary.json).
@@ -559,6 +563,7 @@ fn one_well(path: &Path, stem: &str, stage: &WellStages<'_>, out_dir: &Path) -> 
         saturation_height: None,
         contacts: None,
         zones: Vec::new(),
+        pickett: Vec::new(),
     };
     let result: Result<(), WellError> = (|| {
         let mut out = well::process(path, ctx)?;
@@ -631,6 +636,8 @@ fn one_well(path: &Path, stem: &str, stage: &WellStages<'_>, out_dir: &Path) -> 
         if config.output.report {
             let page = well_page(stem, path, &out, &report, setup, config, out_dir)?;
             report.outputs.push(page);
+            report.pickett =
+                crate::report::pickett_points(&out.table, crate::report::FIELD_PICKETT_PER_WELL);
         }
         Ok(())
     })();
@@ -826,6 +833,23 @@ fn field_page(
         }
         None => (Vec::new(), Vec::new()),
     };
+    let pickett: Vec<crate::plots::PickettPoint> = reports
+        .iter()
+        .flat_map(|r| r.pickett.iter().copied())
+        .collect();
+    let field_archie = config.parameters.field.resolve();
+    let archie = config
+        .parameters
+        .class_archie("", field_archie.archie, class_count)
+        .into_iter()
+        .zip(1u8..)
+        .map(|(a, class)| crate::plots::ArchieLine {
+            class,
+            a: a.a,
+            m: a.m,
+            n: a.n,
+        })
+        .collect();
     let confusion = class_setup
         .and_then(|c| c.model.header.validation.as_ref())
         .map(|v| v.forest.confusion.clone());
@@ -853,6 +877,9 @@ fn field_page(
         pressures,
         confusion,
         zones,
+        pickett,
+        archie,
+        rw_ohmm: field_archie.rw_ohmm.unwrap_or(f64::NAN),
     };
     crate::report::write_field_page(out, &page)
 }

@@ -66,7 +66,7 @@ pub struct CorePoint {
 }
 
 /// A log depth on the Pickett plot.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct PickettPoint {
     /// Effective porosity, v/v.
     pub phi: f64,

@@ -25,6 +25,9 @@ pub const CAUTION: &str = "Interpretations inform reserves and well decisions. T
 /// Most rows of a table on the field page; the CSV files hold them all.
 pub const MAX_TABLE_ROWS: usize = 500;
 
+/// Points per well in the field Pickett plot (the plot thins them further).
+pub const FIELD_PICKETT_PER_WELL: usize = 100;
+
 /// Most points per well on the Pickett plot.
 const PICKETT_POINTS_PER_WELL: usize = 1500;
 
@@ -342,6 +345,11 @@ pub struct FieldPage<'a> {
     /// The class predictor's leave-one-well-out confusion matrix.
     pub confusion: Option<Vec<Vec<usize>>>,
     pub zones: &'a [crate::summary::ZoneSummary],
+    /// A sample of every well's depths, and the field's Archie lines by class.
+    pub pickett: Vec<PickettPoint>,
+    pub archie: Vec<ArchieLine>,
+    /// The field's Rw, ohm.m (NaN when set per zone only: no lines then).
+    pub rw_ohmm: f64,
 }
 
 /// Write the field page, `report/index.html`; returns its path relative to `out`.
@@ -452,7 +460,11 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
             &plots::crossplots::confusion(&[], "no class predictor in this run"),
         ),
     }
-    h.push_str("</div>\n<p class=\"note\">Pickett plots are on each well's page.</p>\n");
+    plot(
+        &mut h,
+        &plots::crossplots::pickett(&p.pickett, &p.archie, p.rw_ohmm),
+    );
+    h.push_str("</div>\n<p class=\"note\">The Pickett plot thins every well's depths to a sample; each well's page has its own.</p>\n");
 
     h.push_str("<h2>Saturation steps</h2>\n");
     let steps: Vec<&crate::contacts::Step> = p

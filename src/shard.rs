@@ -105,6 +105,8 @@ struct ShardState {
     fingerprint: String,
     /// This shard's wells: index into `files`, report.
     reports: Vec<(usize, WellReport)>,
+    /// Each report's Pickett sample (kept out of the report's serialised form).
+    pickett: Vec<Vec<crate::plots::PickettPoint>>,
 }
 
 fn state_name(spec: ShardSpec) -> String {
@@ -176,12 +178,18 @@ pub fn run_shard(
             .duration_since(started)
             .map_or(0.0, |d| d.as_secs_f64()),
     };
+    let mut reports = reports;
+    let pickett = reports
+        .iter_mut()
+        .map(|r| std::mem::take(&mut r.pickett))
+        .collect();
     let state = ShardState {
         run: run.clone(),
         files,
         config_sha256: config_sha(config),
         fingerprint: setup.fingerprint(),
         reports: indices.into_iter().zip(reports).collect(),
+        pickett,
     };
     let dir = out.join(STATE_DIR);
     std::fs::create_dir_all(&dir).map_err(|source| Error::Io {
@@ -399,7 +407,9 @@ pub fn merge(
             started = started.min(t);
         }
         runs.push(st.run);
-        for (i, r) in st.reports {
+        let mut samples = st.pickett.into_iter();
+        for (i, mut r) in st.reports {
+            r.pickett = samples.next().unwrap_or_default();
             let slot = reports.get_mut(i).ok_or_else(|| {
                 Error::Usage(format!(
                     "shard state `{}`: well {i} out of range",

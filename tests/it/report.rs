@@ -78,14 +78,15 @@ fn report_pages_render_in_a_browser() {
     let (dom, log) = render(&index, &["--dump-dom"]);
     assert!(!log.contains("CONSOLE"), "console output: {log}");
     assert!(dom.contains("id=\"caution\""), "caution missing");
-    // the four field crossplots, each with data (the demo has core,
-    // capillary plugs, pressures and a trained predictor)
-    assert_eq!(dom.matches("<svg").count(), 4, "crossplots");
+    // the five field crossplots, each with data (the demo has core,
+    // capillary plugs, pressures, a trained predictor and a field Rw)
+    assert_eq!(dom.matches("<svg").count(), 5, "crossplots");
     for group in [
         "class=\"points\"",
         "class=\"j-class\"",
         "class=\"compartment\"",
         "class=\"cells\"",
+        "class=\"archie-lines\"",
     ] {
         assert!(dom.contains(group), "{group} not rendered");
     }
