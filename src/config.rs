@@ -148,6 +148,9 @@ pub struct Output {
     /// Write the HTML report (report/index.html and a page per well). Default true.
     #[serde(default = "default_report")]
     pub report: bool,
+    /// Also write each well's log plot as PNG (report/wells/<stem>-log.png). Default false.
+    #[serde(default)]
+    pub report_png: bool,
 }
 
 fn default_report() -> bool {
@@ -169,6 +172,7 @@ impl Default for Output {
             formats: default_formats(),
             decimals: default_decimals(),
             report: default_report(),
+            report_png: false,
         }
     }
 }

@@ -634,8 +634,8 @@ fn one_well(path: &Path, stem: &str, stage: &WellStages<'_>, out_dir: &Path) -> 
             .outputs
             .push(format!("{FIELD_CURVES_DIR}/{}", file_name(&part)));
         if config.output.report {
-            let page = well_page(stem, path, &out, &report, setup, config, out_dir)?;
-            report.outputs.push(page);
+            let pages = well_page(stem, path, &out, &report, setup, config, out_dir)?;
+            report.outputs.extend(pages);
             report.pickett =
                 crate::report::pickett_points(&out.table, crate::report::FIELD_PICKETT_PER_WELL);
         }
@@ -664,7 +664,7 @@ fn well_page(
     setup: Option<&crate::classify::ClassSetup>,
     config: &Config,
     out_dir: &Path,
-) -> Result<String, output::OutputError> {
+) -> Result<Vec<String>, output::OutputError> {
     let class_count = setup.map_or(0, |s| u8::try_from(s.scheme.class_count).unwrap_or(u8::MAX));
     let field_archie = config.parameters.field.resolve().archie;
     let archie = config
@@ -717,6 +717,7 @@ fn well_page(
         archie,
         rw_ohmm,
         warnings: &out.warnings,
+        png: config.output.report_png,
     };
     crate::report::write_well_page(out_dir, &page)
 }

@@ -54,6 +54,7 @@ pub mod output;
 pub mod params;
 pub mod petro;
 pub mod plots;
+pub mod png;
 pub mod predictor;
 pub mod pressure;
 pub mod report;

@@ -133,6 +133,8 @@ pub struct WellPage<'a> {
     /// Median Rw of the well's depths, ohm.m.
     pub rw_ohmm: f64,
     pub warnings: &'a [String],
+    /// Also write the log plot as PNG beside the page.
+    pub png: bool,
 }
 
 /// The column `name` of a table.
@@ -165,8 +167,9 @@ pub fn pickett_points(t: &Table, max: usize) -> Vec<PickettPoint> {
     all.into_iter().step_by(stride).collect()
 }
 
-/// Write a well's page; returns its path relative to `out`.
-pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<String, OutputError> {
+/// Write a well's page (and its PNG log plot when asked); returns the files
+/// written, relative to `out`.
+pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, OutputError> {
     let dir = out.join(REPORT_DIR).join("wells");
     std::fs::create_dir_all(&dir).map_err(|source| OutputError::Io {
         path: dir.clone(),
@@ -301,8 +304,30 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<String, OutputErr
             &rows,
         );
     }
+    let log_svg = plots::logplot::log_plot(&curves_in);
+    let mut written = Vec::new();
     h.push_str("<h2>Log plot</h2>\n");
-    plot(&mut h, &plots::logplot::log_plot(&curves_in));
+    if p.png {
+        let png_path = dir.join(format!("{}-log.png", p.stem));
+        let png = crate::png::svg_to_png(&log_svg).map_err(|e| OutputError::Io {
+            path: png_path.clone(),
+            source: std::io::Error::other(e),
+        })?;
+        output::write_atomic(&png_path, |w| {
+            use std::io::Write as _;
+            w.write_all(&png).map_err(|source| OutputError::Io {
+                path: png_path.clone(),
+                source,
+            })
+        })?;
+        let _ = writeln!(
+            h,
+            "<p><a href=\"{}-log.png\">The log plot as PNG</a></p>",
+            escape(p.stem)
+        );
+        written.push(format!("{REPORT_DIR}/wells/{}-log.png", p.stem));
+    }
+    plot(&mut h, &log_svg);
     h.push_str("<h2>Pickett plot</h2>\n");
     plot(
         &mut h,
@@ -321,7 +346,8 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<String, OutputErr
             source,
         })
     })?;
-    Ok(format!("{REPORT_DIR}/wells/{}.html", p.stem))
+    written.insert(0, format!("{REPORT_DIR}/wells/{}.html", p.stem));
+    Ok(written)
 }
 
 /// One well's line on the field page.

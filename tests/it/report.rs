@@ -7,7 +7,7 @@
 use std::path::{Path, PathBuf};
 use std::process::Command;
 
-use crate::common::{root, run_demo_field};
+use crate::common::{demo_config_edited, root, run_summary};
 
 fn chromium() -> PathBuf {
     if let Some(p) = std::env::var_os("FLOWZONE_CHROMIUM") {
@@ -73,7 +73,11 @@ fn relative_links(html: &str) -> Vec<String> {
 fn report_pages_render_in_a_browser() {
     let dir = tempfile::tempdir().expect("temp dir");
     let out = dir.path().join("out");
-    let summary = run_demo_field(&out);
+    // with PNG log plots too: their links must resolve like the rest
+    let cfg = demo_config_edited(dir.path(), |t| {
+        t.replacen("decimals = 4\n", "decimals = 4\nreport-png = true\n", 1)
+    });
+    let summary = run_summary(&cfg, &out);
     let index = out.join("report/index.html");
     let (dom, log) = render(&index, &["--dump-dom"]);
     assert!(!log.contains("CONSOLE"), "console output: {log}");
@@ -118,11 +122,18 @@ fn report_pages_render_in_a_browser() {
         steps,
         "step markers"
     );
-    for l in relative_links(&std::fs::read_to_string(&page).expect("page")) {
-        assert!(
-            page.parent().expect("dir").join(&l).is_file(),
-            "broken link {l}"
-        );
+    let page_links = relative_links(&std::fs::read_to_string(&page).expect("page"));
+    assert!(
+        page_links.iter().any(|l| l.ends_with("-log.png")),
+        "{page_links:?}"
+    );
+    for l in page_links {
+        let target = page.parent().expect("dir").join(&l);
+        assert!(target.is_file(), "broken link {l}");
+        if l.ends_with(".png") {
+            let png = std::fs::read(&target).expect("png");
+            assert!(png.starts_with(b"\x89PNG\r\n\x1a\n") && png.len() > 50_000);
+        }
     }
 
     // the screenshot, kept as a test artefact
