@@ -76,6 +76,10 @@ pub enum Command {
         /// field-level outputs.
         #[arg(long, value_name = "K/N")]
         shard: Option<crate::shard::ShardSpec>,
+        /// Write into an output folder that holds a previous run (or this
+        /// shard's previous state), replacing its files one by one.
+        #[arg(long)]
+        overwrite: bool,
     },
     /// Combine the shards of a sharded run (`run --shard K/N`) into the
     /// field-level outputs a single run makes: run summary and manifest, zone
@@ -98,6 +102,9 @@ pub enum Command {
         /// Exit 0 even when some wells failed (they are still reported).
         #[arg(long)]
         keep_going: bool,
+        /// Write into an output folder that already holds a merged run.
+        #[arg(long)]
+        overwrite: bool,
     },
     /// Core: match the core file to the wells, apply the accepted depth
     /// shifts, write the core table (RQI, FZI, R35, class per scheme) and
@@ -188,14 +195,16 @@ pub fn run(args: Args) -> Result<(), Error> {
             quiet,
             keep_going,
             shard,
-        } => cmd_run(&config, out, threads, quiet, keep_going, shard),
+            overwrite,
+        } => cmd_run(&config, out, threads, quiet, keep_going, shard, overwrite),
         Command::Merge {
             config,
             out,
             shards,
             quiet,
             keep_going,
-        } => cmd_merge(&config, out, &shards, quiet, keep_going),
+            overwrite,
+        } => cmd_merge(&config, out, &shards, quiet, keep_going, overwrite),
         Command::Demo {
             out,
             seed,
@@ -329,9 +338,15 @@ fn cmd_run(
     quiet: bool,
     keep_going: bool,
     shard: Option<crate::shard::ShardSpec>,
+    overwrite: bool,
 ) -> Result<(), Error> {
     let config = Config::load(config_path)?;
     let out = out_dir(&config, out)?;
+    let marker = match shard {
+        Some(spec) => crate::shard::state_path(spec),
+        None => PathBuf::from(field::FINISHED_MARKER),
+    };
+    field::check_previous(&out, &marker, overwrite)?;
     if let Some(n) = threads {
         // a second call in the same process fails; the first pool stays in use
         let _ = rayon::ThreadPoolBuilder::new()
@@ -362,9 +377,15 @@ fn cmd_merge(
     shards: &[PathBuf],
     quiet: bool,
     keep_going: bool,
+    overwrite: bool,
 ) -> Result<(), Error> {
     let config = Config::load(config_path)?;
     let out = out_dir(&config, out)?;
+    field::check_previous(
+        &out,
+        std::path::Path::new(field::FINISHED_MARKER),
+        overwrite,
+    )?;
     let summary = crate::shard::merge(&config, &out, shards, !quiet)?;
     let msg = format!("outputs in {} (summary: run-summary.json)", out.display());
     report_wells(&summary.wells, summary.wells_total, quiet, keep_going, &msg)

@@ -99,6 +99,44 @@ pub fn check_out_dir(out: &Path, inputs: &[PathBuf]) -> Result<(), Error> {
     Ok(())
 }
 
+/// Refuse inputs inside the output folder: a run writes there, and could
+/// replace an input file with an output of the same name.
+pub fn check_inputs_outside(out: &Path, inputs: &[PathBuf]) -> Result<(), Error> {
+    let Ok(out_abs) = out.canonicalize() else {
+        return Ok(());
+    };
+    for input in inputs {
+        if let Ok(p) = input.canonicalize() {
+            if p.starts_with(&out_abs) {
+                return Err(Error::Usage(format!(
+                    "input `{}` is inside the output folder `{}`: a run could overwrite it; move it or choose another output folder",
+                    input.display(),
+                    out.display()
+                )));
+            }
+        }
+    }
+    Ok(())
+}
+
+/// The file that marks a finished run or merge in an output folder.
+pub const FINISHED_MARKER: &str = "run-manifest.json";
+
+/// Refuse to write into a folder that already holds `marker` (a previous
+/// run's), unless `overwrite`: then files are replaced one by one, each
+/// atomically, and files of wells no longer in the run are left as they are.
+pub fn check_previous(out: &Path, marker: &Path, overwrite: bool) -> Result<(), Error> {
+    let m = out.join(marker);
+    if !overwrite && m.exists() {
+        return Err(Error::Usage(format!(
+            "`{}` holds a previous run (`{}` exists); give --overwrite to replace its files, or choose another output folder",
+            out.display(),
+            m.display()
+        )));
+    }
+    Ok(())
+}
+
 /// What every well of a run shares, made once before the wells: the files
 /// (sorted) and their output stems, the tables, the class model and the
 /// saturation-height model.
@@ -136,6 +174,14 @@ pub fn setup(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup, 
     }
     let inputs = config.input_paths();
     check_out_dir(out, &inputs)?;
+    let mut every_input = files.clone();
+    every_input.extend(
+        crate::manifest::table_inputs(config)
+            .into_iter()
+            .map(|(_, p)| p),
+    );
+    every_input.push(config.source.clone());
+    check_inputs_outside(out, &every_input)?;
     let ctx = well::RunContext::new(config.clone()).map_err(|e| Error::Usage(chain(&e)))?;
     let prepared = if config.core.is_some() || config.classes.is_some() {
         Some(crate::classify::prepare(
@@ -192,10 +238,56 @@ pub fn setup(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup, 
 /// Run every well of the config into `out`.
 pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Error> {
     let started = std::time::SystemTime::now();
+    // a killed run's temporary files (never in shard runs, which may share
+    // the folder with shards still writing)
+    output::remove_stale_partials(out);
     let setup = setup(config, out, progress)?;
     let all: Vec<usize> = (0..setup.files.len()).collect();
-    let reports = process_wells(&setup, &all, out, progress)?;
-    finish(config, out, setup, reports, started, Vec::new(), progress)
+    let journal = out.join(PROGRESS_FILE);
+    let reports = process_wells(&setup, &all, out, &journal, progress)?;
+    let summary = finish(config, out, setup, reports, started, Vec::new(), progress)?;
+    // the summary is written: the journal of a run in progress goes
+    let _ = std::fs::remove_file(&journal);
+    Ok(summary)
+}
+
+/// The journal of a run in progress, in the output folder: a first line
+/// listing every well of the run, then a line per well as it finishes. A
+/// finished run removes it; after a killed run it says which wells finished
+/// (their files are whole: every file is written under a temporary name and
+/// renamed) and, by difference, which did not.
+pub const PROGRESS_FILE: &str = "run-progress.jsonl";
+
+/// Appends journal lines; each line is one `write` on an unbuffered file,
+/// so what was written survives the process being killed.
+struct Journal(std::sync::Mutex<std::fs::File>);
+
+impl Journal {
+    fn create(path: &Path, files: &[&Path]) -> Result<Journal, Error> {
+        let io = |source| Error::Io {
+            path: path.to_path_buf(),
+            source,
+        };
+        let mut f = std::fs::File::create(path).map_err(io)?;
+        let head = serde_json::json!({
+            "flowzone": env!("CARGO_PKG_VERSION"),
+            "started_utc": crate::manifest::utc(std::time::SystemTime::now()),
+            "wells": files.iter().map(|p| p.display().to_string()).collect::<Vec<_>>(),
+        });
+        std::io::Write::write_all(&mut f, format!("{head}\n").as_bytes()).map_err(io)?;
+        Ok(Journal(std::sync::Mutex::new(f)))
+    }
+
+    fn finished(&self, r: &WellReport) {
+        let line = serde_json::json!({
+            "finished": r.file,
+            "ok": r.ok,
+            "error": r.error,
+            "outputs": r.outputs,
+        });
+        let mut f = self.0.lock().unwrap_or_else(|e| e.into_inner());
+        let _ = std::io::Write::write_all(&mut *f, format!("{line}\n").as_bytes());
+    }
 }
 
 /// Process the wells `indices` (into `setup.files`) in parallel, writing
@@ -204,8 +296,11 @@ pub fn process_wells(
     setup: &FieldSetup,
     indices: &[usize],
     out: &Path,
+    journal: &Path,
     progress: bool,
 ) -> Result<Vec<WellReport>, Error> {
+    let listed: Vec<&Path> = indices.iter().map(|&i| setup.files[i].as_path()).collect();
+    let journal = Journal::create(journal, &listed)?;
     let stage = WellStages {
         ctx: &setup.ctx,
         classes: setup.prepared.as_ref().and_then(|p| p.setup.as_ref()),
@@ -232,6 +327,7 @@ pub fn process_wells(
         .map(|&i| {
             let path = &setup.files[i];
             let report = one_well(path, &setup.stems[i], &stage, out);
+            journal.finished(&report);
             let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
             let status = if report.ok { "ok" } else { "FAILED" };
             match &bar {

@@ -110,7 +110,7 @@ pub fn utc(t: SystemTime) -> String {
 }
 
 /// Every input the config names besides the wells: (role, path).
-fn table_inputs(config: &Config) -> Vec<(&'static str, PathBuf)> {
+pub fn table_inputs(config: &Config) -> Vec<(&'static str, PathBuf)> {
     let mut v = Vec::new();
     if let Some(p) = &config.zones.tops {
         v.push(("tops", config.resolve_path(p)));

@@ -167,6 +167,34 @@ fn temp_tag() -> String {
     format!("{}-{n}-{:016x}", std::process::id(), rand::random::<u64>())
 }
 
+/// Remove temporary files a killed run left (`.NAME.partial-*`) in the
+/// output folder and the folders a run writes under it. Best effort.
+pub fn remove_stale_partials(out: &Path) {
+    for sub in [
+        "",
+        "wells",
+        "field",
+        "field/curves",
+        "report",
+        "report/wells",
+        "saturation",
+        "core",
+        "model",
+        "shards",
+    ] {
+        let Ok(entries) = std::fs::read_dir(out.join(sub)) else {
+            continue;
+        };
+        for e in entries.flatten() {
+            let name = e.file_name();
+            let name = name.to_string_lossy();
+            if name.starts_with('.') && name.contains(".partial-") {
+                let _ = std::fs::remove_file(e.path());
+            }
+        }
+    }
+}
+
 /// Write `path` through a temporary file in the same folder, renamed when done.
 pub fn write_atomic(
     path: &Path,

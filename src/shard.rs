@@ -113,6 +113,11 @@ fn state_name(spec: ShardSpec) -> String {
     format!("shard-{}-of-{}.state", spec.k, spec.n)
 }
 
+/// Where shard `spec` leaves its state, relative to its output folder.
+pub fn state_path(spec: ShardSpec) -> PathBuf {
+    Path::new(STATE_DIR).join(state_name(spec))
+}
+
 fn file_list(files: &[PathBuf]) -> Vec<(String, u64)> {
     files
         .iter()
@@ -162,7 +167,13 @@ pub fn run_shard(
             bytes as f64 / 1e6
         );
     }
-    let reports = field::process_wells(&setup, &indices, out, progress)?;
+    let dir = out.join(STATE_DIR);
+    std::fs::create_dir_all(&dir).map_err(|source| Error::Io {
+        path: dir.clone(),
+        source,
+    })?;
+    let journal = dir.join(format!("shard-{}-of-{}.progress.jsonl", spec.k, spec.n));
+    let reports = field::process_wells(&setup, &indices, out, &journal, progress)?;
     let finished = SystemTime::now();
     let run = ShardRun {
         shard: spec.k,
@@ -191,13 +202,9 @@ pub fn run_shard(
         reports: indices.into_iter().zip(reports).collect(),
         pickett,
     };
-    let dir = out.join(STATE_DIR);
-    std::fs::create_dir_all(&dir).map_err(|source| Error::Io {
-        path: dir.clone(),
-        source,
-    })?;
     let path = dir.join(state_name(spec));
     write_state(&path, &state)?;
+    let _ = std::fs::remove_file(&journal);
     Ok(ShardOutcome {
         run,
         reports: state.reports.into_iter().map(|(_, r)| r).collect(),
@@ -300,6 +307,7 @@ pub fn merge(
     dirs: &[PathBuf],
     progress: bool,
 ) -> Result<RunSummary, Error> {
+    output::remove_stale_partials(out);
     let setup = field::setup(config, out, progress)?;
     let files = file_list(&setup.files);
     let fingerprint = setup.fingerprint();

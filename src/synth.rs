@@ -1319,6 +1319,8 @@ wells = [\".\"]\n\
 [output]\n\
 formats = [\"las\"]\n\
 decimals = 4\n\
+# the HTML report is left out of the pipeline benchmark (its cost is measured apart)\n\
+report = false\n\
 \n\
 [zones]\n\
 tops = \"zones.csv\"\n\

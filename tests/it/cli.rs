@@ -210,7 +210,7 @@ fn run_isolates_a_bad_well() {
     let first: Vec<&str> = csv.lines().nth(1).expect("row").split(',').collect();
     assert_eq!(&first[..2], &["2030.8824", "1997.9640"]);
     assert!(out_dir.path().join("wells/a.las").is_file());
-    let keep = run_config(&cfg, out_dir.path(), &["--keep-going"]);
+    let keep = run_config(&cfg, out_dir.path(), &["--keep-going", "--overwrite"]);
     assert_eq!(keep.status.code(), Some(0));
 }
 

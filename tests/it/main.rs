@@ -29,6 +29,8 @@ mod lasio_interop;
 mod real_files;
 /// The HTML report opened by headless chromium: no console output, every plot rendered.
 mod report;
+/// Data safety: reruns, inputs never written, SIGKILL part-way.
+mod safety;
 /// Class-aware SW, J-functions, FWL per compartment and SWH on the demo field; failed fits.
 mod sat_height;
 /// `run` on the demo field recovers the forward model's truth within stated tolerances.
