@@ -143,4 +143,38 @@ mod tests {
             5e-7 * perm_from_fzi(2.0, 0.2),
         );
     }
+
+    proptest::proptest! {
+        /// A better class never predicts less permeability at the same
+        /// porosity (FZI form): core samples scattered over four decades of
+        /// k, classed by an FZI ladder, fitted per class; for every pair of
+        /// classes present and any porosity, k(class c+1) ≥ k(class c).
+        #[test]
+        fn better_class_never_lowers_perm(
+            seed in 0u64..10_000,
+            n in 20usize..200,
+            phi_at in 0.03f64..0.4,
+        ) {
+            use crate::classes::{ClassScheme as _, FziLadder};
+            use rand::{Rng, SeedableRng};
+            let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+            let ladder = FziLadder::geometric(0.5, 2.0, 4);
+            let samples: Vec<(u8, f64, f64)> = (0..n)
+                .filter_map(|_| {
+                    let phi = rng.random_range(0.03..0.35);
+                    let k = 10f64.powf(rng.random_range(-2.0..3.0));
+                    ladder.classify(phi, k).map(|c| (c, phi, k))
+                })
+                .collect();
+            let fits = fit(&samples);
+            for w in fits.windows(2) {
+                proptest::prop_assert!(w[0].class < w[1].class);
+                proptest::prop_assert!(
+                    w[1].perm_fzi(phi_at) >= w[0].perm_fzi(phi_at),
+                    "class {} {} mD < class {} {} mD at φ {}",
+                    w[1].class, w[1].perm_fzi(phi_at), w[0].class, w[0].perm_fzi(phi_at), phi_at
+                );
+            }
+        }
+    }
 }
