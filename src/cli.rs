@@ -233,7 +233,13 @@ fn cmd_inspect(files: &[PathBuf], json: bool, strict: bool) -> Result<(), Error>
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     for f in files {
-        match las::read_path(f, ReadOptions { strict }) {
+        match las::read_path(
+            f,
+            ReadOptions {
+                strict,
+                ..ReadOptions::default()
+            },
+        ) {
             Ok(file) => {
                 let s = inspect::summarise(&f.display().to_string(), &file);
                 if json {
@@ -269,14 +275,20 @@ fn cmd_export(files: &[PathBuf], format: Format, out: &PathBuf, strict: bool) ->
     })?;
     let mut failed = 0;
     for f in files {
-        let result = las::read_path(f, ReadOptions { strict })
-            .map_err(Error::from)
-            .and_then(|file| {
-                for w in &file.warnings {
-                    eprintln!("warning: {}: {w}", f.display());
-                }
-                export::export_file(&file, f, out, format)
-            });
+        let result = las::read_path(
+            f,
+            ReadOptions {
+                strict,
+                ..ReadOptions::default()
+            },
+        )
+        .map_err(Error::from)
+        .and_then(|file| {
+            for w in &file.warnings {
+                eprintln!("warning: {}: {w}", f.display());
+            }
+            export::export_file(&file, f, out, format)
+        });
         match result {
             Ok(p) => eprintln!("wrote {}", p.display()),
             Err(e) => {

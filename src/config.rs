@@ -130,6 +130,31 @@ pub struct Input {
     /// Refuse files whose header contradicts the data instead of warning.
     #[serde(default)]
     pub strict: bool,
+    /// Largest LAS file read, MiB. Default 2048.
+    pub max_file_mb: Option<u64>,
+    /// Most header lines before ~A. Default 1 000 000.
+    pub max_header_lines: Option<usize>,
+    /// Longest header line, bytes. Default 65 536.
+    pub max_header_line_bytes: Option<usize>,
+    /// Most curves in ~C. Default 10 000.
+    pub max_curves: Option<usize>,
+}
+
+impl Input {
+    /// The reader's limits: the config's, else the defaults.
+    pub fn limits(&self) -> crate::las::Limits {
+        let d = crate::las::Limits::DEFAULT;
+        crate::las::Limits {
+            max_bytes: self
+                .max_file_mb
+                .map_or(d.max_bytes, |m| m.saturating_mul(1 << 20)),
+            max_header_lines: self.max_header_lines.unwrap_or(d.max_header_lines),
+            max_header_line_bytes: self
+                .max_header_line_bytes
+                .unwrap_or(d.max_header_line_bytes),
+            max_curves: self.max_curves.unwrap_or(d.max_curves),
+        }
+    }
 }
 
 /// `[output]`
@@ -393,7 +418,10 @@ impl Config {
                         .extension()
                         .and_then(|x| x.to_str())
                         .is_some_and(|x| x.eq_ignore_ascii_case("las"));
-                    if is_las && f.is_file() {
+                    // not `is_file()`: an entry that cannot be followed (a
+                    // broken link, a link loop) is kept, so that its read
+                    // fails and is reported with the well, never skipped
+                    if is_las && !f.is_dir() {
                         files.push(f);
                     }
                 }

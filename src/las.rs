@@ -82,12 +82,50 @@ pub struct LasFile {
     pub warnings: Vec<Warning>,
 }
 
+/// A NULL value smaller in size than this is one real data can take, and is
+/// warned about (our choice: usual NULLs are -999.25, -9999, -999).
+pub const PLAUSIBLE_NULL_MIN_ABS: f64 = 10.0;
+
 /// Options of the reader.
 #[derive(Debug, Clone, Copy, Default)]
 pub struct ReadOptions {
     /// Turn header/data contradictions (STRT, STOP, STEP, a non-monotonic index,
     /// ~A column names) into errors instead of warnings.
     pub strict: bool,
+    pub limits: Limits,
+}
+
+/// Bounds on what one file may hold, so that a damaged or hostile file gets a
+/// clear error instead of exhausting memory. A file is read whole, so memory
+/// per file in flight is about its size plus 8 bytes per value.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Limits {
+    /// Largest file read, bytes.
+    pub max_bytes: u64,
+    /// Most lines before ~A.
+    pub max_header_lines: usize,
+    /// Longest header line, bytes.
+    pub max_header_line_bytes: usize,
+    /// Most curves in ~C.
+    pub max_curves: usize,
+}
+
+impl Limits {
+    /// 2 GiB files, 1 000 000 header lines of at most 64 KiB, 10 000 curves:
+    /// far beyond real logs (tens of curves, a few hundred header lines;
+    /// our choice), small enough to fail fast on damaged files.
+    pub const DEFAULT: Limits = Limits {
+        max_bytes: 2 << 30,
+        max_header_lines: 1_000_000,
+        max_header_line_bytes: 64 << 10,
+        max_curves: 10_000,
+    };
+}
+
+impl Default for Limits {
+    fn default() -> Limits {
+        Limits::DEFAULT
+    }
 }
 
 /// Mnemonics the 2017 update allows for the index curve, plus common depth names.
@@ -154,6 +192,19 @@ impl LasFile {
 
 /// Read a LAS file from disk.
 pub fn read_path(path: &Path, options: ReadOptions) -> Result<LasFile, LasError> {
+    let meta = std::fs::metadata(path).map_err(|source| LasError::Io {
+        path: path.to_path_buf(),
+        source,
+    })?;
+    if meta.len() > options.limits.max_bytes {
+        return Err(LasError::File {
+            path: path.to_path_buf(),
+            source: FileError::TooLarge {
+                bytes: meta.len(),
+                limit: options.limits.max_bytes,
+            },
+        });
+    }
     let bytes = std::fs::read(path).map_err(|source| LasError::Io {
         path: path.to_path_buf(),
         source,
@@ -261,7 +312,25 @@ impl Reader<'_> {
         let mut line_no = 0usize;
         while pos < bytes.len() {
             line_no += 1;
+            let limits = self.options.limits;
+            if line_no > limits.max_header_lines {
+                return Err(self.line_err(
+                    line_no,
+                    LineError::TooManyHeaderLines {
+                        limit: limits.max_header_lines,
+                    },
+                ));
+            }
             let end = memchr_newline(bytes, pos);
+            if end - pos > limits.max_header_line_bytes {
+                return Err(self.line_err(
+                    line_no,
+                    LineError::HeaderLineTooLong {
+                        bytes: end - pos,
+                        limit: limits.max_header_line_bytes,
+                    },
+                ));
+            }
             let raw = &bytes[pos..end];
             let next = (end + 1).min(bytes.len());
             let raw = raw.strip_suffix(b"\r").unwrap_or(raw);
@@ -354,6 +423,14 @@ impl Reader<'_> {
                                 item.mnemonic, item.unit
                             ),
                         );
+                    }
+                    if curve_items.len() >= self.options.limits.max_curves {
+                        return Err(self.line_err(
+                            line_no,
+                            LineError::TooManyCurves {
+                                limit: self.options.limits.max_curves,
+                            },
+                        ));
                     }
                     curve_items.push(item);
                 }
@@ -463,6 +540,26 @@ impl Reader<'_> {
                 None
             }
         };
+
+        if let (Some(v), Some(item)) = (
+            null_value,
+            well_items
+                .iter()
+                .find(|i| i.mnemonic.eq_ignore_ascii_case("NULL")),
+        ) {
+            // a NULL that real logs take (0 for SP or porosity, 1 for a
+            // ratio) turns true readings into gaps; the usual values are
+            // -999.25, -9999 and the like (common practice)
+            if v.is_finite() && v.abs() < PLAUSIBLE_NULL_MIN_ABS {
+                let line = item.line;
+                self.warn(
+                    Some(line),
+                    format!(
+                        "NULL is {v}, a value real logs take: every sample equal to it is read as missing; check the file's NULL"
+                    ),
+                );
+            }
+        }
 
         let curves = self.unique_curves(curve_items);
 

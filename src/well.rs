@@ -113,6 +113,7 @@ pub fn process(path: &Path, ctx: &RunContext) -> Result<WellOutput, WellError> {
         path,
         ReadOptions {
             strict: ctx.config.input.strict,
+            limits: ctx.config.input.limits(),
         },
     )?;
     process_file(path, &file, ctx)

@@ -62,6 +62,17 @@ pub enum LineError {
     /// A LAS 3.0 section name in a file that does not declare 3.0.
     #[error("section `{0}` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet")]
     Las3Section(String),
+
+    #[error(
+        "header line is {bytes} bytes long, above the limit of {limit} ([input] max-header-line-bytes)"
+    )]
+    HeaderLineTooLong { bytes: usize, limit: usize },
+
+    #[error("the header runs past {limit} lines with no ~A section ([input] max-header-lines)")]
+    TooManyHeaderLines { limit: usize },
+
+    #[error("~C declares more than {limit} curves ([input] max-curves)")]
+    TooManyCurves { limit: usize },
 }
 
 /// What is wrong with a file as a whole.
@@ -85,6 +96,8 @@ pub enum FileError {
     Contradiction(String),
     #[error("byte 0x{byte:02X} at line {line} is neither UTF-8 nor printable Windows-1252 text")]
     BadText { line: usize, byte: u8 },
+    #[error("file is {bytes} bytes, above the limit of {limit} bytes ([input] max-file-mb)")]
+    TooLarge { bytes: u64, limit: u64 },
 }
 
 /// An error reading a LAS file: the file, where in it, and what.

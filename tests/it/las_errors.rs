@@ -159,8 +159,15 @@ fn contradictions_warn_and_strict_mode_refuses() {
                 .unwrap_or_else(|e| panic!("{name}: {}", chain(&e)));
             let got: Vec<String> = file.warnings.iter().map(ToString::to_string).collect();
             assert_eq!(got, *expected, "{name} ({label})");
-            let err = read_bytes(&input, Path::new(&name), ReadOptions { strict: true })
-                .expect_err("strict refuses");
+            let err = read_bytes(
+                &input,
+                Path::new(&name),
+                ReadOptions {
+                    strict: true,
+                    ..ReadOptions::default()
+                },
+            )
+            .expect_err("strict refuses");
             let first = expected[0].strip_prefix("line ").expect("line prefix");
             let (line, message) = first.split_once(": ").expect("line: message");
             assert_eq!(

@@ -17,6 +17,8 @@ mod demo;
 /// The batch engine: thread-count independence, the field table, the manifest.
 mod field_run;
 mod fwl_demo;
+/// Hostile and huge input: limits, link loops, odd NULLs, NaN and infinity.
+mod hostile;
 /// Malformed LAS files and the whole error text each must give.
 mod las_errors;
 /// Tiny hand-written LAS files, each testing one rule of the LAS 2.0 standard, plus CRLF twins.

@@ -239,7 +239,10 @@ fn strict_mode_refuses_contradictions() {
     let err = read_bytes(
         &bytes,
         Path::new("Pechelbronn.las"),
-        ReadOptions { strict: true },
+        ReadOptions {
+            strict: true,
+            ..ReadOptions::default()
+        },
     )
     .expect_err("contradiction");
     assert_eq!(

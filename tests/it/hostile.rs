@@ -1,0 +1,177 @@
+//! Hostile and huge input: each case gets a clear error or a documented,
+//! bounded behaviour (README, "Limits"). The limits are the reader's
+//! defaults (flowzone::las::Limits::DEFAULT) unless a case sets its own.
+
+use std::path::Path;
+
+use flowzone::las::{Limits, ReadOptions, read_bytes};
+
+use crate::common::{chain, root, run_config};
+
+const HEAD: &str = "~V\n VERS. 2.0 :\n WRAP. NO :\n~W\n STRT.M 1000 :\n STOP.M 1001 :\n STEP.M 0.5 :\n NULL. -999.25 :\n";
+
+fn read(text: &[u8]) -> Result<flowzone::las::LasFile, String> {
+    read_bytes(text, Path::new("h.las"), ReadOptions::default()).map_err(|e| chain(&e))
+}
+
+#[test]
+fn a_header_line_beyond_64_kib_is_refused() {
+    let long = format!(
+        "{HEAD} COMP. {} : COMPANY\n~C\n DEPT.M :\n~A\n1000\n",
+        "x".repeat(100_000)
+    );
+    let err = read(long.as_bytes()).expect_err("refused");
+    assert!(
+        // " COMP. " (7) + 100 000 + " : COMPANY" (10) = 100 017 bytes
+        err.starts_with("h.las:9: header line is 100017 bytes long, above the limit of 65536"),
+        "{err}"
+    );
+}
+
+#[test]
+fn a_million_curves_are_refused_at_the_limit() {
+    let mut t = format!("{HEAD}~C\n DEPT.M :\n");
+    for i in 0..1_000_000 {
+        t.push_str(&format!(" C{i}.V :\n"));
+    }
+    t.push_str("~A\n1000\n");
+    let err = read(t.as_bytes()).expect_err("refused");
+    // line 10 is DEPT, so the 10 001st curve (C9999) is on line 10 010
+    assert_eq!(
+        err,
+        "h.las:10010: ~C declares more than 10000 curves ([input] max-curves)"
+    );
+    // a row with a million values against three declared curves
+    let row = vec!["1"; 1_000_000].join(" ");
+    let t = format!("{HEAD}~C\n DEPT.M :\n A.V :\n B.V :\n~A\n{row}\n");
+    assert_eq!(
+        read(t.as_bytes()).expect_err("refused"),
+        "h.las:14: row has 1000000 values, ~C declares 3 curves"
+    );
+}
+
+#[test]
+fn ten_million_header_lines_stop_at_the_millionth() {
+    let mut t = String::with_capacity(21_000_000);
+    t.push_str(HEAD);
+    t.push_str("~O\n");
+    for _ in 0..10_000_000 {
+        t.push_str("x\n");
+    }
+    let err = read(t.as_bytes()).expect_err("refused");
+    assert_eq!(
+        err,
+        "h.las:1000001: the header runs past 1000000 lines with no ~A section ([input] max-header-lines)"
+    );
+    // a tighter configured limit applies too
+    let small = Limits {
+        max_header_lines: 20,
+        ..Limits::DEFAULT
+    };
+    let err = read_bytes(
+        t.as_bytes(),
+        Path::new("h.las"),
+        ReadOptions {
+            strict: false,
+            limits: small,
+        },
+    )
+    .expect_err("refused");
+    assert!(chain(&err).starts_with("h.las:21: the header runs past 20 lines"));
+}
+
+#[test]
+fn a_null_real_data_take_is_warned_and_nan_and_infinity_are_handled() {
+    let t = "~V\n VERS. 2.0 :\n WRAP. NO :\n~W\n NULL. 0 :\n~C\n DEPT.M :\n SP.MV :\n~A\n1000 0\n1000.5 -12.5\n1001 nan\n";
+    let f = read(t.as_bytes()).expect("reads");
+    let sp = f.curve_data("SP").expect("SP");
+    assert!(sp[0].is_nan() && sp[2].is_nan() && sp[1] == -12.5);
+    assert!(
+        f.warnings.iter().any(
+            |w| w.line == Some(5) && w.message.starts_with("NULL is 0, a value real logs take")
+        ),
+        "{:?}",
+        f.warnings
+    );
+    let t = "~V\n VERS. 2.0 :\n WRAP. NO :\n~W\n NULL. -999.25 :\n~C\n DEPT.M :\n SP.MV :\n~A\n1000 1\n1000.5 -inf\n";
+    assert_eq!(
+        read(t.as_bytes()).expect_err("refused"),
+        "h.las:11: value 2 of the row, `-inf`, is infinite"
+    );
+}
+
+#[test]
+fn depth_running_backwards_half_way_warns_or_is_refused_when_strict() {
+    let t = format!(
+        "{HEAD}~C\n DEPT.M :\n GR.GAPI :\n~A\n1000 10\n1000.5 11\n1001 12\n1000.5 13\n1000 14\n"
+    );
+    let f = read(t.as_bytes()).expect("reads with a warning");
+    assert!(
+        f.warnings.iter().any(|w| w.message.contains("monoton")),
+        "{:?}",
+        f.warnings
+    );
+    let err = read_bytes(
+        t.as_bytes(),
+        Path::new("h.las"),
+        ReadOptions {
+            strict: true,
+            ..ReadOptions::default()
+        },
+    )
+    .expect_err("strict refuses");
+    assert!(chain(&err).contains("monoton"), "{}", chain(&err));
+}
+
+/// A link loop and a file above the configured size limit in the wells
+/// folder: each is that well's error in the summary; the others run.
+#[cfg(unix)]
+#[test]
+fn a_link_loop_and_an_oversized_file_fail_only_their_wells() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let wells = dir.path().join("wells");
+    std::fs::create_dir(&wells).expect("dir");
+    std::fs::copy(root().join("demo-wells/tarnby-1.las"), wells.join("a.las")).expect("copy");
+    std::os::unix::fs::symlink("loop.las", wells.join("loop.las")).expect("link");
+    // 1.2 MiB of padding in ~O: over a 1 MiB limit
+    let mut big = std::fs::read_to_string(root().join("demo-wells/tarnby-2.las")).expect("read");
+    let at = big.find("~A").expect("~A");
+    let pad: String = (0..20_000).map(|_| "#".repeat(60) + "\n").collect();
+    big.insert_str(at, &pad);
+    std::fs::write(wells.join("big.las"), big).expect("write");
+    let cfg = dir.path().join("p.toml");
+    std::fs::write(
+        &cfg,
+        "[project]\nname = \"t\"\n[input]\nwells = [\"wells\"]\nmax-file-mb = 1\n[parameters.field]\nrw-ohmm = 0.045\nrho-shale-gcc = 2.55\n",
+    )
+    .expect("config");
+    let out = dir.path().join("out");
+    let run = run_config(&cfg, &out, &[]);
+    assert_eq!(
+        run.status.code(),
+        Some(2),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+    let summary: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
+            .expect("json");
+    let w = summary["wells"].as_array().expect("wells");
+    assert_eq!(w.len(), 3);
+    let by_file = |name: &str| {
+        w.iter()
+            .find(|x| x["file"].as_str().expect("file").ends_with(name))
+            .expect("listed")
+    };
+    assert_eq!(by_file("a.las")["ok"], true);
+    let big_err = by_file("big.las")["error"].as_str().expect("error");
+    assert!(
+        big_err.contains("above the limit of 1048576 bytes ([input] max-file-mb)"),
+        "{big_err}"
+    );
+    let loop_err = by_file("loop.las")["error"].as_str().expect("error");
+    assert!(
+        loop_err.contains("cannot read") && loop_err.contains("loop.las"),
+        "{loop_err}"
+    );
+}
