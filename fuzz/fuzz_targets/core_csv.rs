@@ -1,0 +1,12 @@
+//! The core-analysis CSV reader on arbitrary bytes: refuse or read, never panic.
+#![no_main]
+use libfuzzer_sys::fuzz_target;
+mod common;
+
+fuzz_target!(|data: &[u8]| {
+    common::with_file(data, "csv", |p| {
+        for unit in [flowzone::units::DepthUnit::Metre, flowzone::units::DepthUnit::Foot] {
+            let _ = flowzone::core_data::read_core_csv(p, unit);
+        }
+    });
+});
