@@ -15,7 +15,27 @@ use crate::numfmt;
 
 /// The NULL value written for missing samples: the usual LAS value.
 pub const WRITE_NULL: f64 = -999.25;
-const WRITE_NULL_TEXT: &str = "-999.25";
+
+/// NULL values tried in order: the first that no written sample would read
+/// back as is used, so a real -999.25 is never turned into a gap.
+const NULL_CANDIDATES: [&str; 4] = ["-999.25", "-9999.25", "-99999.25", "-999999.25"];
+
+/// The NULL text for these columns at these decimals: the first candidate
+/// that no finite value, as written, equals.
+fn choose_null(columns: &[&[f64]], decimals: &[usize]) -> &'static str {
+    let collides = |null: f64| {
+        columns.iter().zip(decimals).any(|(col, &d)| {
+            let scale = 10f64.powi(d.min(15) as i32);
+            col.iter()
+                .any(|&v| v.is_finite() && ((v * scale).round() / scale - null).abs() < 1e-9)
+        })
+    };
+    NULL_CANDIDATES
+        .iter()
+        .copied()
+        .find(|t| !collides(t.parse().unwrap_or(WRITE_NULL)))
+        .unwrap_or(NULL_CANDIDATES[NULL_CANDIDATES.len() - 1])
+}
 
 /// Most decimals [`decimals_needed`] returns.
 pub const MAX_DECIMALS: usize = 8;
@@ -162,7 +182,8 @@ pub fn write_parts(mut out: impl Write, file: &LasParts<'_>, decimals: &[usize])
             "STEP (0: IRREGULAR SPACING)"
         },
     )?;
-    header_line(&mut out, "NULL", "", WRITE_NULL_TEXT, "NULL VALUE")?;
+    let null_text = choose_null(file.columns, &decimals);
+    header_line(&mut out, "NULL", "", null_text, "NULL VALUE")?;
     let skip = ["STRT", "STOP", "STEP", "NULL"];
     for item in file
         .well_items
@@ -205,7 +226,7 @@ pub fn write_parts(mut out: impl Write, file: &LasParts<'_>, decimals: &[usize])
             fmt(lo, d)
                 .len()
                 .max(fmt(hi, d).len())
-                .max(WRITE_NULL_TEXT.len())
+                .max(null_text.len())
                 .max(c.mnemonic.len())
                 + 1
         })
@@ -225,7 +246,7 @@ pub fn write_parts(mut out: impl Write, file: &LasParts<'_>, decimals: &[usize])
             if v.is_finite() {
                 numfmt::push_fixed_right(&mut line, v, d, w - 1);
             } else {
-                numfmt::push_right(&mut line, WRITE_NULL_TEXT.as_bytes(), w - 1);
+                numfmt::push_right(&mut line, null_text.as_bytes(), w - 1);
             }
         }
         line.push(b'\n');
@@ -270,6 +291,43 @@ pub fn new_file(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// A real sample of -999.25 (as written) moves the NULL to the next
+    /// candidate, so it reads back as a value, not a gap.
+    #[test]
+    fn a_real_minus_999_25_is_not_written_as_null() {
+        let cols: [&[f64]; 2] = [&[1.0, 2.0], &[-999.2500001, f64::NAN]];
+        assert_eq!(choose_null(&cols, &[1, 4]), "-9999.25");
+        // at 1 decimal it is written -999.3, which is not the NULL
+        assert_eq!(choose_null(&cols, &[1, 1]), "-999.25");
+        let info = |m: &str| crate::las::CurveInfo {
+            mnemonic: m.into(),
+            original_mnemonic: m.into(),
+            unit: String::new(),
+            api_code: String::new(),
+            description: String::new(),
+            line: 0,
+        };
+        let file = new_file(
+            Vec::new(),
+            Vec::new(),
+            vec![
+                (info("DEPT"), vec![1.0, 2.0]),
+                (info("X"), vec![-999.25, f64::NAN]),
+            ],
+        );
+        let mut out = Vec::new();
+        write_las(&mut out, &file, &[1, 2]).expect("in memory");
+        let back = crate::las::read_bytes(
+            &out,
+            std::path::Path::new("n.las"),
+            crate::las::ReadOptions::default(),
+        )
+        .expect("reads");
+        assert_eq!(back.null_value, Some(-9999.25));
+        assert_eq!(back.columns[1][0], -999.25);
+        assert!(back.columns[1][1].is_nan());
+    }
 
     #[test]
     fn decimals_found() {
