@@ -39,7 +39,9 @@ seed() { # seed TARGET: copy seed files into the corpus
 }
 
 echo "== build"
-cargo +nightly fuzz build --release "${TARGETS[@]}" 2>&1 | tail -3
+for t in "${TARGETS[@]}"; do
+    cargo +nightly fuzz build --release "$t" 2>&1 | tail -2
+done
 printf '%-14s %12s %10s %s\n' target executions seconds result
 for t in "${TARGETS[@]}"; do
     seed "$t"

@@ -1011,22 +1011,13 @@ use std::io::Write as _;
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::capillary_data::BrooksCoreyJ;
     use crate::testutil::assert_close;
 
     fn model(curves: Vec<JCurve>) -> SatHeightModel {
         SatHeightModel::new_for_audit(curves, 26.0, Vec::new(), DepthUnit::Foot)
     }
 
-    fn bc(jd: f64, lambda: f64, swirr: f64) -> JCurve {
-        JCurve::BrooksCorey(BrooksCoreyJ {
-            jd,
-            lambda,
-            swirr,
-            rms_sw: 0.0,
-            points: 0,
-        })
-    }
+    use crate::testutil::brooks_corey_j as bc;
 
     /// Source: formulas.md §8.7 constructed check (σcosθ 26, Δρ 0.30, one
     /// Brooks-Corey J-curve Jd 0.05, λ 1.5, Swirr 0.10): class A (500 mD, φ

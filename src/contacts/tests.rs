@@ -1,7 +1,7 @@
 //! Constructed profiles with known answers for the contact audit.
 
 use super::*;
-use crate::capillary_data::{BrooksCoreyJ, JCurve};
+use crate::capillary_data::JCurve;
 use crate::testutil::assert_close;
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
@@ -14,15 +14,7 @@ const FWL: f64 = 2085.0;
 /// Vertical well: MD = TVDSS + this.
 const KB: f64 = 30.0;
 
-fn bc(jd: f64, lambda: f64, swirr: f64) -> JCurve {
-    JCurve::BrooksCorey(BrooksCoreyJ {
-        jd,
-        lambda,
-        swirr,
-        rms_sw: 0.0,
-        points: 0,
-    })
-}
+use crate::testutil::brooks_corey_j as bc;
 
 fn comp(fwl: f64, rho_water: f64, rho_hc: f64) -> CompartmentFwl {
     CompartmentFwl {

@@ -179,3 +179,27 @@ pub fn run_summary(cfg: &Path, out: &Path) -> serde_json::Value {
     serde_json::from_slice(&std::fs::read(out.join("run-summary.json")).expect("summary"))
         .expect("json")
 }
+
+/// Every file under `dir` (relative path → bytes), except hidden ones
+/// (temporary files) and run-manifest.json, whose times change from run
+/// to run.
+pub fn files(dir: &Path) -> std::collections::BTreeMap<PathBuf, Vec<u8>> {
+    let mut out = std::collections::BTreeMap::new();
+    let mut stack = vec![dir.to_path_buf()];
+    while let Some(d) = stack.pop() {
+        for e in std::fs::read_dir(&d).expect("read dir") {
+            let p = e.expect("entry").path();
+            let name = p
+                .file_name()
+                .map(|n| n.to_string_lossy().into_owned())
+                .unwrap_or_default();
+            if p.is_dir() {
+                stack.push(p);
+            } else if !name.starts_with('.') && name != "run-manifest.json" {
+                let rel = p.strip_prefix(dir).expect("under dir").to_path_buf();
+                out.insert(rel, std::fs::read(&p).expect("read"));
+            }
+        }
+    }
+    out
+}

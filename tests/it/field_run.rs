@@ -6,25 +6,23 @@ use std::path::{Path, PathBuf};
 
 use polars::prelude::{DataType, ParquetReader, SerReader};
 
-use crate::common::{col, read_table, root, run_config, run_demo_field};
+use crate::common::{col, files, read_table, root, run_config, run_demo_field};
 
-/// Every file under `dir` (relative path → bytes), except the manifest,
-/// whose start and end times change from run to run.
-fn files(dir: &Path) -> BTreeMap<PathBuf, Vec<u8>> {
-    let mut out = BTreeMap::new();
-    let mut stack = vec![dir.to_path_buf()];
-    while let Some(d) = stack.pop() {
-        for e in std::fs::read_dir(&d).expect("read dir") {
-            let p = e.expect("entry").path();
-            if p.is_dir() {
-                stack.push(p);
-            } else if p.file_name().is_some_and(|n| n != "run-manifest.json") {
-                let rel = p.strip_prefix(dir).expect("under dir").to_path_buf();
-                out.insert(rel, std::fs::read(&p).expect("read"));
-            }
-        }
+/// `dir`'s files (shard states aside) are `expected`'s, byte for byte.
+#[track_caller]
+fn assert_same_files(expected: &BTreeMap<PathBuf, Vec<u8>>, dir: &Path, what: &str) {
+    let got: BTreeMap<PathBuf, Vec<u8>> = files(dir)
+        .into_iter()
+        .filter(|(k, _)| !k.starts_with("shards"))
+        .collect();
+    assert_eq!(
+        expected.keys().collect::<Vec<_>>(),
+        got.keys().collect::<Vec<_>>(),
+        "{what}"
+    );
+    for (k, v) in expected {
+        assert!(got[k] == *v, "{} differs ({what})", k.display());
     }
-    out
 }
 
 /// The demo run with 1 thread and with 4 threads, into the same folder one
@@ -129,18 +127,7 @@ fn three_shards_and_merge_equal_one_run() {
 
     let merged = dir.path().join("merged");
     ok(&merge(&cfg, &merged, &shard_dirs));
-    let got = files(&merged);
-    assert_eq!(
-        single.keys().collect::<Vec<_>>(),
-        got.keys().collect::<Vec<_>>()
-    );
-    for (k, v) in &single {
-        assert!(
-            got[k] == *v,
-            "{} differs between one run and 3 shards + merge",
-            k.display()
-        );
-    }
+    assert_same_files(&single, &merged, "3 shards + merge");
     let manifest: serde_json::Value =
         serde_json::from_slice(&std::fs::read(merged.join("run-manifest.json")).expect("manifest"))
             .expect("json");
@@ -160,17 +147,7 @@ fn three_shards_and_merge_equal_one_run() {
         ok(&run_config(&cfg, &shared, &["--shard", &format!("{k}/3")]));
     }
     ok(&merge(&cfg, &shared, &[]));
-    let got: BTreeMap<PathBuf, Vec<u8>> = files(&shared)
-        .into_iter()
-        .filter(|(k, _)| !k.starts_with("shards"))
-        .collect();
-    assert_eq!(
-        single.keys().collect::<Vec<_>>(),
-        got.keys().collect::<Vec<_>>()
-    );
-    for (k, v) in &single {
-        assert!(got[k] == *v, "{} differs (shared folder)", k.display());
-    }
+    assert_same_files(&single, &shared, "shared folder");
 
     // refusals: a missing shard, a config changed after the shards ran
     let run = merge(&cfg, &dir.path().join("m2"), &shard_dirs[..2]);
@@ -239,17 +216,7 @@ fn slurm_example_scripts_run_the_field() {
     let one = dir.path().join("one");
     ok(&run_config(&cfg, &one, &[]));
     let single = files(&one);
-    let got: BTreeMap<PathBuf, Vec<u8>> = files(&merged)
-        .into_iter()
-        .filter(|(k, _)| !k.starts_with("shards"))
-        .collect();
-    assert_eq!(
-        single.keys().collect::<Vec<_>>(),
-        got.keys().collect::<Vec<_>>()
-    );
-    for (k, v) in &single {
-        assert!(got[k] == *v, "{} differs (Slurm example)", k.display());
-    }
+    assert_same_files(&single, &merged, "Slurm example");
 }
 
 /// The field table: one Parquet file per well with one schema (WELL, then

@@ -3,31 +3,10 @@
 //! killed with SIGKILL leaves every finished well's files whole and a
 //! journal saying which wells finished.
 
-use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 use std::time::{Duration, Instant};
 
-use crate::common::{flowzone, root, run_config};
-
-/// Relative path → bytes of every file under `dir` except hidden ones
-/// (temporary files) and the manifest (it holds times).
-fn files(dir: &Path) -> BTreeMap<PathBuf, Vec<u8>> {
-    let mut out = BTreeMap::new();
-    let mut stack = vec![dir.to_path_buf()];
-    while let Some(d) = stack.pop() {
-        for e in std::fs::read_dir(&d).expect("read dir") {
-            let p = e.expect("entry").path();
-            let name = p.file_name().expect("name").to_string_lossy().into_owned();
-            if p.is_dir() {
-                stack.push(p);
-            } else if !name.starts_with('.') && name != "run-manifest.json" {
-                let rel = p.strip_prefix(dir).expect("under dir").to_path_buf();
-                out.insert(rel, std::fs::read(&p).expect("read"));
-            }
-        }
-    }
-    out
-}
+use crate::common::{files, flowzone, root, run_config};
 
 #[test]
 fn reruns_need_overwrite_and_inputs_are_never_written() {
