@@ -400,6 +400,81 @@ struct PressureRow {
     quality: Option<String>,
 }
 
+/// A pressure point the FWL fit can use.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PressureObs {
+    /// The CSV line it came from (1 = header).
+    pub line: u64,
+    pub well: String,
+    /// True vertical depth subsea, m (positive down).
+    pub tvdss_m: f64,
+    /// Formation pressure, psi (> 0).
+    pub psi: f64,
+}
+
+/// Read a pressure-points CSV: WELL, PRESSURE_PSI, the depth as TVDSS_M or
+/// TVDSS_FT (one of them) or DEPTH_MD (with an optional DEPTH_UNIT, else
+/// `depth_unit`), and an optional QUALITY. Points given by MD go through
+/// `tvdss_of` (MD and TVDSS in `depth_unit`). Returns the usable points and,
+/// by line, the rows left out with the reason: a depth that cannot be had, a
+/// depth or pressure that is not a finite number (pressure must be > 0), a
+/// QUALITY listed in `exclude_quality` (any case). A file that cannot be read
+/// as the table is an error.
+pub fn read_pressure_points(
+    path: &Path,
+    depth_unit: DepthUnit,
+    exclude_quality: &[String],
+    tvdss_of: TvdssOf<'_>,
+) -> Result<(Vec<PressureObs>, Vec<Rejected>), crate::tables::TableError> {
+    let to_m = depth_unit.factor_to(DepthUnit::Metre);
+    let rows: Vec<(u64, PressureRow)> = crate::tables::read_csv(path)?;
+    let mut points = Vec::with_capacity(rows.len());
+    let mut left_out = Vec::new();
+    for (line, r) in rows {
+        let tvdss_m = match (r.tvdss_m, r.tvdss_ft, r.depth_md) {
+            (Some(m), None, _) => Ok(m),
+            (None, Some(f), _) => Ok(f * DepthUnit::Foot.factor_to(DepthUnit::Metre)),
+            (None, None, Some(md)) => DepthUnit::from_optional(r.depth_unit.as_deref(), depth_unit)
+                .and_then(|u| tvdss_of(&r.well, md * u.factor_to(depth_unit)))
+                .map(|t| t * to_m),
+            _ => Err("give TVDSS_M or TVDSS_FT (not both), or DEPTH_MD".into()),
+        };
+        let tvdss_m = match tvdss_m {
+            Ok(t) => t,
+            Err(reason) => {
+                left_out.push(Rejected { line, reason });
+                continue;
+            }
+        };
+        if !(tvdss_m.is_finite() && r.psi.is_finite() && r.psi > 0.0) {
+            left_out.push(Rejected {
+                line,
+                reason: format!("TVDSS {tvdss_m} m or pressure {} psi not usable", r.psi),
+            });
+            continue;
+        }
+        if let Some(q) = r
+            .quality
+            .as_deref()
+            .map(str::trim)
+            .filter(|q| exclude_quality.iter().any(|x| x.eq_ignore_ascii_case(q)))
+        {
+            left_out.push(Rejected {
+                line,
+                reason: format!("{}: QUALITY {q}", r.well),
+            });
+            continue;
+        }
+        points.push(PressureObs {
+            line,
+            well: r.well,
+            tvdss_m,
+            psi: r.psi,
+        });
+    }
+    Ok((points, left_out))
+}
+
 /// Does compartment `c` hold the well named by any of `names`?
 fn holds(c: &Option<Vec<String>>, names: &[&str]) -> Option<bool> {
     c.as_ref().map(|list| {
@@ -446,54 +521,22 @@ fn compartments(
     if let Some(p) = &config.pressures {
         min_leg = p.min_leg_points;
         let path = config.resolve_path(&p.file);
-        let rows: Vec<(u64, PressureRow)> =
-            crate::tables::read_csv(&path).map_err(|e| usage(chain(&e)))?;
-        for (line, r) in rows {
-            let tvdss_m = match (r.tvdss_m, r.tvdss_ft, r.depth_md) {
-                (Some(m), None, _) => Ok(m),
-                (None, Some(f), _) => Ok(f * DepthUnit::Foot.factor_to(DepthUnit::Metre)),
-                (None, None, Some(md)) => DepthUnit::from_optional(r.depth_unit.as_deref(), du)
-                    .and_then(|u| tvdss_of(&r.well, md * u.factor_to(du)))
-                    .map(|t| t * to_m),
-                _ => Err("give TVDSS_M or TVDSS_FT (not both), or DEPTH_MD".into()),
-            };
-            let tvdss_m = match tvdss_m {
-                Ok(t) => t,
-                Err(reason) => {
-                    left_out.push(Rejected { line, reason });
-                    continue;
-                }
-            };
-            if !(tvdss_m.is_finite() && r.psi.is_finite() && r.psi > 0.0) {
-                left_out.push(Rejected {
-                    line,
-                    reason: format!("TVDSS {tvdss_m} m or pressure {} psi not usable", r.psi),
-                });
-                continue;
-            }
-            if let Some(q) = r
-                .quality
-                .as_deref()
-                .map(str::trim)
-                .filter(|q| p.exclude_quality.iter().any(|x| x.eq_ignore_ascii_case(q)))
-            {
-                left_out.push(Rejected {
-                    line,
-                    reason: format!("{}: QUALITY {q}", r.well),
-                });
-                continue;
-            }
-            match compartment_of(&cfgs, |c| &c.wells, &[r.well.as_str()]) {
+        let (obs, rejected) = read_pressure_points(&path, du, &p.exclude_quality, tvdss_of)
+            .map_err(|e| usage(chain(&e)))?;
+        left_out = rejected;
+        for o in obs {
+            match compartment_of(&cfgs, |c| &c.wells, &[o.well.as_str()]) {
                 Some((name, _)) => {
                     let k = cfgs.iter().position(|(n, _)| n == name).unwrap_or(0);
-                    points[k].push((tvdss_m, r.psi));
+                    points[k].push((o.tvdss_m, o.psi));
                 }
                 None => left_out.push(Rejected {
-                    line,
-                    reason: format!("well {} is in no compartment", r.well),
+                    line: o.line,
+                    reason: format!("well {} is in no compartment", o.well),
                 }),
             }
         }
+        left_out.sort_by_key(|r| r.line);
     }
     let mut out = Vec::with_capacity(cfgs.len());
     for ((name, c), pts) in cfgs.into_iter().zip(points) {
@@ -1018,6 +1061,57 @@ mod tests {
     }
 
     use crate::testutil::brooks_corey_j as bc;
+
+    /// Each way of giving a point's depth, and each reason to leave one out.
+    /// 1 ft = 0.3048 m exactly (international foot, 1959); MD points go
+    /// through the caller's conversion (here TVDSS = MD − 30 m).
+    #[test]
+    fn pressure_points_by_depth_kind_and_reason() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("pressures.csv");
+        std::fs::write(
+            &path,
+            "WELL,DEPTH_MD,DEPTH_UNIT,TVDSS_M,TVDSS_FT,PRESSURE_PSI,QUALITY\n\
+             A-1,,,2000.0,,2900.5,good\n\
+             A-1,,,,6600.0,2910.0,\n\
+             A-2,2040.0,,,,2920.0,Good\n\
+             A-2,6700.0,FT,,,2930.0,\n\
+             A-2,,,2050.0,6725.0,2940.0,\n\
+             A-3,,,2060.0,,-5.0,\n\
+             A-3,,,2070.0,,2950.0, POOR \n\
+             A-3,,,,,2960.0,\n\
+             B-9,2090.0,,,,2970.0,\n",
+        )
+        .unwrap();
+        let tvdss_of = |well: &str, md: f64| {
+            if well == "B-9" {
+                Err("B-9 has no datum elevation".to_string())
+            } else {
+                Ok(md - 30.0)
+            }
+        };
+        let (points, left_out) =
+            read_pressure_points(&path, DepthUnit::Metre, &["poor".to_string()], &tvdss_of)
+                .unwrap();
+        let got: Vec<(u64, &str, f64, f64)> = points
+            .iter()
+            .map(|p| (p.line, p.well.as_str(), p.tvdss_m, p.psi))
+            .collect();
+        assert_eq!(got.len(), 4, "{got:?}");
+        assert_eq!(got[0], (2, "A-1", 2000.0, 2900.5));
+        assert_eq!((got[1].0, got[1].1), (3, "A-1"));
+        assert_close(got[1].2, 6600.0 * 0.3048, 1e-9);
+        assert_eq!(got[2], (4, "A-2", 2010.0, 2920.0));
+        assert_eq!((got[3].0, got[3].1), (5, "A-2"));
+        assert_close(got[3].2, 6700.0 * 0.3048 - 30.0, 1e-9);
+        let lines: Vec<u64> = left_out.iter().map(|r| r.line).collect();
+        assert_eq!(lines, [6, 7, 8, 9, 10]);
+        assert!(left_out[0].reason.contains("not both"), "{:?}", left_out[0]);
+        assert!(left_out[1].reason.contains("-5 psi"), "{:?}", left_out[1]);
+        assert!(left_out[2].reason.contains("QUALITY POOR"), "{:?}", left_out[2]);
+        assert!(left_out[3].reason.contains("not both"), "{:?}", left_out[3]);
+        assert_eq!(left_out[4].reason, "B-9 has no datum elevation");
+    }
 
     /// Source: formulas.md §8.7 constructed check (σcosθ 26, Δρ 0.30, one
     /// Brooks-Corey J-curve Jd 0.05, λ 1.5, Swirr 0.10): class A (500 mD, φ
