@@ -483,6 +483,11 @@ pub fn tick_label(v: f64) -> String {
     } else {
         ((-a.log10()).floor() as usize + 2).min(6)
     };
+    trim_number(v, decimals)
+}
+
+/// `v` with at most `decimals` decimals and no trailing zeros ("-0" is "0").
+pub fn trim_number(v: f64, decimals: usize) -> String {
     let mut s = format!("{v:.decimals$}");
     if s.contains('.') {
         while s.ends_with('0') {
@@ -492,7 +497,7 @@ pub fn tick_label(v: f64) -> String {
             s.pop();
         }
     }
-    s
+    if s == "-0" { "0".into() } else { s }
 }
 
 #[cfg(test)]
@@ -501,6 +506,10 @@ mod tests {
 
     #[test]
     fn escaping_and_numbers() {
+        assert_eq!(trim_number(2.0, 2), "2");
+        assert_eq!(trim_number(0.05, 4), "0.05");
+        assert_eq!(trim_number(-0.0001, 2), "0");
+        assert_eq!(tick_label(-1e-7), "0");
         assert_eq!(
             escape("a<b & \"c\" 'd'>"),
             "a&lt;b &amp; &quot;c&quot; &#39;d&#39;&gt;"

@@ -23,7 +23,7 @@ use super::{ArchieLine, Boundaries, CorePoint, JClass, PickettPoint, PressureCom
 use crate::classes::flow_units::{
     WINLAND_INTERCEPT, WINLAND_LOG_K, WINLAND_LOG_PHI, perm_from_fzi,
 };
-use crate::svg::{Anchor, Scale, Stroke, Svg, palette, tick_label};
+use crate::svg::{Anchor, Scale, Stroke, Svg, palette, tick_label, trim_number};
 
 const W: f64 = 640.0;
 const H: f64 = 480.0;
@@ -375,20 +375,6 @@ fn nice_range(min: f64, max: f64, n: usize) -> (f64, f64) {
     (value(a), value(b))
 }
 
-/// A number in a label: at most `decimals`, trailing zeros dropped.
-fn short(v: f64, decimals: usize) -> String {
-    let mut s = format!("{v:.decimals$}");
-    if s.contains('.') {
-        while s.ends_with('0') {
-            s.pop();
-        }
-        if s.ends_with('.') {
-            s.pop();
-        }
-    }
-    if s == "-0" { "0".into() } else { s }
-}
-
 /// Where the increasing `pred` first holds on [lo, hi] (`pred(lo)` false,
 /// `pred(hi)` true), by bisection.
 fn bisect(pred: impl Fn(f64) -> bool, mut lo: f64, mut hi: f64) -> f64 {
@@ -595,7 +581,7 @@ pub fn pickett(points: &[PickettPoint], lines: &[ArchieLine], rw_ohmm: f64) -> S
     let subtitle = if rw_ok {
         format!(
             "Rw {} ohm.m; {} of {} depths drawn",
-            short(rw_ohmm, 4),
+            trim_number(rw_ohmm, 4),
             drawn.len(),
             points.len()
         )
@@ -625,9 +611,9 @@ pub fn pickett(points: &[PickettPoint], lines: &[ArchieLine], rw_ohmm: f64) -> S
             let label = match lines.iter().find(|l| l.class == c) {
                 Some(l) => format!(
                     "class {c}: a {}, m {}, n {}",
-                    short(l.a, 2),
-                    short(l.m, 2),
-                    short(l.n, 2)
+                    trim_number(l.a, 2),
+                    trim_number(l.m, 2),
+                    trim_number(l.n, 2)
                 ),
                 None => format!("class {c}"),
             };
@@ -710,8 +696,8 @@ fn archie_lines(s: &mut Svg, xs: &Scale, ys: &Scale, lines: &[ArchieLine], rw: f
                 let label = format!(
                     "class {}, m {}, n {}",
                     l.class,
-                    short(l.m, 2),
-                    short(l.n, 2)
+                    trim_number(l.m, 2),
+                    trim_number(l.n, 2)
                 );
                 // staggered rows above the bottom so that labels of lines
                 // ending close together do not overlap
@@ -1538,8 +1524,6 @@ mod tests {
             log_span([0.5, 3000.0].into_iter(), -2, 3, -6, 6),
             (0.01, 10000.0)
         );
-        assert_eq!(short(2.0, 2), "2");
-        assert_eq!(short(0.05, 4), "0.05");
         assert_eq!(
             wrap("class 2: Brooks-Corey, rms Sw 0.012", 26),
             vec!["class 2: Brooks-Corey, rms", "Sw 0.012"]
