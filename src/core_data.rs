@@ -289,7 +289,9 @@ pub fn read_spwla(
                     .nth(2)
                     .and_then(|v| v.parse().ok())
                     .unwrap_or(vars.len());
-                let mut values: Vec<Option<f64>> = Vec::with_capacity(n);
+                // sized by the variables read, never by the record's own count:
+                // a damaged count (billions) must not become an allocation
+                let mut values: Vec<Option<f64>> = Vec::with_capacity(n.min(vars.len()));
                 let mut j = i + 1;
                 let mut bad = false;
                 while values.len() < n && j < lines.len() && code(lines[j]).parse::<u32>().is_err()

@@ -819,8 +819,13 @@ fn split_at_next_section(rest: &[u8]) -> (&[u8], Option<usize>) {
     (rest, None)
 }
 
-/// Expected number of rows, to size the column vectors once.
+/// Expected number of rows, to size the column vectors once. STRT, STOP and
+/// STEP give it when they agree with the data section's size: every value
+/// takes at least two bytes (a digit and a separator), so a header that
+/// claims more rows than the bytes can hold (damaged, or hostile) cannot
+/// make the reader reserve memory the file does not need.
 fn rows_hint(well: &[HeaderItem], data_len: usize, n_curves: usize, wrapped: bool) -> usize {
+    let most_rows = data_len / (2 * n_curves.max(1)) + 1;
     let get = |m: &str| {
         well.iter()
             .find(|i| i.mnemonic.eq_ignore_ascii_case(m))
@@ -830,7 +835,7 @@ fn rows_hint(well: &[HeaderItem], data_len: usize, n_curves: usize, wrapped: boo
         if s != 0.0 {
             let n = ((b - a) / s).round();
             if (0.0..1e8).contains(&n) {
-                return n as usize + 1;
+                return (n as usize + 1).min(most_rows);
             }
         }
     }
@@ -858,4 +863,40 @@ pub fn step_range(index: &[f64]) -> (f64, f64) {
         .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), d| {
             (lo.min(d), hi.max(d))
         })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn items(strt: &str, stop: &str, step: &str) -> Vec<HeaderItem> {
+        [("STRT", strt), ("STOP", stop), ("STEP", step)]
+            .into_iter()
+            .enumerate()
+            .map(|(k, (m, v))| HeaderItem {
+                mnemonic: m.into(),
+                unit: "M".into(),
+                value: v.into(),
+                description: String::new(),
+                line: k + 1,
+            })
+            .collect()
+    }
+
+    /// The hint sizes every curve's column. An honest header gives the row
+    /// count exactly; a header claiming more rows than the data section's
+    /// bytes can hold (two bytes a value at least) gets what the bytes allow:
+    /// found by fuzzing the SPWLA reader, whose value count went straight to
+    /// an allocation the same way (common practice: never size a buffer by
+    /// an untrusted count).
+    #[test]
+    fn rows_hint_trusts_the_header_only_as_far_as_the_bytes_go() {
+        let data = "1000 1\n1000.5 2\n1001 3\n";
+        assert_eq!(rows_hint(&items("1000", "1001", "0.5"), data.len(), 2, false), 3);
+        // 10 million rows claimed over 2 000 curves: 160 GB if believed
+        let hint = rows_hint(&items("0", "9999999", "1"), 100, 2000, false);
+        assert_eq!(hint, 1);
+        // no usable STEP: the byte estimate (about 10 bytes a value)
+        assert_eq!(rows_hint(&items("0", "10", "0"), 2100, 2, false), 2100 / 21 + 1);
+    }
 }

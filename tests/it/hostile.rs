@@ -4,7 +4,9 @@
 
 use std::path::Path;
 
+use flowzone::core_data::read_spwla;
 use flowzone::las::{Limits, ReadOptions, read_bytes};
+use flowzone::units::DepthUnit;
 
 use crate::common::{chain, root, run_config};
 
@@ -173,5 +175,47 @@ fn a_link_loop_and_an_oversized_file_fail_only_their_wells() {
     assert!(
         loop_err.contains("cannot read") && loop_err.contains("loop.las"),
         "{loop_err}"
+    );
+}
+
+/// Fuzzing found (core_spwla target): a value record (40) whose declared
+/// count went straight to an allocation. 6 580 775 807 values is 105 GB, and
+/// a failed allocation aborts the process, which no error handling catches;
+/// a larger count panicked with "capacity overflow". The minimised input,
+/// kept as found, has no variable definitions: refused with the reason.
+#[test]
+fn fuzz_spwla_value_count_is_not_an_allocation() {
+    let path = root().join("tests/data/fuzz/core_spwla-value-count-6580775807");
+    for unit in [DepthUnit::Metre, DepthUnit::Foot] {
+        let err = read_spwla(&path, unit, DepthUnit::Metre).expect_err("no record 15");
+        assert!(chain(&err).contains("no record 15"), "{}", chain(&err));
+    }
+}
+
+/// The same damage on a real sample: the record claiming 4 000 000 000 values
+/// is left out by line with both counts, and the good sample after it is read.
+#[test]
+fn a_spwla_value_record_with_a_damaged_count_is_left_out() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("damaged.spwla");
+    std::fs::write(
+        &path,
+        "10     1\n    TEST-1\n    Lab\n15    2    2\n\
+         \x20         1512      1602  2031   0Lab    Klinkenberg corrected gas perm, Hor.\n\
+         \x20         1402      1211  3084   0Lab    Porosity, Horizontal PLUG\n\
+         30     1\n  2000.50\n40     1   4000000000\n  150.0  21.5\n\
+         30     1\n  2001.00\n40     1   2\n  90.0  19.0\n",
+    )
+    .unwrap();
+    let (core, _vars) = read_spwla(&path, DepthUnit::Metre, DepthUnit::Metre).expect("read");
+    assert_eq!(core.samples.len(), 1);
+    let s = &core.samples[0];
+    assert_eq!((s.depth, s.perm_md), (2001.0, 90.0));
+    assert!((s.porosity - 0.19).abs() < 1e-12, "percent read as 0.19: {}", s.porosity);
+    assert_eq!(core.rejected.len(), 1);
+    assert_eq!(core.rejected[0].line, 10);
+    assert_eq!(
+        core.rejected[0].reason,
+        "value record has 2 readable values of 4000000000 (truncated or malformed)"
     );
 }
