@@ -63,6 +63,10 @@ pub fn fit_line(points: &[(f64, f64)]) -> Option<Line> {
     let g = sxy / sxx;
     let b = mp - g * md;
     let sse: f64 = points.iter().map(|p| (p.1 - (g * p.0 + b)).powi(2)).sum();
+    if !(g.is_finite() && b.is_finite() && sse.is_finite()) {
+        // sums that overflowed: no line f64 can hold
+        return None;
+    }
     let s2 = if points.len() > 2 {
         sse / (n - 2.0)
     } else {
@@ -125,6 +129,12 @@ fn intersect(upper: Line, lower: Line, split: usize) -> Result<FwlFit, String> {
         ));
     }
     let d = (lower.intercept_psi - upper.intercept_psi) / dg;
+    let p = upper.pressure_at(d);
+    if !(d.is_finite() && p.is_finite()) {
+        return Err(format!(
+            "the legs cross at no finite depth and pressure (TVDSS {d} m, {p} psi): check the points' units"
+        ));
+    }
     // D = (b_l − b_u)/(g_u − g_l): partial derivatives for error propagation
     let dd_dbl = 1.0 / dg;
     let dd_dbu = -1.0 / dg;
@@ -137,7 +147,7 @@ fn intersect(upper: Line, lower: Line, split: usize) -> Result<FwlFit, String> {
     };
     let sigma = (var(&upper, dd_dbu, dd_dgu) + var(&lower, dd_dbl, dd_dgl)).sqrt();
     Ok(FwlFit {
-        fwl_pressure_psi: upper.pressure_at(d),
+        fwl_pressure_psi: p,
         fwl_tvdss_m: d,
         fwl_sigma_m: sigma,
         density_contrast_gcc: lower.density_gcc() - upper.density_gcc(),
@@ -314,6 +324,30 @@ mod tests {
             .collect();
         let err = fit_fwl_auto(&one, 2).expect_err("parallel");
         assert!(err.contains("the two legs are parallel"), "{err}");
+    }
+
+    /// Finite points whose sums overflow (pressures near f64::MAX, depths of
+    /// 1e200 m) made NaN lines, and every comparison with NaN is false, so a
+    /// NaN free water level came back as a fit. Found while triaging the
+    /// pressures fuzz target (by reading, not by the fuzzer in its 2 minutes).
+    #[test]
+    fn overflowing_points_are_refused_not_fitted_to_nan() {
+        let huge_p: Vec<(f64, f64)> = (0..6)
+            .map(|i| (2000.0 + 10.0 * f64::from(i), 1e308 - 1e300 * f64::from(i)))
+            .collect();
+        assert!(fit_line(&huge_p[..3]).is_none());
+        let err = fit_fwl_auto(&huge_p, 2).expect_err("overflow");
+        assert!(err.contains("no split gives two legs"), "{err}");
+        assert!(fit_fwl_split_at(&huge_p, 2025.0).is_err());
+        let huge_d: Vec<(f64, f64)> = (0..6)
+            .map(|i| (1e200 * f64::from(i + 1), 3000.0 + f64::from(i)))
+            .collect();
+        assert!(fit_fwl_auto(&huge_d, 2).is_err());
+        // two finite legs, flat at 5e307 psi over a 0.05 psi/m leg through 0
+        // (contrast 0.035 g/cm3, above the least): they cross at 1e309 m
+        let far = [(0.0, 5e307), (1.0, 5e307), (2.0, 5e307), (3.0, 0.15), (4.0, 0.2), (5.0, 0.25)];
+        let err = fit_fwl_split_at(&far, 2.5).expect_err("beyond f64");
+        assert!(err.contains("no finite depth"), "{err}");
     }
 
     /// Exact points on an oil and a water line recover the FWL over a grid of
