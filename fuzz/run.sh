@@ -9,7 +9,8 @@
 # Build: no sanitizer (flowzone has no unsafe code, and the readers call no C)
 # but debug assertions on, so integer overflow and our debug_assert!s count
 # as crashes too.
-# Seeds: the repository's test files and ../shared samples of each kind.
+# Seeds: the repository's test files, ../shared samples of each kind, and
+# fuzz/seeds/TARGET/ (hand-made edge cases).
 # Results: a line per target on stdout and appended to fuzz/results.txt.
 # A crash is saved under fuzz/artifacts/TARGET/; turn it into a regression
 # test (tests/data/fuzz/ and a case in tests/it/hostile.rs) before fixing it.
@@ -43,7 +44,9 @@ seed() { # seed TARGET: copy seed files into the corpus (a kind may have none)
         zones_csv) ls "$ROOT/demo-wells/zones.csv" "$ROOT"/demo-wells/*tops*.csv 2>/dev/null || true ;;
         survey_csv) ls "$ROOT"/demo-wells/surveys/*.csv 2>/dev/null || true ;;
         config) ls "$ROOT"/config/*.toml 2>/dev/null || true ;;
+        *) ;;
     esac | while read -r f; do cp "$f" "$dir/seed-$(basename "$f")"; done
+    if [ -d "seeds/$t" ]; then cp seeds/"$t"/* "$dir"/; fi
 }
 
 echo "== build"

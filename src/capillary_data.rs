@@ -148,13 +148,20 @@ pub fn read(path: &Path) -> Result<(Vec<CapSample>, Vec<Rejected>), TableError> 
             });
             continue;
         }
-        if !(r.porosity > 0.0 && r.porosity <= 0.5 && r.perm_md > 0.0) {
+        if !(r.porosity > 0.0 && r.porosity <= 0.5 && r.perm_md > 0.0 && r.perm_md.is_finite()) {
             rejected.push(Rejected {
                 line,
                 reason: format!(
                     "porosity {} or permeability {} mD not usable",
                     r.porosity, r.perm_md
                 ),
+            });
+            continue;
+        }
+        if !r.depth.is_finite() {
+            rejected.push(Rejected {
+                line,
+                reason: format!("depth {} is not a finite number", r.depth),
             });
             continue;
         }

@@ -93,7 +93,10 @@ struct CoreRow {
 
 /// Check one sample; `Err` is the reason it is left out.
 fn check(porosity: f64, perm: f64) -> Result<(), String> {
-    if !(perm.is_finite() && perm > 0.0) {
+    if !perm.is_finite() {
+        return Err(format!("permeability {perm} mD is not a finite number"));
+    }
+    if perm <= 0.0 {
         return Err(format!("permeability {perm} mD is not above 0"));
     }
     if !(porosity.is_finite() && (0.0..=MAX_CORE_POROSITY).contains(&porosity)) {
@@ -102,6 +105,26 @@ fn check(porosity: f64, perm: f64) -> Result<(), String> {
         ));
     }
     Ok(())
+}
+
+/// A sample's depth as read: a finite number, or the reason to leave it out
+/// (`nan` and `inf` parse as numbers, but no log depth matches them).
+fn finite_depth(d: f64) -> Result<f64, String> {
+    if d.is_finite() {
+        Ok(d)
+    } else {
+        Err(format!("depth {d} is not a finite number"))
+    }
+}
+
+/// Grain density as read: NaN is missing (as `nan` is in LAS data), an
+/// infinity is refused.
+fn grain_density(g: Option<f64>) -> Result<Option<f64>, String> {
+    match g {
+        Some(g) if g.is_nan() => Ok(None),
+        Some(g) if g.is_infinite() => Err(format!("grain density {g} g/cm3 is not a number")),
+        g => Ok(g),
+    }
 }
 
 /// Read a core CSV into the project's depth unit.
@@ -153,16 +176,22 @@ pub fn read_core_csv(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreErro
                 continue;
             }
         };
-        if let Err(reason) = check(porosity, r.perm_md) {
-            rejected.push(Rejected { line, reason });
-            continue;
-        }
+        let checked = check(porosity, r.perm_md)
+            .and_then(|()| finite_depth(r.depth))
+            .and_then(|d| Ok((d, grain_density(r.grain_density)?)));
+        let (d, grain) = match checked {
+            Ok(v) => v,
+            Err(reason) => {
+                rejected.push(Rejected { line, reason });
+                continue;
+            }
+        };
         samples.push(CoreSample {
             well: r.well.trim().to_string(),
-            depth: r.depth * unit.factor_to(depth),
+            depth: d * unit.factor_to(depth),
             porosity,
             perm_md: r.perm_md,
-            grain_density_gcc: r.grain_density,
+            grain_density_gcc: grain,
             sample_type: r.sample_type.filter(|s| !s.trim().is_empty()),
             line,
         });
@@ -273,12 +302,13 @@ pub fn read_spwla(
                 let d = lines
                     .get(i + 1)
                     .and_then(|s| s.split_whitespace().next())
-                    .and_then(|v| v.parse::<f64>().ok());
+                    .and_then(|v| v.parse::<f64>().ok())
+                    .filter(|d| d.is_finite());
                 depth_now = d.map(|d| (d * file_depth.factor_to(depth), line_no));
                 if d.is_none() {
                     rejected.push(Rejected {
                         line: line_no,
-                        reason: "sample depth is not a number".into(),
+                        reason: "sample depth is not a finite number".into(),
                     });
                 }
                 i += 2;
@@ -334,19 +364,22 @@ pub fn read_spwla(
                 } else {
                     phi_raw
                 };
-                if let Err(reason) = check(porosity, k) {
-                    rejected.push(Rejected {
-                        line: line_no,
-                        reason,
-                    });
-                    continue;
-                }
+                let grain = match check(porosity, k).and_then(|()| grain_density(get(gd_i))) {
+                    Ok(g) => g,
+                    Err(reason) => {
+                        rejected.push(Rejected {
+                            line: line_no,
+                            reason,
+                        });
+                        continue;
+                    }
+                };
                 samples.push(CoreSample {
                     well: well.clone(),
                     depth: d,
                     porosity,
                     perm_md: k,
-                    grain_density_gcc: get(gd_i),
+                    grain_density_gcc: grain,
                     sample_type: None,
                     line: line_no,
                 });

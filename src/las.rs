@@ -892,11 +892,17 @@ mod tests {
     #[test]
     fn rows_hint_trusts_the_header_only_as_far_as_the_bytes_go() {
         let data = "1000 1\n1000.5 2\n1001 3\n";
-        assert_eq!(rows_hint(&items("1000", "1001", "0.5"), data.len(), 2, false), 3);
+        assert_eq!(
+            rows_hint(&items("1000", "1001", "0.5"), data.len(), 2, false),
+            3
+        );
         // 10 million rows claimed over 2 000 curves: 160 GB if believed
         let hint = rows_hint(&items("0", "9999999", "1"), 100, 2000, false);
         assert_eq!(hint, 1);
         // no usable STEP: the byte estimate (about 10 bytes a value)
-        assert_eq!(rows_hint(&items("0", "10", "0"), 2100, 2, false), 2100 / 21 + 1);
+        assert_eq!(
+            rows_hint(&items("0", "10", "0"), 2100, 2, false),
+            2100 / 21 + 1
+        );
     }
 }

@@ -345,7 +345,14 @@ mod tests {
         assert!(fit_fwl_auto(&huge_d, 2).is_err());
         // two finite legs, flat at 5e307 psi over a 0.05 psi/m leg through 0
         // (contrast 0.035 g/cm3, above the least): they cross at 1e309 m
-        let far = [(0.0, 5e307), (1.0, 5e307), (2.0, 5e307), (3.0, 0.15), (4.0, 0.2), (5.0, 0.25)];
+        let far = [
+            (0.0, 5e307),
+            (1.0, 5e307),
+            (2.0, 5e307),
+            (3.0, 0.15),
+            (4.0, 0.2),
+            (5.0, 0.25),
+        ];
         let err = fit_fwl_split_at(&far, 2.5).expect_err("beyond f64");
         assert!(err.contains("no finite depth"), "{err}");
     }

@@ -1108,7 +1108,11 @@ mod tests {
         assert_eq!(lines, [6, 7, 8, 9, 10]);
         assert!(left_out[0].reason.contains("not both"), "{:?}", left_out[0]);
         assert!(left_out[1].reason.contains("-5 psi"), "{:?}", left_out[1]);
-        assert!(left_out[2].reason.contains("QUALITY POOR"), "{:?}", left_out[2]);
+        assert!(
+            left_out[2].reason.contains("QUALITY POOR"),
+            "{:?}",
+            left_out[2]
+        );
         assert!(left_out[3].reason.contains("not both"), "{:?}", left_out[3]);
         assert_eq!(left_out[4].reason, "B-9 has no datum elevation");
     }

@@ -211,11 +211,97 @@ fn a_spwla_value_record_with_a_damaged_count_is_left_out() {
     assert_eq!(core.samples.len(), 1);
     let s = &core.samples[0];
     assert_eq!((s.depth, s.perm_md), (2001.0, 90.0));
-    assert!((s.porosity - 0.19).abs() < 1e-12, "percent read as 0.19: {}", s.porosity);
+    assert!(
+        (s.porosity - 0.19).abs() < 1e-12,
+        "percent read as 0.19: {}",
+        s.porosity
+    );
     assert_eq!(core.rejected.len(), 1);
     assert_eq!(core.rejected[0].line, 10);
     assert_eq!(
         core.rejected[0].reason,
         "value record has 2 readable values of 4000000000 (truncated or malformed)"
+    );
+}
+
+/// `nan` and `inf` in the core, capillary and pressure tables (Rust reads
+/// both as numbers): a value the row cannot do without leaves the row out
+/// with its line and reason; a grain density of `nan` is missing, as `nan`
+/// is in LAS data.
+#[test]
+fn nan_and_infinity_in_the_tables_are_left_out_by_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let core = dir.path().join("core.csv");
+    std::fs::write(
+        &core,
+        "WELL,DEPTH_MD,DEPTH_UNIT,POROSITY_FRAC,PERM_MD,GRAIN_DENSITY_GCC\n\
+         A-1,nan,M,0.2,10,2.65\n\
+         A-1,inf,M,0.2,10,2.65\n\
+         A-1,2000.0,M,0.2,inf,2.65\n\
+         A-1,2000.5,M,nan,10,2.65\n\
+         A-1,2001.0,M,0.2,10,nan\n\
+         A-1,2001.5,M,0.2,10,-inf\n\
+         A-1,2002.0,M,0.21,12,2.66\n",
+    )
+    .unwrap();
+    let c = flowzone::core_data::read_core_csv(&core, DepthUnit::Metre).expect("read");
+    let kept: Vec<(u64, Option<f64>)> = c
+        .samples
+        .iter()
+        .map(|s| (s.line, s.grain_density_gcc))
+        .collect();
+    assert_eq!(kept, [(6, None), (8, Some(2.66))]);
+    let left: Vec<(u64, &str)> = c
+        .rejected
+        .iter()
+        .map(|r| (r.line, r.reason.as_str()))
+        .collect();
+    assert_eq!(
+        left,
+        [
+            (2, "depth NaN is not a finite number"),
+            (3, "depth inf is not a finite number"),
+            (4, "permeability inf mD is not a finite number"),
+            (5, "porosity NaN is outside 0-0.5"), // MAX_CORE_POROSITY
+            (7, "grain density -inf g/cm3 is not a number"),
+        ]
+    );
+
+    let cap = dir.path().join("capillary.csv");
+    std::fs::write(
+        &cap,
+        "SAMPLE,WELL,DEPTH_MD,POROSITY_FRAC,PERM_MD,PC_PSI,SW_FRAC,SYSTEM\n\
+         P-1,A-1,2000,0.2,10,inf,0.5,mercury-air\n\
+         P-1,A-1,2000,0.2,10,20,nan,mercury-air\n\
+         P-2,A-1,2000,0.2,inf,20,0.5,mercury-air\n\
+         P-3,A-1,nan,0.2,10,20,0.5,mercury-air\n",
+    )
+    .unwrap();
+    let (plugs, left) = flowzone::capillary_data::read(&cap).expect("read");
+    assert!(plugs.is_empty(), "{plugs:?}");
+    let lines: Vec<u64> = left.iter().map(|r| r.line).collect();
+    assert_eq!(lines, [2, 3, 4, 5], "{left:?}");
+    assert!(
+        left[2].reason.contains("permeability inf mD not usable"),
+        "{left:?}"
+    );
+    assert_eq!(left[3].reason, "depth NaN is not a finite number");
+
+    let pressures = dir.path().join("pressures.csv");
+    std::fs::write(
+        &pressures,
+        "WELL,TVDSS_M,PRESSURE_PSI\nA-1,nan,3000\nA-1,2000,inf\nA-1,2001,3001.5\n",
+    )
+    .unwrap();
+    let tvdss_of = |_: &str, md: f64| Ok(md);
+    let (points, left) =
+        flowzone::sat_height::read_pressure_points(&pressures, DepthUnit::Metre, &[], &tvdss_of)
+            .expect("read");
+    assert_eq!(points.len(), 1);
+    assert_eq!((points[0].line, points[0].tvdss_m), (4, 2001.0));
+    assert_eq!(
+        left.iter().map(|r| r.line).collect::<Vec<_>>(),
+        [2, 3],
+        "{left:?}"
     );
 }
