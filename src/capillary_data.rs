@@ -106,8 +106,10 @@ pub const MIN_STEPS: usize = 3;
 pub const MONOTONIC_TOLERANCE_SW: f64 = 0.03;
 
 /// Read a capillary-pressure CSV. Rows that cannot be used (unknown system,
-/// Pc not above 0, Sw outside 0-1, a sample whose porosity or permeability
-/// changes between rows) are left out with their line. Each sample's steps
+/// Pc not a finite number above 0 in psi, Sw outside 0-1, porosity outside
+/// (0, 0.5], permeability not a finite number above 0, a depth that is not
+/// finite, a sample whose porosity or permeability changes between rows) are
+/// left out with their line. Each sample's steps
 /// are then sorted by increasing Pc, and a whole sample is left out (with the
 /// line of its first row) when it has fewer than [`MIN_STEPS`] steps or its Sw
 /// rises by more than [`MONOTONIC_TOLERANCE_SW`] towards a higher Pc. The
@@ -129,10 +131,15 @@ pub fn read(path: &Path) -> Result<(Vec<CapSample>, Vec<Rejected>), TableError> 
         };
         let pc_psi = match r.pc_psi() {
             Ok((pc, _, _)) if pc.is_finite() && pc > 0.0 => pc,
-            Ok((_, name, raw)) => {
+            Ok((pc, name, raw)) => {
+                let what = if pc.is_finite() {
+                    "is not above 0"
+                } else {
+                    "is not a finite pressure"
+                };
                 rejected.push(Rejected {
                     line,
-                    reason: format!("{name} {raw} is not above 0"),
+                    reason: format!("{name} {raw} {what}"),
                 });
                 continue;
             }

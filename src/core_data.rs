@@ -107,8 +107,9 @@ fn check(porosity: f64, perm: f64) -> Result<(), String> {
     Ok(())
 }
 
-/// A sample's depth as read: a finite number, or the reason to leave it out
-/// (`nan` and `inf` parse as numbers, but no log depth matches them).
+/// A sample's depth in the project's unit: a finite number, or the reason to
+/// leave it out (`nan` and `inf` parse as numbers, and 1e308 m overflows in
+/// feet; no log depth matches any of them).
 fn finite_depth(d: f64) -> Result<f64, String> {
     if d.is_finite() {
         Ok(d)
@@ -122,7 +123,9 @@ fn finite_depth(d: f64) -> Result<f64, String> {
 fn grain_density(g: Option<f64>) -> Result<Option<f64>, String> {
     match g {
         Some(g) if g.is_nan() => Ok(None),
-        Some(g) if g.is_infinite() => Err(format!("grain density {g} g/cm3 is not a number")),
+        Some(g) if g.is_infinite() => {
+            Err(format!("grain density {g} g/cm3 is not a finite number"))
+        }
         g => Ok(g),
     }
 }
@@ -177,7 +180,7 @@ pub fn read_core_csv(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreErro
             }
         };
         let checked = check(porosity, r.perm_md)
-            .and_then(|()| finite_depth(r.depth))
+            .and_then(|()| finite_depth(r.depth * unit.factor_to(depth)))
             .and_then(|d| Ok((d, grain_density(r.grain_density)?)));
         let (d, grain) = match checked {
             Ok(v) => v,
@@ -188,7 +191,7 @@ pub fn read_core_csv(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreErro
         };
         samples.push(CoreSample {
             well: r.well.trim().to_string(),
-            depth: d * unit.factor_to(depth),
+            depth: d,
             porosity,
             perm_md: r.perm_md,
             grain_density_gcc: grain,
@@ -303,8 +306,9 @@ pub fn read_spwla(
                     .get(i + 1)
                     .and_then(|s| s.split_whitespace().next())
                     .and_then(|v| v.parse::<f64>().ok())
+                    .map(|d| d * file_depth.factor_to(depth))
                     .filter(|d| d.is_finite());
-                depth_now = d.map(|d| (d * file_depth.factor_to(depth), line_no));
+                depth_now = d.map(|d| (d, line_no));
                 if d.is_none() {
                     rejected.push(Rejected {
                         line: line_no,

@@ -521,17 +521,21 @@ impl Reader<'_> {
             .iter()
             .find(|i| i.mnemonic.eq_ignore_ascii_case("NULL"))
         {
-            Some(item) if !item.value.is_empty() => {
-                Some(item.value.parse::<f64>().map_err(|_| {
-                    self.line_err(
-                        item.line,
-                        LineError::BadHeaderNumber {
-                            mnemonic: "NULL".into(),
-                            text: item.value.clone(),
-                        },
-                    )
-                })?)
-            }
+            Some(item) if !item.value.is_empty() => Some(
+                item.value
+                    .parse::<f64>()
+                    .ok()
+                    .filter(|v| v.is_finite())
+                    .ok_or_else(|| {
+                        self.line_err(
+                            item.line,
+                            LineError::BadHeaderNumber {
+                                mnemonic: "NULL".into(),
+                                text: item.value.clone(),
+                            },
+                        )
+                    })?,
+            ),
             _ => {
                 self.warn(
                     None,

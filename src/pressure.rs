@@ -47,7 +47,8 @@ impl Line {
 }
 
 /// Fit a line to (TVDSS m, psi) points; `None` with fewer than two points,
-/// no spread in depth, or a value that is not a number.
+/// no spread in depth, a value that is not a number, or sums too large for
+/// f64 (a line fitted through overflow would be NaN or falsely exact).
 pub fn fit_line(points: &[(f64, f64)]) -> Option<Line> {
     if points.len() < 2 || points.iter().any(|(d, p)| !d.is_finite() || !p.is_finite()) {
         return None;
@@ -56,7 +57,7 @@ pub fn fit_line(points: &[(f64, f64)]) -> Option<Line> {
     let md = points.iter().map(|p| p.0).sum::<f64>() / n;
     let mp = points.iter().map(|p| p.1).sum::<f64>() / n;
     let sxx: f64 = points.iter().map(|p| (p.0 - md).powi(2)).sum();
-    if sxx.is_nan() || sxx <= 0.0 {
+    if !(sxx.is_finite() && sxx > 0.0) {
         return None;
     }
     let sxy: f64 = points.iter().map(|p| (p.0 - md) * (p.1 - mp)).sum();
@@ -191,7 +192,9 @@ pub fn fit_fwl_auto(points: &[(f64, f64)], min_leg: usize) -> Result<FwlFit, Str
             best = Some((sse, k, u, l));
         }
     }
-    let (_, k, u, l) = best.ok_or("no split gives two legs with a depth spread")?;
+    let (_, k, u, l) = best.ok_or(
+        "no split gives two legs with a depth spread (or the values are too large to fit: check the points' units)",
+    )?;
     intersect(u, l, k)
 }
 
@@ -199,10 +202,12 @@ pub fn fit_fwl_auto(points: &[(f64, f64)], min_leg: usize) -> Result<FwlFit, Str
 pub fn fit_fwl_split_at(points: &[(f64, f64)], split_tvdss_m: f64) -> Result<FwlFit, String> {
     let v = sorted(points)?;
     let k = v.partition_point(|p| p.0 <= split_tvdss_m);
-    let u =
-        fit_line(&v[..k]).ok_or("fewer than two points (or no depth spread) above the split")?;
-    let l =
-        fit_line(&v[k..]).ok_or("fewer than two points (or no depth spread) below the split")?;
+    let u = fit_line(&v[..k]).ok_or(
+        "fewer than two points above the split (or no depth spread, or values too large to fit)",
+    )?;
+    let l = fit_line(&v[k..]).ok_or(
+        "fewer than two points below the split (or no depth spread, or values too large to fit)",
+    )?;
     intersect(u, l, k)
 }
 
@@ -339,10 +344,14 @@ mod tests {
         let err = fit_fwl_auto(&huge_p, 2).expect_err("overflow");
         assert!(err.contains("no split gives two legs"), "{err}");
         assert!(fit_fwl_split_at(&huge_p, 2025.0).is_err());
+        // depths of 1e200 m: the depth spread overflows, so no line (it used
+        // to be a flat line with a zero standard error, and "parallel legs")
         let huge_d: Vec<(f64, f64)> = (0..6)
             .map(|i| (1e200 * f64::from(i + 1), 3000.0 + f64::from(i)))
             .collect();
-        assert!(fit_fwl_auto(&huge_d, 2).is_err());
+        assert!(fit_line(&huge_d).is_none());
+        let err = fit_fwl_auto(&huge_d, 2).expect_err("overflow");
+        assert!(err.contains("too large to fit"), "{err}");
         // two finite legs, flat at 5e307 psi over a 0.05 psi/m leg through 0
         // (contrast 0.035 g/cm3, above the least): they cross at 1e309 m
         let far = [

@@ -199,6 +199,17 @@ pub fn read_survey(path: &Path, depth: DepthUnit) -> Result<Survey, WellError> {
                 .into());
             }
         };
+        if !(md.is_finite() && r.inc.is_finite() && r.azi.is_finite()) {
+            return Err(TableError::Row {
+                path: path.to_path_buf(),
+                line,
+                message: format!(
+                    "MD {md}, INC_DEG {} and AZI_DEG {} must be finite numbers",
+                    r.inc, r.azi
+                ),
+            }
+            .into());
+        }
         if s.md.last().is_some_and(|&last| md <= last) {
             return Err(TableError::Row {
                 path: path.to_path_buf(),

@@ -50,8 +50,9 @@ pub enum LineError {
     /// WRAP is neither YES nor NO.
     #[error("WRAP is `{0}`, expected YES or NO")]
     BadWrap(String),
-    /// A header number (NULL) that does not parse.
-    #[error("{mnemonic} value `{text}` is not a number")]
+    /// A header number (NULL) that does not parse as a finite number: a NULL
+    /// of `nan` would null nothing, one of `inf` every sample.
+    #[error("{mnemonic} value `{text}` is not a finite number")]
     BadHeaderNumber { mnemonic: String, text: String },
     /// A section that LAS 2.0 allows once appears again.
     #[error("section ~{0} appears a second time")]

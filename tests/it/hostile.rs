@@ -263,7 +263,7 @@ fn nan_and_infinity_in_the_tables_are_left_out_by_line() {
             (3, "depth inf is not a finite number"),
             (4, "permeability inf mD is not a finite number"),
             (5, "porosity NaN is outside 0-0.5"), // MAX_CORE_POROSITY
-            (7, "grain density -inf g/cm3 is not a number"),
+            (7, "grain density -inf g/cm3 is not a finite number"),
         ]
     );
 
@@ -304,4 +304,81 @@ fn nan_and_infinity_in_the_tables_are_left_out_by_line() {
         [2, 3],
         "{left:?}"
     );
+}
+
+/// SPWLA core data with every kind of non-finite value, read into a project
+/// in feet: each damaged sample is left out by line and reason, the good one
+/// is kept (2003 m = 2003 / 0.3048 ft, international foot).
+#[test]
+fn nan_and_infinity_in_spwla_core_data_are_left_out_by_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("nonfinite.spwla");
+    let var =
+        |code: &str, what: &str| format!("          {code}      1602  2031   0Lab    {what}\n");
+    let mut t = String::from("10     1\n    TEST-1\n    Lab\n15    3    3\n");
+    t += &var("1512", "Klinkenberg corrected gas perm, Hor.");
+    t += &var("1402", "Porosity, Horizontal PLUG");
+    t += &var("1601", "Grain density");
+    for (depth, values) in [
+        ("nan", "150.0  21.5  2.65"),    // depth on line 9
+        ("inf", "150.0  21.5  2.65"),    // line 13
+        ("1e308", "150.0  21.5  2.65"),  // line 17: finite in m, infinite in ft
+        ("2001.00", "inf  19.0  2.65"),  // values on line 23
+        ("2002.00", "90.0  19.0  inf"),  // line 27
+        ("2003.00", "90.0  19.0  2.66"), // kept
+    ] {
+        t += &format!("30     1\n  {depth}\n40     1   3\n  {values}\n");
+    }
+    std::fs::write(&path, t).unwrap();
+    let (core, _) = read_spwla(&path, DepthUnit::Metre, DepthUnit::Foot).expect("read");
+    assert_eq!(core.samples.len(), 1, "{:?}", core.rejected);
+    assert!((core.samples[0].depth - 2003.0 / 0.3048).abs() < 1e-9);
+    assert_eq!(core.samples[0].grain_density_gcc, Some(2.66));
+    let left: Vec<(u64, &str)> = core
+        .rejected
+        .iter()
+        .map(|r| (r.line, r.reason.as_str()))
+        .collect();
+    assert_eq!(
+        left,
+        [
+            (9, "sample depth is not a finite number"),
+            (13, "sample depth is not a finite number"),
+            (17, "sample depth is not a finite number"),
+            (23, "permeability inf mD is not a finite number"),
+            (27, "grain density inf g/cm3 is not a finite number"),
+        ]
+    );
+}
+
+/// A survey station with a NaN azimuth made every TVD below it NaN, and a
+/// NaN MD passed the "MD must increase" check (comparisons with NaN are
+/// false); a LAS NULL of `inf` would null every sample and one of `nan` none.
+/// All three are refused with their line.
+#[test]
+fn nan_in_a_survey_and_a_non_finite_null_are_refused() {
+    let dir = tempfile::tempdir().unwrap();
+    for (rows, line) in [
+        ("0,0,0\n100,1,nan\n200,2,10\n", 3),
+        ("0,0,0\n100,1,10\nnan,2,10\n150,2,10\n", 4),
+    ] {
+        let path = dir.path().join("survey.csv");
+        std::fs::write(&path, format!("MD_M,INC_DEG,AZI_DEG\n{rows}")).unwrap();
+        let err = flowzone::well::read_survey(&path, DepthUnit::Metre).expect_err("refused");
+        let msg = chain(&err);
+        assert!(msg.contains(&format!(":{line}")), "{msg}");
+        assert!(msg.contains("must be finite numbers"), "{msg}");
+    }
+    for null in ["inf", "nan"] {
+        let t = format!(
+            "~V\n VERS. 2.0 :\n WRAP. NO :\n~W\n STRT.M 1000 :\n STOP.M 1001 :\n STEP.M 0.5 :\n NULL. {null} :\n~C\n DEPT.M :\n GR.API :\n~A\n1000 50\n"
+        );
+        let err = read(t.as_bytes()).expect_err("refused");
+        assert!(
+            err.starts_with(&format!(
+                "h.las:8: NULL value `{null}` is not a finite number"
+            )),
+            "{err}"
+        );
+    }
 }

@@ -13,7 +13,7 @@ use crate::common::{chain, crlf, root};
 const BAD: &[(&str, &str)] = &[
     (
         "bad-null.las",
-        "bad-null.las:9: NULL value `none` is not a number",
+        "bad-null.las:9: NULL value `none` is not a finite number",
     ),
     (
         "bad-wrap.las",
