@@ -173,6 +173,15 @@ fn a_killed_run_leaves_whole_files_and_a_journal() {
         "{}",
         String::from_utf8_lossy(&rerun.stderr)
     );
+    // the rerun says how far the killed run got
+    let said = String::from_utf8_lossy(&rerun.stderr);
+    assert!(
+        said.contains(&format!(
+            "stopped after {} of 60 wells had finished; not finished: ",
+            finished.len()
+        )),
+        "{said}"
+    );
     assert!(!journal.exists());
     let after = files(&killed);
     assert_eq!(
