@@ -12,6 +12,14 @@ use crate::common::{chain, root, run_config};
 
 const HEAD: &str = "~V\n VERS. 2.0 :\n WRAP. NO :\n~W\n STRT.M 1000 :\n STOP.M 1001 :\n STEP.M 0.5 :\n NULL. -999.25 :\n";
 
+/// Rows left out, as (line, reason).
+fn by_line(rejected: &[flowzone::core_data::Rejected]) -> Vec<(u64, &str)> {
+    rejected
+        .iter()
+        .map(|r| (r.line, r.reason.as_str()))
+        .collect()
+}
+
 fn read(text: &[u8]) -> Result<flowzone::las::LasFile, String> {
     read_bytes(text, Path::new("h.las"), ReadOptions::default()).map_err(|e| chain(&e))
 }
@@ -251,11 +259,7 @@ fn nan_and_infinity_in_the_tables_are_left_out_by_line() {
         .map(|s| (s.line, s.grain_density_gcc))
         .collect();
     assert_eq!(kept, [(6, None), (8, Some(2.66))]);
-    let left: Vec<(u64, &str)> = c
-        .rejected
-        .iter()
-        .map(|r| (r.line, r.reason.as_str()))
-        .collect();
+    let left = by_line(&c.rejected);
     assert_eq!(
         left,
         [
@@ -334,11 +338,7 @@ fn nan_and_infinity_in_spwla_core_data_are_left_out_by_line() {
     assert_eq!(core.samples.len(), 1, "{:?}", core.rejected);
     assert!((core.samples[0].depth - 2003.0 / 0.3048).abs() < 1e-9);
     assert_eq!(core.samples[0].grain_density_gcc, Some(2.66));
-    let left: Vec<(u64, &str)> = core
-        .rejected
-        .iter()
-        .map(|r| (r.line, r.reason.as_str()))
-        .collect();
+    let left = by_line(&core.rejected);
     assert_eq!(
         left,
         [
