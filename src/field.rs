@@ -835,6 +835,23 @@ fn file_name(p: &Path) -> String {
         .unwrap_or_default()
 }
 
+/// The Pickett plot's Archie lines: the field's a, m, n for each class, as
+/// `[parameters.class."N"]` overrides them (zone-independent).
+fn archie_lines(config: &Config, class_count: u8) -> Vec<crate::plots::ArchieLine> {
+    let field_archie = config.parameters.field.resolve().archie;
+    config
+        .parameters
+        .class_archie("", field_archie, class_count)
+        .into_iter()
+        .zip(1u8..)
+        .map(|(a, class)| crate::plots::ArchieLine {
+            class,
+            a: a.a,
+            m: a.m,
+            n: a.n,
+        })
+        .collect()
+}
 /// Write a well's report page (log plot, Pickett plot, zones, steps, warnings).
 fn well_page(
     stem: &str,
@@ -846,19 +863,7 @@ fn well_page(
     out_dir: &Path,
 ) -> Result<Vec<String>, output::OutputError> {
     let class_count = setup.map_or(0, |s| u8::try_from(s.scheme.class_count).unwrap_or(u8::MAX));
-    let field_archie = config.parameters.field.resolve().archie;
-    let archie = config
-        .parameters
-        .class_archie("", field_archie, class_count)
-        .into_iter()
-        .zip(1u8..)
-        .map(|(a, class)| crate::plots::ArchieLine {
-            class,
-            a: a.a,
-            m: a.m,
-            n: a.n,
-        })
-        .collect();
+    let archie = archie_lines(config, class_count);
     let mut rw: Vec<f64> = out.rw.iter().copied().filter(|v| v.is_finite()).collect();
     rw.sort_by(f64::total_cmp);
     let rw_ohmm = rw.get(rw.len() / 2).copied().unwrap_or(f64::NAN);
@@ -1019,18 +1024,7 @@ fn field_page(
         .flat_map(|r| r.pickett.iter().copied())
         .collect();
     let field_archie = config.parameters.field.resolve();
-    let archie = config
-        .parameters
-        .class_archie("", field_archie.archie, class_count)
-        .into_iter()
-        .zip(1u8..)
-        .map(|(a, class)| crate::plots::ArchieLine {
-            class,
-            a: a.a,
-            m: a.m,
-            n: a.n,
-        })
-        .collect();
+    let archie = archie_lines(config, class_count);
     let confusion = class_setup
         .and_then(|c| c.model.header.validation.as_ref())
         .map(|v| v.forest.confusion.clone());
