@@ -5,7 +5,10 @@ mod common;
 
 fuzz_target!(|data: &[u8]| {
     common::with_file(data, "csv", |p| {
-        for unit in [flowzone::units::DepthUnit::Metre, flowzone::units::DepthUnit::Foot] {
+        for unit in [
+            flowzone::units::DepthUnit::Metre,
+            flowzone::units::DepthUnit::Foot,
+        ] {
             let _ = flowzone::core_data::read_core_csv(p, unit);
         }
     });

@@ -11,7 +11,11 @@ mod common;
 
 fn check(fit: &FwlFit) {
     assert!(fit.fwl_tvdss_m.is_finite(), "FWL depth {}", fit.fwl_tvdss_m);
-    assert!(fit.fwl_pressure_psi.is_finite(), "FWL pressure {}", fit.fwl_pressure_psi);
+    assert!(
+        fit.fwl_pressure_psi.is_finite(),
+        "FWL pressure {}",
+        fit.fwl_pressure_psi
+    );
     assert!(!(fit.fwl_sigma_m < 0.0), "FWL sigma {}", fit.fwl_sigma_m);
 }
 
@@ -24,7 +28,10 @@ fuzz_target!(|data: &[u8]| {
         else {
             return;
         };
-        assert!(obs.iter().all(|o| o.tvdss_m.is_finite() && o.psi.is_finite() && o.psi > 0.0));
+        assert!(
+            obs.iter()
+                .all(|o| o.tvdss_m.is_finite() && o.psi.is_finite() && o.psi > 0.0)
+        );
         let points: Vec<(f64, f64)> = obs.iter().map(|o| (o.tvdss_m, o.psi)).collect();
         if let Ok(f) = fit_fwl_auto(&points, 2) {
             check(&f);
