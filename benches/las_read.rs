@@ -11,7 +11,7 @@ use std::hint::black_box;
 use std::path::Path;
 
 use criterion::{Criterion, Throughput, criterion_group, criterion_main};
-use flowzone::las::{ReadOptions, read_bytes, writer};
+use flowzone::input::las::{ReadOptions, read_bytes, writer};
 
 const ROWS: usize = 200_000;
 const CURVES: usize = 12;

@@ -9,7 +9,7 @@
 use std::hint::black_box;
 
 use criterion::{Criterion, Throughput, criterion_group, criterion_main};
-use flowzone::predictor::{Forest, ForestParams};
+use flowzone::classes::predictor::{Forest, ForestParams};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 

@@ -8,9 +8,9 @@
 use std::hint::black_box;
 
 use criterion::{Criterion, Throughput, criterion_group, criterion_main};
-use flowzone::params::{ParamSet, PorosityMethod};
-use flowzone::saturation::SaturationModel;
-use flowzone::stages::{Inputs, ZoneSetup, run};
+use flowzone::config::params::{ParamSet, PorosityMethod};
+use flowzone::petro::saturation::SaturationModel;
+use flowzone::well::chain::{Inputs, ZoneSetup, run};
 
 const N: usize = 1_000_000;
 

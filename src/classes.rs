@@ -8,6 +8,11 @@
 //! Schemes: [`FziLadder`] (boundaries in FZI, explicit or geometric) and
 //! [`PortSize`] (Winland R35 pore-throat size classes).
 
+pub mod compare;
+pub mod core_match;
+pub mod predictor;
+pub mod stage;
+
 pub mod clusters;
 pub mod flow_units;
 pub mod perm;
@@ -189,8 +194,11 @@ pub fn build(
 }
 
 /// The name, kind, quantity and boundaries of a scheme, for outputs.
-pub fn info(name: &str, scheme: &dyn ClassScheme) -> crate::predictor::model_file::SchemeInfo {
-    crate::predictor::model_file::SchemeInfo {
+pub fn info(
+    name: &str,
+    scheme: &dyn ClassScheme,
+) -> crate::classes::predictor::model_file::SchemeInfo {
+    crate::classes::predictor::model_file::SchemeInfo {
         name: name.to_string(),
         kind: scheme.name(),
         quantity: scheme.quantity().to_string(),
@@ -201,7 +209,7 @@ pub fn info(name: &str, scheme: &dyn ClassScheme) -> crate::predictor::model_fil
 
 /// A scheme as recorded in a model file classifies samples too: the
 /// quantity it names (R35 or FZI) between its recorded boundaries.
-impl ClassScheme for crate::predictor::model_file::SchemeInfo {
+impl ClassScheme for crate::classes::predictor::model_file::SchemeInfo {
     fn name(&self) -> String {
         self.kind.clone()
     }

@@ -1,16 +1,19 @@
 //! The command line: clap types (their doc comments are the `--help` text) and
 //! the dispatch to the library. No formulas here.
 
+pub mod export;
+pub mod inspect;
+
 use std::io::Write as _;
 use std::path::PathBuf;
 
 use clap::{Parser, Subcommand};
 
-use crate::classify::Mode;
+use crate::classes::stage::Mode;
 use crate::config::{Config, Format};
 use crate::error::{Error, chain};
-use crate::las::{self, ReadOptions};
-use crate::{export, field, inspect};
+use crate::field;
+use crate::input::las::{self, ReadOptions};
 
 /// flowzone: field-scale petrophysics from LAS logs, core, capillary-pressure
 /// and pressure data. Messages go to stderr; data to stdout or files.
@@ -75,7 +78,7 @@ pub enum Command {
         /// and shards/shard-K-of-N.state for `flowzone merge`, but no
         /// field-level outputs.
         #[arg(long, value_name = "K/N")]
-        shard: Option<crate::shard::ShardSpec>,
+        shard: Option<crate::field::shard::ShardSpec>,
         /// Write into an output folder that holds a previous run (or this
         /// shard's previous state), replacing its files one by one.
         #[arg(long)]
@@ -145,7 +148,7 @@ pub enum Command {
         #[arg(long)]
         out: PathBuf,
         /// Random seed of the model.
-        #[arg(long, default_value_t = crate::synth::DEMO_SEED)]
+        #[arg(long, default_value_t = crate::demo::synth::DEMO_SEED)]
         seed: u64,
         /// Write a synthetic bench field of this many wells (synth-0001.las,
         /// ...; eight logs each), with zones.csv and field.toml (stages: read,
@@ -215,7 +218,7 @@ pub fn run(args: Args) -> Result<(), Error> {
             Some(n) => crate::demo::write_field(
                 &out,
                 n,
-                depths.unwrap_or(crate::synth::FIELD_DEFAULT_DEPTHS),
+                depths.unwrap_or(crate::demo::synth::FIELD_DEFAULT_DEPTHS),
                 seed,
             ),
         },
@@ -320,7 +323,7 @@ fn out_dir(config: &Config, out: Option<PathBuf>) -> Result<PathBuf, Error> {
 /// Print the failed wells and the totals; an error when wells failed and
 /// `keep_going` is off.
 fn report_wells(
-    wells: &[field::WellReport],
+    wells: &[crate::pipeline::WellReport],
     total: usize,
     quiet: bool,
     keep_going: bool,
@@ -349,16 +352,16 @@ fn cmd_run(
     threads: Option<usize>,
     quiet: bool,
     keep_going: bool,
-    shard: Option<crate::shard::ShardSpec>,
+    shard: Option<crate::field::shard::ShardSpec>,
     overwrite: bool,
 ) -> Result<(), Error> {
     let config = Config::load(config_path)?;
     let out = out_dir(&config, out)?;
     let marker = match shard {
-        Some(spec) => crate::shard::state_path(spec),
-        None => PathBuf::from(field::FINISHED_MARKER),
+        Some(spec) => crate::field::shard::state_path(spec),
+        None => PathBuf::from(field::safety::FINISHED_MARKER),
     };
-    field::check_previous(&out, &marker, overwrite)?;
+    field::safety::check_previous(&out, &marker, overwrite)?;
     if let Some(n) = threads {
         // a second call in the same process fails; the first pool stays in use
         let _ = rayon::ThreadPoolBuilder::new()
@@ -366,7 +369,7 @@ fn cmd_run(
             .build_global();
     }
     if let Some(spec) = shard {
-        let done = crate::shard::run_shard(&config, &out, spec, !quiet)?;
+        let done = crate::field::shard::run_shard(&config, &out, spec, !quiet)?;
         if done.trained && !quiet {
             eprintln!(
                 "note: shard {spec} trained the class model itself, as every shard will; train it once (`flowzone train`) and set [predictor] model to share it"
@@ -393,12 +396,12 @@ fn cmd_merge(
 ) -> Result<(), Error> {
     let config = Config::load(config_path)?;
     let out = out_dir(&config, out)?;
-    field::check_previous(
+    field::safety::check_previous(
         &out,
-        std::path::Path::new(field::FINISHED_MARKER),
+        std::path::Path::new(field::safety::FINISHED_MARKER),
         overwrite,
     )?;
-    let summary = crate::shard::merge(&config, &out, shards, !quiet)?;
+    let summary = crate::field::shard::merge(&config, &out, shards, !quiet)?;
     let msg = format!("outputs in {} (summary: run-summary.json)", out.display());
     report_wells(&summary.wells, summary.wells_total, quiet, keep_going, &msg)
 }
@@ -417,9 +420,9 @@ fn cmd_class_stage(
     }
     let files = config.well_files()?;
     let inputs = config.input_paths();
-    field::check_out_dir(out, &inputs)?;
+    field::safety::check_out_dir(out, &inputs)?;
     let ctx = crate::well::RunContext::new(config).map_err(|e| Error::Usage(chain(&e)))?;
-    let prepared = crate::classify::prepare(&ctx, &files, out, mode, !quiet)?;
+    let prepared = crate::classes::stage::prepare(&ctx, &files, out, mode, !quiet)?;
     let summary = &prepared.summary;
     for r in &summary.core_rejected {
         eprintln!("core: line {}: left out: {}", r.line, r.reason);
@@ -466,7 +469,7 @@ fn cmd_class_stage(
                 let _ = write!(
                     o,
                     "{}",
-                    crate::classify::report_text(&setup.model.header, summary)
+                    crate::classes::stage::report_text(&setup.model.header, summary)
                 );
             }
         }
@@ -486,18 +489,23 @@ fn cmd_compare(config_path: &std::path::Path, json: bool) -> Result<(), Error> {
             "classes compare needs [core] and [classes] in the config".into(),
         ));
     };
-    let data = crate::core_set::load(&config, core_cfg).map_err(|e| Error::Usage(chain(&e)))?;
+    let data =
+        crate::classes::core_match::load(&config, core_cfg).map_err(|e| Error::Usage(chain(&e)))?;
     for r in &data.rejected {
         eprintln!("core: line {}: left out: {}", r.line, r.reason);
     }
-    let rows = crate::compare::compare(classes, &data.samples).map_err(Error::Usage)?;
+    let rows = crate::classes::compare::compare(classes, &data.samples).map_err(Error::Usage)?;
     let stdout = std::io::stdout();
     let mut o = stdout.lock();
     if json {
         let _ = serde_json::to_writer_pretty(&mut o, &rows);
         let _ = writeln!(o);
     } else {
-        let _ = write!(o, "{}", crate::compare::to_text(&rows, data.samples.len()));
+        let _ = write!(
+            o,
+            "{}",
+            crate::classes::compare::to_text(&rows, data.samples.len())
+        );
     }
     Ok(())
 }

@@ -5,19 +5,24 @@
 //! config file's folder. Units are in the key name or its doc comment;
 //! `config/default.toml` documents every key with its default.
 
+pub mod params;
+pub mod summary;
+
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
 use serde::Deserialize;
 
-use crate::curves::{AliasTable, LogicalCurve};
+use crate::input::curves::{AliasTable, LogicalCurve};
 use crate::units::DepthUnit;
 
 mod classes;
 mod saturation;
-pub use classes::{ClassesConfig, CoreConfig, CoreFormat, PermMethod, PredictorConfig, SchemeSpec};
+pub use classes::{
+    ClassesConfig, CoreConfig, CoreFormat, Feature, PermMethod, PredictorConfig, SchemeSpec,
+};
 pub use saturation::{
-    CapillaryConfig, CompartmentConfig, ContactsConfig, FluidProps, PressuresConfig,
+    CapillaryConfig, CompartmentConfig, ContactsConfig, FluidProps, FluidSystem, PressuresConfig,
     SatHeightConfig,
 };
 
@@ -61,7 +66,7 @@ pub struct Config {
     #[serde(default)]
     pub zones: ZonesConfig,
     #[serde(default)]
-    pub parameters: crate::params::Parameters,
+    pub parameters: crate::config::params::Parameters,
     #[serde(default)]
     pub core: Option<CoreConfig>,
     #[serde(default)]
@@ -85,7 +90,7 @@ pub struct Config {
     pub contacts: ContactsConfig,
     /// Net cutoffs of the per-well, per-zone summary (field/zone-summary.csv).
     #[serde(default)]
-    pub summary: crate::summary::SummaryConfig,
+    pub summary: crate::config::summary::SummaryConfig,
     /// The folder the config file is in; relative paths start here.
     #[serde(skip)]
     pub base_dir: PathBuf,
@@ -142,9 +147,9 @@ pub struct Input {
 
 impl Input {
     /// The reader's limits: the config's, else the defaults.
-    pub fn limits(&self) -> crate::las::Limits {
-        let d = crate::las::Limits::DEFAULT;
-        crate::las::Limits {
+    pub fn limits(&self) -> crate::input::las::Limits {
+        let d = crate::input::las::Limits::DEFAULT;
+        crate::input::las::Limits {
             max_bytes: self
                 .max_file_mb
                 .map_or(d.max_bytes, |m| m.saturating_mul(1 << 20)),

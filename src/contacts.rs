@@ -17,10 +17,10 @@
 use serde::{Deserialize, Serialize};
 
 use crate::config::ContactsConfig;
-use crate::core_set::column;
+use crate::output::schema::Col;
+use crate::output::schema::{FLAG_MISSING_INPUT, FLAG_OUT_OF_RANGE, FLAG_OUTSIDE_ZONE};
 use crate::output::{OutColumn, Table};
 use crate::sat_height::{CompartmentFwl, SatHeightModel};
-use crate::stages::{FLAG_MISSING_INPUT, FLAG_OUT_OF_RANGE, FLAG_OUTSIDE_ZONE};
 use crate::units::DepthUnit;
 
 /// What a step is.
@@ -224,22 +224,9 @@ pub fn noise_sigma(x: &[f64]) -> f64 {
         return 0.0;
     }
     let mut d: Vec<f64> = x.windows(2).map(|w| w[1] - w[0]).collect();
-    let med = median(&mut d);
+    let med = crate::stats::median(&mut d);
     let mut dev: Vec<f64> = d.iter().map(|v| (v - med).abs()).collect();
-    1.4826 * median(&mut dev) / std::f64::consts::SQRT_2
-}
-
-fn median(v: &mut [f64]) -> f64 {
-    if v.is_empty() {
-        return f64::NAN;
-    }
-    v.sort_by(f64::total_cmp);
-    let n = v.len();
-    if n % 2 == 1 {
-        v[n / 2]
-    } else {
-        0.5 * (v[n / 2 - 1] + v[n / 2])
-    }
+    1.4826 * crate::stats::median(&mut dev) / std::f64::consts::SQRT_2
 }
 
 fn mean_finite(v: impl Iterator<Item = f64>) -> f64 {
@@ -316,7 +303,7 @@ pub fn audit(
 ) -> WellAudit {
     let n = p.sw.len();
     let to_m = depth_unit.factor_to(DepthUnit::Metre);
-    let spacing_m = median(
+    let spacing_m = crate::stats::median(
         &mut p
             .md
             .windows(2)
@@ -406,7 +393,7 @@ fn attribute(
             .filter(|k| **k > 0.0)
             .map(|k| k.log10())
             .collect();
-        median(&mut v)
+        crate::stats::median(&mut v)
     };
     let (ka, kb) = (log_k(lo..b), log_k(b..hi));
     let perm_change = (ka - kb).abs() >= cfg.rock_perm_ratio.log10();
@@ -489,14 +476,14 @@ fn attribute(
         return Some(step);
     }
     // no rock change: where does the model give this rock the step's middle saturation?
-    let k = 10f64.powf(median(
+    let k = 10f64.powf(crate::stats::median(
         &mut p.perm[lo..hi]
             .iter()
             .filter(|k| **k > 0.0)
             .map(|k| k.log10())
             .collect::<Vec<_>>(),
     ));
-    let phi = median(
+    let phi = crate::stats::median(
         &mut p.phie[lo..hi]
             .iter()
             .copied()
@@ -720,39 +707,26 @@ pub fn apply(
     let comp = model.compartment(names)?;
     let n = table.n_rows();
     let nan = vec![f64::NAN; n];
-    let get = |name: &str| column(table, name).unwrap_or(&nan);
+    let get = |c: Col| table.get(c).unwrap_or(&nan);
     let p = Profile {
-        md: get("DEPTH"),
-        tvdss: get("TVDSS"),
-        sw: get("SW"),
-        swh: get("SWH"),
-        class: get("CLASS"),
-        perm: get("PERM"),
-        phie: get("PHIE"),
-        flag: get("FLAG"),
+        md: get(Col::Depth),
+        tvdss: get(Col::Tvdss),
+        sw: get(Col::Sw),
+        swh: get(Col::Swh),
+        class: get(Col::Class),
+        perm: get(Col::Perm),
+        phie: get(Col::Phie),
+        flag: get(Col::Flag),
     };
     let audit = audit(well, &p, model, comp, cfg, depth_unit);
     let mut curve = vec![0.0; n];
     for s in &audit.steps {
         curve[s.row] = s.kind.code();
     }
-    let at = table
+    let at = table.position(Col::Flag).unwrap_or(table.columns.len());
+    table
         .columns
-        .iter()
-        .position(|c| c.name == "FLAG")
-        .unwrap_or(table.columns.len());
-    table.columns.insert(
-        at,
-        OutColumn {
-            name: "CONTACT".into(),
-            unit: String::new(),
-            description:
-                "SATURATION STEP BELOW: 1 ROCK QUALITY 2 FLUID CONTACT 3 UNEXPLAINED 4 FLAGGED"
-                    .into(),
-            values: curve,
-            integer: true,
-        },
-    );
+        .insert(at, OutColumn::new(Col::Contact, depth_unit, curve));
     Some(audit)
 }
 

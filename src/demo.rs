@@ -1,19 +1,21 @@
 //! `flowzone demo`: writes the invented demo field (see `demo-wells/README.md`)
-//! from the synthetic forward model in [`crate::synth`]: one LAS 2.0 file per
+//! from the synthetic forward model in [`crate::demo::synth`]: one LAS 2.0 file per
 //! well, the CSV tables (core, capillary pressure, pressures, zone tops,
 //! survey), the model's truth per well under `truth/`, and the README; or,
 //! with `--wells N`, a synthetic bench field of N wells from the same model
 //! ([`write_field`]).
+
+pub mod synth;
 
 use std::io::Write as _;
 use std::path::Path;
 
 use rayon::prelude::*;
 
+use crate::demo::synth::{HeaderEntry, SynthCurve, SynthWell};
 use crate::error::Error;
-use crate::las::{CurveInfo, HeaderItem, writer};
+use crate::input::las::{CurveInfo, HeaderItem};
 use crate::output::{OutColumn, Table, write_atomic, write_csv};
-use crate::synth::{self, HeaderEntry, SynthCurve, SynthWell};
 
 fn item(h: &HeaderEntry) -> HeaderItem {
     HeaderItem {
@@ -37,7 +39,7 @@ fn curve_info(mnemonic: &str, unit: &str, description: &str) -> CurveInfo {
 }
 
 /// The well as a LAS file, and the precision of each column.
-pub fn well_las(w: &SynthWell) -> (crate::las::LasFile, Vec<usize>) {
+pub fn well_las(w: &SynthWell) -> (crate::input::las::LasFile, Vec<usize>) {
     let depth_decimals = 4;
     let mut curves = vec![(
         curve_info("DEPT", &w.depth_unit, "MEASURED DEPTH"),
@@ -51,7 +53,7 @@ pub fn well_las(w: &SynthWell) -> (crate::las::LasFile, Vec<usize>) {
         ));
         decimals.push(c.decimals);
     }
-    let file = writer::new_file(
+    let file = crate::output::las::new_file(
         w.well_items.iter().map(item).collect(),
         w.params.iter().map(item).collect(),
         curves,
@@ -61,6 +63,7 @@ pub fn well_las(w: &SynthWell) -> (crate::las::LasFile, Vec<usize>) {
 
 fn truth_table(w: &SynthWell) -> Table {
     let mut columns = vec![OutColumn {
+        key: None,
         name: "DEPTH".into(),
         unit: w.depth_unit.clone(),
         description: "MEASURED DEPTH".into(),
@@ -68,6 +71,7 @@ fn truth_table(w: &SynthWell) -> Table {
         integer: false,
     }];
     columns.extend(w.truth.iter().map(|c: &SynthCurve| OutColumn {
+        key: None,
         name: c.mnemonic.clone(),
         unit: c.unit.clone(),
         description: c.description.clone(),
@@ -116,9 +120,11 @@ fn write_well_las(out: &Path, w: &SynthWell) -> Result<(), crate::output::Output
     let (las, decimals) = well_las(w);
     let path = out.join(format!("{}.las", w.file_stem));
     write_atomic(&path, |f| {
-        writer::write_las(f, &las, &decimals).map_err(|source| crate::output::OutputError::Io {
-            path: path.clone(),
-            source,
+        crate::output::las::write_las(f, &las, &decimals).map_err(|source| {
+            crate::output::OutputError::Io {
+                path: path.clone(),
+                source,
+            }
         })
     })
 }

@@ -21,7 +21,7 @@ pub enum Error {
     #[error(transparent)]
     Config(#[from] crate::config::ConfigError),
     #[error(transparent)]
-    Las(#[from] crate::las::LasError),
+    Las(#[from] crate::input::las::LasError),
     #[error(transparent)]
     Output(#[from] crate::output::OutputError),
     #[error("{0}")]

@@ -30,45 +30,22 @@
 //! petrophysicist before they inform reserves, well or investment decisions,
 //! and used under local regulation and licensed practice.
 
-pub mod capillary;
-pub mod capillary_data;
 pub mod classes;
-pub mod classify;
 pub mod cli;
-pub mod compare;
 pub mod config;
 pub mod contacts;
-pub mod core_data;
-pub mod core_set;
-pub mod curves;
 pub mod demo;
-pub mod depth;
 pub mod error;
-pub mod export;
 pub mod field;
-pub mod inspect;
-pub mod las;
-pub mod manifest;
-pub mod numfmt;
+pub mod input;
 pub mod output;
-pub mod params;
 pub mod petro;
-pub mod plots;
-pub mod png;
-pub mod predictor;
-pub mod pressure;
+pub mod pipeline;
 pub mod report;
 pub mod sat_height;
-pub mod saturation;
-pub mod shard;
-pub mod stages;
-pub mod summary;
-pub mod svg;
-pub mod synth;
-pub mod tables;
+pub mod stats;
 pub mod units;
 pub mod well;
-pub mod zones;
 
 #[cfg(test)]
 mod testutil;

@@ -6,6 +6,11 @@
 //! file under a final name. Missing samples are an empty CSV field, a Parquet
 //! null and the NULL value in LAS.
 
+pub mod las;
+pub mod manifest;
+pub mod numfmt;
+pub mod schema;
+
 use std::fs::File;
 use std::io::{BufWriter, Write};
 use std::path::{Path, PathBuf};
@@ -13,8 +18,9 @@ use std::path::{Path, PathBuf};
 use polars::prelude::{Column, CsvWriter, DataFrame, ParquetCompression, ParquetWriter, SerWriter};
 
 use crate::config::Format;
-use crate::las::{CurveInfo, HeaderItem, writer};
-use crate::numfmt;
+use crate::input::las::{CurveInfo, HeaderItem};
+use crate::output::schema::Col;
+use crate::units::DepthUnit;
 
 /// An error writing an output file.
 #[derive(Debug, thiserror::Error)]
@@ -36,6 +42,9 @@ pub enum OutputError {
 /// One output column.
 #[derive(Debug, Clone)]
 pub struct OutColumn {
+    /// Which curve of the column set this is; `None` for a column outside it
+    /// (an exported LAS curve, a demo truth table).
+    pub key: Option<Col>,
     pub name: String,
     pub unit: String,
     pub description: String,
@@ -56,8 +65,29 @@ pub struct Table {
 }
 
 impl Table {
+    /// Depth samples (rows).
     pub fn n_rows(&self) -> usize {
         self.columns.first().map_or(0, |c| c.values.len())
+    }
+
+    /// The values of column `col`, `None` when no stage gave it.
+    pub fn get(&self, col: Col) -> Option<&[f64]> {
+        self.column(col).map(|c| c.values.as_slice())
+    }
+
+    /// Column `col`, `None` when no stage gave it.
+    pub fn column(&self, col: Col) -> Option<&OutColumn> {
+        self.columns.iter().find(|c| c.key == Some(col))
+    }
+
+    /// Column `col` to change in place.
+    pub fn column_mut(&mut self, col: Col) -> Option<&mut OutColumn> {
+        self.columns.iter_mut().find(|c| c.key == Some(col))
+    }
+
+    /// Where column `col` stands, `None` when no stage gave it.
+    pub fn position(&self, col: Col) -> Option<usize> {
+        self.columns.iter().position(|c| c.key == Some(col))
     }
 
     fn data_frame(&self) -> Result<DataFrame, polars::error::PolarsError> {
@@ -68,6 +98,25 @@ impl Table {
 }
 
 impl OutColumn {
+    /// Column `col` of the column set, with its name, unit and description.
+    pub fn new(col: Col, depth_unit: DepthUnit, values: Vec<f64>) -> OutColumn {
+        OutColumn {
+            key: Some(col),
+            name: col.name().into(),
+            unit: col.unit(depth_unit).into(),
+            description: col.description().into(),
+            values,
+            integer: col.integer(),
+        }
+    }
+
+    /// The same column with the stage's own description.
+    #[must_use]
+    pub fn described(mut self, description: impl Into<String>) -> OutColumn {
+        self.description = description.into();
+        self
+    }
+
     /// The column for polars: integers as i64, floats as f64, NaN as null.
     fn polars(&self) -> Column {
         let name = self.name.as_str().into();
@@ -90,23 +139,23 @@ impl OutColumn {
 
 /// The computed curves of the field table, in order; a well without one
 /// (no classes, no saturation-height) gets nulls, so every file has one schema.
-pub const FIELD_COLUMNS: [(&str, bool); 16] = [
-    ("DEPTH", false),
-    ("TVDSS", false),
-    ("VSH", false),
-    ("PHIT", false),
-    ("PHIE", false),
-    ("SW", false),
-    ("SW_FIXED", false),
-    ("BVW", false),
-    ("CLASS", true),
-    ("CLASS_PROB", false),
-    ("PERM", false),
-    ("HAFWL", false),
-    ("SWH", false),
-    ("SW_RESID", false),
-    ("CONTACT", true),
-    ("FLAG", true),
+pub const FIELD_COLUMNS: [Col; 16] = [
+    Col::Depth,
+    Col::Tvdss,
+    Col::Vsh,
+    Col::Phit,
+    Col::Phie,
+    Col::Sw,
+    Col::SwFixed,
+    Col::Bvw,
+    Col::Class,
+    Col::ClassProb,
+    Col::Perm,
+    Col::Hafwl,
+    Col::Swh,
+    Col::SwResid,
+    Col::Contact,
+    Col::Flag,
 ];
 
 /// Write a well's rows of the field table: WELL, then [`FIELD_COLUMNS`], as
@@ -119,19 +168,13 @@ pub fn write_field_part(table: &Table, well: &str, path: &Path) -> Result<(), Ou
     };
     let n = table.n_rows();
     let mut columns = vec![Column::new("WELL".into(), vec![well; n])];
-    for (name, integer) in FIELD_COLUMNS {
-        let col = match table.columns.iter().find(|c| c.name == name) {
+    for col in FIELD_COLUMNS {
+        let column = match table.column(col) {
             Some(c) => c.polars(),
-            None => OutColumn {
-                name: name.into(),
-                unit: String::new(),
-                description: String::new(),
-                values: vec![f64::NAN; n],
-                integer,
-            }
-            .polars(),
+            // the unit is not written to Parquet
+            None => OutColumn::new(col, DepthUnit::Metre, vec![f64::NAN; n]).polars(),
         };
-        columns.push(col);
+        columns.push(column);
     }
     let mut df = DataFrame::new(n, columns).map_err(table_err)?;
     write_frame_parquet(&mut df, path)
@@ -341,7 +384,7 @@ pub fn write_las(table: &Table, path: &Path, decimals: Option<usize>) -> Result<
         })
         .collect();
     let columns: Vec<&[f64]> = table.columns.iter().map(|c| c.values.as_slice()).collect();
-    let parts = writer::LasParts {
+    let parts = las::LasParts {
         well_items: &table.well_items,
         params: &table.params,
         other: "",
@@ -358,7 +401,7 @@ pub fn write_las(table: &Table, path: &Path, decimals: Option<usize>) -> Result<
         None => Vec::new(),
     };
     write_atomic(path, |out| {
-        writer::write_parts(out, &parts, &precision).map_err(|source| OutputError::Io {
+        las::write_parts(out, &parts, &precision).map_err(|source| OutputError::Io {
             path: path.to_path_buf(),
             source,
         })
@@ -423,6 +466,7 @@ mod tests {
     fn csv_same_text_as_polars() {
         let dir = tempfile::tempdir().expect("temp dir");
         let col = |name: &str, values: Vec<f64>, integer: bool| OutColumn {
+            key: None,
             name: name.into(),
             unit: String::new(),
             description: String::new(),
@@ -455,6 +499,7 @@ mod tests {
         let t = Table {
             columns: vec![
                 OutColumn {
+                    key: None,
                     name: "DEPT".into(),
                     unit: "M".into(),
                     description: String::new(),
@@ -462,6 +507,7 @@ mod tests {
                     integer: false,
                 },
                 OutColumn {
+                    key: None,
                     name: "GR".into(),
                     unit: "GAPI".into(),
                     description: String::new(),

@@ -4,6 +4,8 @@
 //! (`stages`) applies them to a well's curves, clips to physical bounds and
 //! counts what it clipped.
 
+pub mod saturation;
+
 pub mod porosity;
 pub mod shale;
 pub mod water;

@@ -9,12 +9,19 @@
 //! scripts, fonts or anything else from the network. Every page carries the
 //! interpretation caution.
 
+pub mod assemble;
+pub mod plots;
+pub mod png;
+pub mod svg;
+
 use std::fmt::Write as _;
 use std::path::Path;
 
+use crate::input::curves::LogicalCurve as L;
+use crate::output::schema::Col;
 use crate::output::{self, OutputError, Table};
-use crate::plots::{self, ArchieLine, Boundaries, CorePoint, JClass, PickettPoint, WellCurves};
-use crate::svg::escape;
+use crate::report::plots::{ArchieLine, Boundaries, CorePoint, JClass, PickettPoint, WellCurves};
+use crate::report::svg::escape;
 
 /// Folder of the report under the output folder.
 pub const REPORT_DIR: &str = "report";
@@ -124,7 +131,7 @@ pub struct WellPage<'a> {
     pub depth_unit: &'a str,
     pub table: &'a Table,
     pub zone_marks: Vec<plots::ZoneMark>,
-    pub zones: &'a [crate::summary::ZoneSummary],
+    pub zones: &'a [crate::well::summary::ZoneSummary],
     pub steps: &'a [crate::contacts::Step],
     pub implied_fwl: Option<&'a crate::contacts::ImpliedFwl>,
     pub fwl_tvdss: Option<f64>,
@@ -138,18 +145,13 @@ pub struct WellPage<'a> {
 }
 
 /// The column `name` of a table.
-fn column<'a>(t: &'a Table, name: &str) -> Option<&'a [f64]> {
-    t.columns
-        .iter()
-        .find(|c| c.name == name)
-        .map(|c| c.values.as_slice())
-}
-
 /// Up to `max` (PHIE, RT, CLASS) points of a well, evenly strided.
 pub fn pickett_points(t: &Table, max: usize) -> Vec<PickettPoint> {
-    let (Some(phi), Some(rt), Some(class)) =
-        (column(t, "PHIE"), column(t, "RT"), column(t, "CLASS"))
-    else {
+    let (Some(phi), Some(rt), Some(class)) = (
+        t.get(Col::Phie),
+        t.get(Col::Input(L::DeepResistivity)),
+        t.get(Col::Class),
+    ) else {
         return Vec::new();
     };
     let all: Vec<PickettPoint> = phi
@@ -176,32 +178,32 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
         source,
     })?;
     let t = p.table;
-    let md = column(t, "DEPTH").unwrap_or(&[]);
+    let md = t.get(Col::Depth).unwrap_or(&[]);
     let mut curves = std::collections::BTreeMap::new();
-    for name in [
-        "GR",
-        "VSH",
-        "RT",
-        "RHOB",
-        "NPHI",
-        "PHIT",
-        "PHIE",
-        "CLASS",
-        "CLASS_PROB",
-        "SW",
-        "SWH",
-        "SW_FIXED",
-        "FLAG",
+    for col in [
+        Col::Input(L::GammaRay),
+        Col::Vsh,
+        Col::Input(L::DeepResistivity),
+        Col::Input(L::BulkDensity),
+        Col::Input(L::NeutronPorosity),
+        Col::Phit,
+        Col::Phie,
+        Col::Class,
+        Col::ClassProb,
+        Col::Sw,
+        Col::Swh,
+        Col::SwFixed,
+        Col::Flag,
     ] {
-        if let Some(c) = column(t, name) {
-            curves.insert(name, c);
+        if let Some(c) = t.get(col) {
+            curves.insert(col, c);
         }
     }
     let curves_in = WellCurves {
         well: p.well,
         depth_unit: p.depth_unit,
         md,
-        tvdss: column(t, "TVDSS"),
+        tvdss: t.get(Col::Tvdss),
         curves,
         zones: p.zone_marks.clone(),
         steps: p
@@ -309,7 +311,7 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
     h.push_str("<h2>Log plot</h2>\n");
     if p.png {
         let png_path = dir.join(format!("{}-log.png", p.stem));
-        let png = crate::png::svg_to_png(&log_svg).map_err(|e| OutputError::Io {
+        let png = crate::report::png::svg_to_png(&log_svg).map_err(|e| OutputError::Io {
             path: png_path.clone(),
             source: std::io::Error::other(e),
         })?;
@@ -352,7 +354,7 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
 
 /// One well's line on the field page.
 pub struct WellRow<'a> {
-    pub report: &'a crate::field::WellReport,
+    pub report: &'a crate::pipeline::WellReport,
     /// The well's page, relative to the report folder, when it has one.
     pub page: Option<String>,
 }
@@ -362,7 +364,7 @@ pub struct FieldPage<'a> {
     pub project: &'a str,
     pub depth_unit: &'a str,
     pub wells: Vec<WellRow<'a>>,
-    pub manifest: &'a crate::manifest::Manifest,
+    pub manifest: &'a crate::output::manifest::Manifest,
     pub core: Vec<CorePoint>,
     pub boundaries: Boundaries,
     pub class_count: u8,
@@ -370,7 +372,7 @@ pub struct FieldPage<'a> {
     pub pressures: Vec<plots::PressureCompartment>,
     /// The class predictor's leave-one-well-out confusion matrix.
     pub confusion: Option<Vec<Vec<usize>>>,
-    pub zones: &'a [crate::summary::ZoneSummary],
+    pub zones: &'a [crate::well::summary::ZoneSummary],
     /// A sample of every well's depths, and the field's Archie lines by class.
     pub pickett: Vec<PickettPoint>,
     pub archie: Vec<ArchieLine>,
@@ -590,7 +592,7 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
 }
 
 /// A J-curve sampled for plotting: Sw at J on a log grid, Sw increasing.
-pub fn sample_j_curve(curve: &crate::capillary_data::JCurve) -> Vec<(f64, f64)> {
+pub fn sample_j_curve(curve: &crate::sat_height::lab_curves::JCurve) -> Vec<(f64, f64)> {
     let mut v: Vec<(f64, f64)> = (0..=80)
         .map(|i| 10f64.powf(-2.0 + 4.0 * f64::from(i) / 80.0))
         .map(|j| (curve.sw(j), j))

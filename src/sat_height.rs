@@ -14,22 +14,26 @@
 //! metres for the pressure fit and the height-to-pressure step, pressure psi,
 //! σ dyn/cm, density g/cm3, permeability mD, porosity and saturation v/v.
 
+pub mod capillary;
+pub mod fwl;
+pub mod lab_curves;
+
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
 use serde::{Deserialize, Serialize};
 
-use crate::capillary::{FluidSystem, leverett_j, pc_at_height_psi, sigma_cos};
-use crate::capillary_data::{self, CapSample, J_FORM_CRITERION, JCurve, JFit};
 use crate::classes::ClassScheme;
+use crate::classes::predictor::model_file::SchemeInfo;
 use crate::config::{CompartmentConfig, Config, FluidProps};
-use crate::core_data::Rejected;
-use crate::core_set::column;
 use crate::error::{Error, chain};
+use crate::input::core_samples::Rejected;
+use crate::output::schema::Col;
+use crate::output::schema::{FLAG_MISSING_INPUT, FLAG_OUT_OF_RANGE, FLAG_OUTSIDE_ZONE};
 use crate::output::{OutColumn, OutputError, Table, write_atomic};
-use crate::predictor::model_file::SchemeInfo;
-use crate::pressure::{self, FwlFit};
-use crate::stages::{FLAG_MISSING_INPUT, FLAG_OUT_OF_RANGE, FLAG_OUTSIDE_ZONE};
+use crate::sat_height::capillary::{FluidSystem, leverett_j, pc_at_height_psi, sigma_cos};
+use crate::sat_height::fwl::FwlFit;
+use crate::sat_height::lab_curves::{CapSample, J_FORM_CRITERION, JCurve, JFit};
 use crate::units::DepthUnit;
 
 /// The J-function a class uses.
@@ -200,7 +204,7 @@ pub fn prepare(
     // plugs
     let cap_path = config.resolve_path(&cap.file);
     let (mut samples, plugs_rejected) =
-        capillary_data::read(&cap_path).map_err(|e| usage(chain(&e)))?;
+        lab_curves::read(&cap_path).map_err(|e| usage(chain(&e)))?;
     for s in &mut samples {
         if let Some(o) = lab_override(cap, s.system) {
             relabel(s, sigma_cos(o.sigma_dyn_cm, o.theta_deg));
@@ -261,7 +265,7 @@ pub fn prepare(
             .collect();
         let names: Vec<String> = members.iter().map(|s| s.sample.clone()).collect();
         j_points.extend(pts.iter().map(|&(j, sw)| (c, sw, j)));
-        let fit = capillary_data::fit_j_curve(&pts).map_err(|m| {
+        let fit = lab_curves::fit_j_curve(&pts).map_err(|m| {
             usage(format!(
                 "capillary class {c} (plugs {}): the J-function fit failed: {m}",
                 names.join(", ")
@@ -305,11 +309,11 @@ pub fn prepare(
         .iter()
         .zip(&plug_class)
         .map(|(s, (c, src))| {
-            let rms_own = capillary_data::plug_rms(s, &classes[usize::from(*c) - 1].curve);
+            let rms_own = lab_curves::plug_rms(s, &classes[usize::from(*c) - 1].curve);
             let best_other = classes
                 .iter()
                 .filter(|k| k.class != *c && k.borrowed_from.is_none())
-                .map(|k| (k.class, capillary_data::plug_rms(s, &k.curve)))
+                .map(|k| (k.class, lab_curves::plug_rms(s, &k.curve)))
                 .min_by(|a, b| a.1.total_cmp(&b.1));
             let suggested_class = best_other
                 .filter(|(_, r)| src == "scheme" && *r <= cap.suggest_ratio * rms_own)
@@ -425,9 +429,9 @@ pub fn read_pressure_points(
     depth_unit: DepthUnit,
     exclude_quality: &[String],
     tvdss_of: TvdssOf<'_>,
-) -> Result<(Vec<PressureObs>, Vec<Rejected>), crate::tables::TableError> {
+) -> Result<(Vec<PressureObs>, Vec<Rejected>), crate::input::tables::TableError> {
     let to_m = depth_unit.factor_to(DepthUnit::Metre);
-    let rows: Vec<(u64, PressureRow)> = crate::tables::read_csv(path)?;
+    let rows: Vec<(u64, PressureRow)> = crate::input::tables::read_csv(path)?;
     let mut points = Vec::with_capacity(rows.len());
     let mut left_out = Vec::new();
     for (line, r) in rows {
@@ -551,8 +555,8 @@ fn compartments(
             )))
         } else {
             Some(match c.split_tvdss {
-                Some(s) => pressure::fit_fwl_split_at(&pts, s * to_m),
-                None => pressure::fit_fwl_auto(&pts, min_leg),
+                Some(s) => fwl::fit_fwl_split_at(&pts, s * to_m),
+                None => fwl::fit_fwl_auto(&pts, min_leg),
             })
         };
         let (fwl_tvdss, fwl_sigma, source) = match (c.fwl_tvdss, &fit) {
@@ -695,14 +699,14 @@ impl SatHeightModel {
         };
         let n = table.n_rows();
         let nan = vec![f64::NAN; n];
-        let get = |name: &str| column(table, name).unwrap_or(&nan);
+        let get = |c: Col| table.get(c).unwrap_or(&nan);
         let (tvdss, class, perm, phie, sw, flag) = (
-            get("TVDSS"),
-            get("CLASS"),
-            get("PERM"),
-            get("PHIE"),
-            get("SW"),
-            get("FLAG"),
+            get(Col::Tvdss),
+            get(Col::Class),
+            get(Col::Perm),
+            get(Col::Phie),
+            get(Col::Sw),
+            get(Col::Flag),
         );
         let to_m = self.depth_unit.factor_to(DepthUnit::Metre);
         let drho = comp.rho_water_gcc - comp.rho_hc_gcc;
@@ -742,39 +746,18 @@ impl SatHeightModel {
                     .into(),
             );
         }
-        let du = crate::units::Quantity::Depth.canonical_unit(self.depth_unit);
+        let du = self.depth_unit;
         let new = [
-            OutColumn {
-                name: "HAFWL".into(),
-                unit: du.into(),
-                description: format!(
-                    "HEIGHT ABOVE FREE WATER LEVEL ({} {:.2})",
-                    comp.name.to_ascii_uppercase(),
-                    comp.fwl_tvdss
-                ),
-                values: hafwl,
-                integer: false,
-            },
-            OutColumn {
-                name: "SWH".into(),
-                unit: "V/V".into(),
-                description: "WATER SATURATION FROM HEIGHT, CLASS J-FUNCTION".into(),
-                values: swh,
-                integer: false,
-            },
-            OutColumn {
-                name: "SW_RESID".into(),
-                unit: "V/V".into(),
-                description: "SW MINUS SWH".into(),
-                values: resid,
-                integer: false,
-            },
+            OutColumn::new(Col::Hafwl, du, hafwl).described(format!(
+                "{} ({} {:.2})",
+                Col::Hafwl.description(),
+                comp.name.to_ascii_uppercase(),
+                comp.fwl_tvdss
+            )),
+            OutColumn::new(Col::Swh, du, swh),
+            OutColumn::new(Col::SwResid, du, resid),
         ];
-        let at = table
-            .columns
-            .iter()
-            .position(|c| c.name == "FLAG")
-            .unwrap_or(table.columns.len());
+        let at = table.position(Col::Flag).unwrap_or(table.columns.len());
         for (k, c) in new.into_iter().enumerate() {
             table.columns.insert(at + k, c);
         }
@@ -789,17 +772,6 @@ impl SatHeightModel {
                 .collect(),
             possible_other_fwl: None,
         })
-    }
-}
-
-/// Median of a non-empty slice.
-fn median(v: &mut [f64]) -> f64 {
-    v.sort_by(f64::total_cmp);
-    let n = v.len();
-    if n % 2 == 1 {
-        v[n / 2]
-    } else {
-        0.5 * (v[n / 2 - 1] + v[n / 2])
     }
 }
 
@@ -839,7 +811,7 @@ pub fn mark_biased_wells(
         if same.is_empty() {
             continue;
         }
-        let med = median(&mut same);
+        let med = crate::stats::median(&mut same);
         if (w.residual.mean - med).abs() > threshold {
             let msg = format!(
                 "mean SW − SWH above the FWL is {:+.3} against {:+.3} in {scope} (threshold {threshold}): possibly another free water level than compartment `{}`'s {:.1}",
@@ -898,8 +870,8 @@ pub struct ModelExport<'a> {
     pub saturation_height: &'a SatHeightModel,
     /// Archie a, m, n per class: field-level (index 0 = class 1), then the
     /// zones that set their own.
-    pub archie_by_class: Vec<crate::saturation::ArchieParams>,
-    pub archie_by_zone_and_class: BTreeMap<String, Vec<crate::saturation::ArchieParams>>,
+    pub archie_by_class: Vec<crate::petro::saturation::ArchieParams>,
+    pub archie_by_zone_and_class: BTreeMap<String, Vec<crate::petro::saturation::ArchieParams>>,
     pub perm_method: crate::config::PermMethod,
     pub perm_by_class: &'a [crate::classes::perm::ClassPerm],
 }
@@ -936,7 +908,7 @@ pub fn write_outputs(
                 .archie_by_class
                 .get(usize::from(c.class) - 1)
                 .copied()
-                .unwrap_or(crate::saturation::ArchieParams::DEFAULT);
+                .unwrap_or(crate::petro::saturation::ArchieParams::DEFAULT);
             let (jd, lambda, swirr, g, snw) = match &c.curve {
                 JCurve::BrooksCorey(b) => (b.jd, Some(b.lambda), Some(b.swirr), None, None),
                 JCurve::Thomeer(t) => (t.jd, None, None, Some(t.g), Some(t.snw_inf)),

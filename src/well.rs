@@ -2,24 +2,30 @@
 //!
 //! Stages: read the file; resolve the logical curves and convert them to
 //! canonical units; depth reference (TVD, TVDSS); zones; parameters per zone
-//! (with gamma-ray picks); the petrophysics chain ([`crate::stages`]). Each
+//! (with gamma-ray picks); the petrophysics chain ([`crate::well::chain`]). Each
 //! stage returns a `Result`, so a bad well becomes a [`WellError`] for the
 //! field run to record, never a panic.
+
+pub mod chain;
+pub mod depth;
+pub mod summary;
+pub mod zones;
 
 use std::path::{Path, PathBuf};
 
 use serde::{Deserialize, Serialize};
 
 use crate::config::Config;
-use crate::curves::{self, CurveError, LogicalCurve, ResolvedCurve};
-use crate::depth::{Survey, tvd_at};
-use crate::las::{self, LasError, LasFile, ReadOptions};
+use crate::input::curves::{self, CurveError, LogicalCurve, ResolvedCurve};
+use crate::input::las::{self, LasError, LasFile, ReadOptions};
+use crate::input::tables::{TableError, read_csv};
+use crate::output::schema::{Col, FLAG_CLIPPED, FLAG_NO_CLASS_EXPONENTS, flag_description};
 use crate::output::{OutColumn, OutputError, Table};
-use crate::saturation::{ArchieParams, SaturationModel};
-use crate::stages::{self, Counts, Inputs, ZoneSetup};
-use crate::tables::{TableError, read_csv};
+use crate::petro::saturation::{ArchieParams, SaturationModel};
 use crate::units::{DepthUnit, Quantity};
-use crate::zones::{self, Tops};
+use crate::well::chain::{Counts, Inputs, ZoneSetup};
+use crate::well::depth::{Survey, tvd_at};
+use crate::well::zones::Tops;
 
 /// Why a well failed.
 #[derive(Debug, thiserror::Error)]
@@ -343,8 +349,8 @@ pub fn process_file(
         let (clean, shale, picked) = match (params.gr_clean_gapi, params.gr_shale_gapi) {
             (Some(c), Some(s)) => (c, s, false),
             (c, s) => (
-                c.unwrap_or_else(|| stages::percentile(&in_zone, lo)),
-                s.unwrap_or_else(|| stages::percentile(&in_zone, hi)),
+                c.unwrap_or_else(|| crate::stats::percentile(&in_zone, lo)),
+                s.unwrap_or_else(|| crate::stats::percentile(&in_zone, hi)),
                 true,
             ),
         };
@@ -476,7 +482,7 @@ pub fn process_file(
             }
         }
     }
-    let mut out = stages::run(&inputs, &zone_of, &setups);
+    let mut out = chain::run(&inputs, &zone_of, &setups);
     let rw = std::mem::take(&mut out.rw);
     if out.counts.outside_zone > 0 && well_tops.is_some() {
         warnings.push(format!(
@@ -485,46 +491,31 @@ pub fn process_file(
         ));
     }
 
-    let du = Quantity::Depth.canonical_unit(depth_unit);
-    let col = |name: &str, unit: &str, description: &str, values: Vec<f64>| OutColumn {
-        name: name.into(),
-        unit: unit.into(),
-        description: description.into(),
-        values,
-        integer: name == "FLAG",
-    };
+    let col = |c: Col, values: Vec<f64>| OutColumn::new(c, depth_unit, values);
     let mut columns = vec![
-        col("DEPTH", du, "MEASURED DEPTH", md),
-        col("TVDSS", du, "TRUE VERTICAL DEPTH BELOW SEA LEVEL", tvdss),
-        col("VSH", "V/V", "SHALE VOLUME", out.vsh),
-        col("PHIT", "V/V", "TOTAL POROSITY", out.phit),
-        col("PHIE", "V/V", "EFFECTIVE POROSITY", out.phie),
-        col("SW", "V/V", "WATER SATURATION", out.sw),
-        col("BVW", "V/V", "BULK VOLUME WATER", out.bvw),
-        col(
-            "FLAG",
-            "",
-            "QUALITY FLAG BITS 1 BAD HOLE 2 OUT OF RANGE 4 MISSING INPUT 8 OUTSIDE ZONE 16 CLIPPED",
-            out.flag.iter().map(|&f| f64::from(f)).collect(),
-        ),
+        col(Col::Depth, md),
+        col(Col::Tvdss, tvdss),
+        col(Col::Vsh, out.vsh),
+        col(Col::Phit, out.phit),
+        col(Col::Phie, out.phie),
+        col(Col::Sw, out.sw),
+        col(Col::Bvw, out.bvw),
+        col(Col::Flag, out.flag.iter().map(|&f| f64::from(f)).collect())
+            .described(flag_description(FLAG_CLIPPED)),
     ];
     let resolved = found
         .iter()
         .map(|r| (r.logical, r.mnemonic.clone(), r.source_unit.clone()))
         .collect();
     for r in found {
-        columns.push(OutColumn {
-            name: r.logical.output_mnemonic().into(),
-            unit: r.logical.quantity().canonical_unit(depth_unit).into(),
-            description: format!(
-                "{} (FROM {} {})",
-                r.logical.description(),
-                r.mnemonic,
-                r.source_unit
-            ),
-            values: r.values,
-            integer: false,
-        });
+        let c = Col::Input(r.logical);
+        let description = format!(
+            "{} (FROM {} {})",
+            c.description(),
+            r.mnemonic,
+            r.source_unit
+        );
+        columns.push(OutColumn::new(c, depth_unit, r.values).described(description));
     }
     let keep = [
         "WELL", "UWI", "API", "COMP", "FLD", "LOC", "CTRY", "PROV", "STAT", "SRVC", "DATE",
@@ -558,25 +549,17 @@ pub fn process_file(
     })
 }
 
-/// The FLAG description of every bit a run can set.
-pub const FLAG_DESCRIPTION: &str = "QUALITY FLAG BITS 1 BAD HOLE 2 OUT OF RANGE 4 MISSING INPUT 8 OUTSIDE ZONE 16 CLIPPED 32 LOW CLASS PROBABILITY 64 NO CLASS EXPONENTS";
-
 impl WellOutput {
-    /// A column's values by name.
-    pub fn column(&self, name: &str) -> Option<&[f64]> {
-        crate::core_set::column(&self.table, name)
-    }
-
-    fn column_mut(&mut self, name: &str) -> Option<&mut OutColumn> {
-        self.table.columns.iter_mut().find(|c| c.name == name)
-    }
-
     /// Recompute SW (and BVW) with Archie a, m, n looked up at each depth from
-    /// its CLASS ([`stages::saturation_by_class`]); the chain's SW, with the
+    /// its CLASS ([`chain::saturation_by_class`]); the chain's SW, with the
     /// zone's own exponents, is kept beside it as SW_FIXED. Needs the CLASS
     /// column; without it every interpreted depth keeps the zone's exponents
     /// and is flagged 64. `max_class` is the scheme's class count.
-    pub fn apply_class_exponents(&mut self, params: &crate::params::Parameters, max_class: u8) {
+    pub fn apply_class_exponents(
+        &mut self,
+        params: &crate::config::params::Parameters,
+        max_class: u8,
+    ) {
         let n = self.table.n_rows();
         let nan = vec![f64::NAN; n];
         let by_zone: Vec<(String, Vec<ArchieParams>)> = self
@@ -590,49 +573,41 @@ impl WellOutput {
                 )
             })
             .collect();
-        let table: Vec<Vec<ArchieParams>> = by_zone.iter().map(|(_, t)| t.clone()).collect();
-        let mut flag: Vec<u32> = self
-            .column("FLAG")
+        let archie: Vec<Vec<ArchieParams>> = by_zone.iter().map(|(_, t)| t.clone()).collect();
+        let table = &mut self.table;
+        let mut flag: Vec<u32> = table
+            .get(Col::Flag)
             .map_or_else(|| vec![0; n], |f| f.iter().map(|&v| v as u32).collect());
-        let col = |name: &str| self.column(name).unwrap_or(&nan);
-        let inputs = stages::ClassSwInputs {
+        let col = |c: Col| table.get(c).unwrap_or(&nan);
+        let inputs = chain::ClassSwInputs {
             zone_of: &self.zone_of,
             rw: &self.rw,
-            rt: col("RT"),
-            vsh: col("VSH"),
-            phie: col("PHIE"),
-            sw_fixed: col("SW"),
-            class: col("CLASS"),
+            rt: col(Col::Input(LogicalCurve::DeepResistivity)),
+            vsh: col(Col::Vsh),
+            phie: col(Col::Phie),
+            sw_fixed: col(Col::Sw),
+            class: col(Col::Class),
         };
-        let result = stages::saturation_by_class(&inputs, &self.report.zones, &table, &mut flag);
-        let sw_fixed = self.column("SW").map(<[f64]>::to_vec).unwrap_or_default();
-        if let Some(c) = self.column_mut("SW") {
+        let result = chain::saturation_by_class(&inputs, &self.report.zones, &archie, &mut flag);
+        let sw_fixed = table.get(Col::Sw).map(<[f64]>::to_vec).unwrap_or_default();
+        if let Some(c) = table.column_mut(Col::Sw) {
             c.values = result.sw;
             c.description = "WATER SATURATION, ARCHIE EXPONENTS BY CLASS".into();
         }
-        if let Some(c) = self.column_mut("BVW") {
+        if let Some(c) = table.column_mut(Col::Bvw) {
             c.values = result.bvw;
         }
-        if let Some(c) = self.column_mut("FLAG") {
+        if let Some(c) = table.column_mut(Col::Flag) {
             c.values = flag.iter().map(|&f| f64::from(f)).collect();
-            c.description = FLAG_DESCRIPTION.into();
+            c.description = flag_description(FLAG_NO_CLASS_EXPONENTS);
         }
-        let at = self
-            .table
+        let at = table
+            .position(Col::Sw)
+            .map_or(table.columns.len(), |i| i + 1);
+        let depth_unit = crate::units::DepthUnit::Metre; // SW_FIXED has no depth unit
+        table
             .columns
-            .iter()
-            .position(|c| c.name == "SW")
-            .map_or(self.table.columns.len(), |i| i + 1);
-        self.table.columns.insert(
-            at,
-            OutColumn {
-                name: "SW_FIXED".into(),
-                unit: "V/V".into(),
-                description: "WATER SATURATION, THE ZONE'S ONE SET OF EXPONENTS".into(),
-                values: sw_fixed,
-                integer: false,
-            },
-        );
+            .insert(at, OutColumn::new(Col::SwFixed, depth_unit, sw_fixed));
         self.report.class_exponents = Some(ClassExponentCounts {
             no_class: result.no_class,
             clipped: result.clipped,

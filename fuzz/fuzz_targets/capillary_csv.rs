@@ -5,6 +5,6 @@ mod common;
 
 fuzz_target!(|data: &[u8]| {
     common::with_file(data, "csv", |p| {
-        let _ = flowzone::capillary_data::read(p);
+        let _ = flowzone::sat_height::lab_curves::read(p);
     });
 });

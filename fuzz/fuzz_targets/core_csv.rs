@@ -9,7 +9,7 @@ fuzz_target!(|data: &[u8]| {
             flowzone::units::DepthUnit::Metre,
             flowzone::units::DepthUnit::Foot,
         ] {
-            let _ = flowzone::core_data::read_core_csv(p, unit);
+            let _ = flowzone::input::core_samples::read_core_csv(p, unit);
         }
     });
 });

@@ -7,7 +7,7 @@ mod common;
 fuzz_target!(|data: &[u8]| {
     common::with_file(data, "spwla", |p| {
         for file_depth in [DepthUnit::Metre, DepthUnit::Foot] {
-            let _ = flowzone::core_data::read_spwla(p, file_depth, DepthUnit::Metre);
+            let _ = flowzone::input::core_samples::read_spwla(p, file_depth, DepthUnit::Metre);
         }
     });
 });

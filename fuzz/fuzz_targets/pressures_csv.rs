@@ -3,7 +3,7 @@
 //! pressure, and a free water level given is a finite depth and pressure
 //! (its sigma may be NaN: two points per leg leave no degrees of freedom).
 #![no_main]
-use flowzone::pressure::{FwlFit, fit_fwl_auto, fit_fwl_split_at};
+use flowzone::sat_height::fwl::{FwlFit, fit_fwl_auto, fit_fwl_split_at};
 use flowzone::sat_height::read_pressure_points;
 use flowzone::units::DepthUnit;
 use libfuzzer_sys::fuzz_target;

@@ -5,6 +5,6 @@ mod common;
 
 fuzz_target!(|data: &[u8]| {
     common::with_file(data, "csv", |p| {
-        let _ = flowzone::zones::Tops::read(p, flowzone::units::DepthUnit::Metre);
+        let _ = flowzone::well::zones::Tops::read(p, flowzone::units::DepthUnit::Metre);
     });
 });

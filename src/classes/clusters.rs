@@ -183,24 +183,13 @@ fn population_mean_sd(x: &[f64]) -> (f64, f64) {
     (mean, var.sqrt())
 }
 
-/// Sample quantile of sorted data at probability `p`, interpolating linearly
-/// between order statistics at position `p (n - 1)`.
-fn quantile_sorted(sorted: &[f64], p: f64) -> f64 {
-    let last = sorted.len() - 1;
-    let pos = (p.clamp(0.0, 1.0) * last as f64).max(0.0);
-    let lo = (pos.floor() as usize).min(last);
-    let hi = (lo + 1).min(last);
-    let frac = pos - lo as f64;
-    sorted[lo] + frac * (sorted[hi] - sorted[lo])
-}
-
 /// Deterministic starting point for EM with k components.
 fn initial_components(sorted: &[f64], k: usize, overall_sd: f64, sd_floor: f64) -> Vec<Component> {
     let sd = (overall_sd / k as f64).max(sd_floor);
     (0..k)
         .map(|j| Component {
             weight: 1.0 / k as f64,
-            mean_log10: quantile_sorted(sorted, (j as f64 + 0.5) / k as f64),
+            mean_log10: crate::stats::quantile_sorted(sorted, (j as f64 + 0.5) / k as f64),
             sd_log10: sd,
         })
         .collect()

@@ -82,12 +82,8 @@ pub fn fit(samples: &[(u8, f64, f64)]) -> Vec<ClassPerm> {
                 .iter()
                 .map(|(p, k)| (k / perm_from_fzi(fzi_um, *p)).log10()));
             let line = if n >= 3 {
-                let mx = s.iter().map(|x| x.0).sum::<f64>() / n as f64;
-                let my = s.iter().map(|x| x.1.log10()).sum::<f64>() / n as f64;
-                let sxx: f64 = s.iter().map(|x| (x.0 - mx).powi(2)).sum();
-                let sxy: f64 = s.iter().map(|x| (x.0 - mx) * (x.1.log10() - my)).sum();
-                let b = sxy / sxx;
-                (sxx > 0.0).then_some((my - b * mx, b))
+                let pts: Vec<(f64, f64)> = s.iter().map(|(p, k)| (*p, k.log10())).collect();
+                crate::stats::fit_line(&pts).map(|f| (f.intercept, f.slope))
             } else {
                 None
             };

@@ -273,12 +273,12 @@ pub fn validate(
             return Err(("predictor.features".into(), "the list is empty".into()));
         }
         for f in &p.features {
-            if crate::predictor::Feature::parse(f).is_none() {
+            if Feature::parse(f).is_none() {
                 return Err((
                     "predictor.features".into(),
                     format!(
                         "`{f}` is not a feature (valid: {})",
-                        crate::predictor::Feature::ALL
+                        Feature::ALL
                             .iter()
                             .map(|f| f.name())
                             .collect::<Vec<_>>()
@@ -365,5 +365,58 @@ impl SchemeSpec {
                 }
             }
         }
+    }
+}
+
+/// A log feature the predictor can use, by its output name.
+#[derive(
+    Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize, serde::Deserialize,
+)]
+pub enum Feature {
+    #[serde(rename = "VSH")]
+    Vsh,
+    #[serde(rename = "PHIE")]
+    Phie,
+    #[serde(rename = "GR")]
+    Gr,
+    #[serde(rename = "RHOB")]
+    Rhob,
+    #[serde(rename = "NPHI")]
+    Nphi,
+    #[serde(rename = "DT")]
+    Dt,
+    #[serde(rename = "LOG10_RT")]
+    Log10Rt,
+}
+
+impl Feature {
+    pub const ALL: [Feature; 7] = [
+        Feature::Vsh,
+        Feature::Phie,
+        Feature::Gr,
+        Feature::Rhob,
+        Feature::Nphi,
+        Feature::Dt,
+        Feature::Log10Rt,
+    ];
+
+    /// The name used in the config and reports.
+    pub fn name(self) -> &'static str {
+        match self {
+            Feature::Vsh => "VSH",
+            Feature::Phie => "PHIE",
+            Feature::Gr => "GR",
+            Feature::Rhob => "RHOB",
+            Feature::Nphi => "NPHI",
+            Feature::Dt => "DT",
+            Feature::Log10Rt => "LOG10_RT",
+        }
+    }
+
+    /// A feature by name, case-insensitive.
+    pub fn parse(s: &str) -> Option<Feature> {
+        Feature::ALL
+            .into_iter()
+            .find(|f| f.name().eq_ignore_ascii_case(s.trim()))
     }
 }

@@ -152,7 +152,7 @@ pub fn validate(
             ));
         }
         for (name, f) in &c.lab {
-            if crate::capillary::FluidSystem::parse_lab(name).is_none() {
+            if FluidSystem::parse_lab(name).is_none() {
                 return Err((
                     format!("capillary.lab.\"{name}\""),
                     "not a lab system: use mercury-air, air-brine or oil-brine".into(),
@@ -352,5 +352,31 @@ impl ContactsConfig {
             }
         }
         Ok(())
+    }
+}
+
+/// A laboratory or reservoir fluid system with typical interfacial tension
+/// and contact angle (formulas.md §8.2 table; values commonly quoted after
+/// Purcell 1949 and Vavra, Kaldi & Sneider 1992, AAPG Bulletin 76(6); from
+/// memory). Overridable in the config.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum FluidSystem {
+    MercuryAir,
+    AirBrine,
+    OilBrineLab,
+    OilBrineReservoir,
+    GasBrineReservoir,
+}
+
+impl FluidSystem {
+    /// By the names used in capillary-pressure tables: mercury-air,
+    /// air-brine, oil-brine (lab), case-insensitive.
+    pub fn parse_lab(s: &str) -> Option<FluidSystem> {
+        match s.trim().to_ascii_lowercase().as_str() {
+            "mercury-air" | "air-mercury" | "hg-air" => Some(FluidSystem::MercuryAir),
+            "air-brine" | "brine-air" | "gas-brine" => Some(FluidSystem::AirBrine),
+            "oil-brine" | "brine-oil" => Some(FluidSystem::OilBrineLab),
+            _ => None,
+        }
     }
 }

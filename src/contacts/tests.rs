@@ -1,7 +1,7 @@
 //! Constructed profiles with known answers for the contact audit.
 
 use super::*;
-use crate::capillary_data::JCurve;
+use crate::sat_height::lab_curves::JCurve;
 use crate::testutil::assert_close;
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;

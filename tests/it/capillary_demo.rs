@@ -7,8 +7,8 @@
 //! 25 % and Jd within 25 %. Invented data: this measures recovery of a known
 //! answer; the formulas are checked against published values in src/capillary.rs.
 
-use flowzone::capillary_data::{fit_brooks_corey, read};
 use flowzone::classes::{ClassScheme, FziLadder};
+use flowzone::sat_height::lab_curves::{fit_brooks_corey, read};
 
 use crate::common::root;
 

@@ -9,7 +9,7 @@
 
 use std::path::{Path, PathBuf};
 
-use flowzone::predictor::model_file::{ClassModel, ModelFileError, SMARTCORE_VERSION};
+use flowzone::classes::predictor::model_file::{ClassModel, ModelFileError, SMARTCORE_VERSION};
 
 use crate::common::{col, flowzone, read_table, root, run_config, run_demo_field};
 
@@ -292,8 +292,9 @@ fn smartcore_version_matches_the_lock_file() {
 fn well_without_a_feature_curve() {
     let dir = tempfile::tempdir().expect("temp dir");
     let src = root().join("demo-wells/tarnby-8.las");
-    let file = flowzone::las::read_path(&src, flowzone::las::ReadOptions::default()).expect("read");
-    let mut table = flowzone::export::table_as_read(&file);
+    let file = flowzone::input::las::read_path(&src, flowzone::input::las::ReadOptions::default())
+        .expect("read");
+    let mut table = flowzone::cli::export::table_as_read(&file);
     let before = table.columns.len();
     table
         .columns

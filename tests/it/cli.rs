@@ -98,8 +98,8 @@ fn export_csv_las_parquet() {
         );
         assert!(dir.path().join(format!("multi_channel.{format}")).is_file());
     }
-    let ours =
-        flowzone::las::read_path(&src, flowzone::las::ReadOptions::default()).expect("readable");
+    let ours = flowzone::input::las::read_path(&src, flowzone::input::las::ReadOptions::default())
+        .expect("readable");
     // CSV: header = mnemonics, values parse back to what was read
     let csv = std::fs::read_to_string(dir.path().join("multi_channel.csv")).expect("csv");
     let mut lines = csv.lines();

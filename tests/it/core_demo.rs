@@ -9,7 +9,7 @@
 //! agree.
 
 use flowzone::classes::{ClassScheme, FziLadder};
-use flowzone::core_data::read_core_csv;
+use flowzone::input::core_samples::read_core_csv;
 use flowzone::units::DepthUnit;
 
 use crate::common::root;
@@ -93,8 +93,9 @@ fn core_shift_suggestion_finds_the_known_offset() {
             .filter(|s| s.well == well)
             .cloned()
             .collect();
-        let s = flowzone::core_data::suggest_shift(&samples, &depth, &phie, 2.0, 0.05, 0.01)
-            .expect("overlap");
+        let s =
+            flowzone::input::core_samples::suggest_shift(&samples, &depth, &phie, 2.0, 0.05, 0.01)
+                .expect("overlap");
         eprintln!(
             "{well}: suggested shift {:.2} m (r {:.3}, unshifted r {:.3}, {} samples)",
             s.shift, s.correlation, s.correlation_unshifted, s.samples

@@ -8,7 +8,7 @@
 
 use flowzone::classes::flow_units::{fzi, rqi, winland_r35};
 use flowzone::classes::{ClassScheme, FziLadder, PortSize};
-use flowzone::core_data::read_spwla;
+use flowzone::input::core_samples::read_spwla;
 use flowzone::units::DepthUnit;
 
 use crate::common::shared;

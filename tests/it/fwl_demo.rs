@@ -7,8 +7,8 @@
 //! known answer; the method is checked on the reference sheet's worked
 //! examples in src/pressure.rs.
 
-use flowzone::pressure::fit_fwl_auto;
-use flowzone::tables::read_csv;
+use flowzone::input::tables::read_csv;
+use flowzone::sat_height::fwl::fit_fwl_auto;
 
 use crate::common::root;
 

@@ -1,11 +1,11 @@
 //! Hostile and huge input: each case gets a clear error or a documented,
 //! bounded behaviour (README, "Limits"). The limits are the reader's
-//! defaults (flowzone::las::Limits::DEFAULT) unless a case sets its own.
+//! defaults (flowzone::input::las::Limits::DEFAULT) unless a case sets its own.
 
 use std::path::Path;
 
-use flowzone::core_data::read_spwla;
-use flowzone::las::{Limits, ReadOptions, read_bytes};
+use flowzone::input::core_samples::read_spwla;
+use flowzone::input::las::{Limits, ReadOptions, read_bytes};
 use flowzone::units::DepthUnit;
 
 use crate::common::{chain, root, run_config};
@@ -13,14 +13,14 @@ use crate::common::{chain, root, run_config};
 const HEAD: &str = "~V\n VERS. 2.0 :\n WRAP. NO :\n~W\n STRT.M 1000 :\n STOP.M 1001 :\n STEP.M 0.5 :\n NULL. -999.25 :\n";
 
 /// Rows left out, as (line, reason).
-fn by_line(rejected: &[flowzone::core_data::Rejected]) -> Vec<(u64, &str)> {
+fn by_line(rejected: &[flowzone::input::core_samples::Rejected]) -> Vec<(u64, &str)> {
     rejected
         .iter()
         .map(|r| (r.line, r.reason.as_str()))
         .collect()
 }
 
-fn read(text: &[u8]) -> Result<flowzone::las::LasFile, String> {
+fn read(text: &[u8]) -> Result<flowzone::input::las::LasFile, String> {
     read_bytes(text, Path::new("h.las"), ReadOptions::default()).map_err(|e| chain(&e))
 }
 
@@ -252,7 +252,7 @@ fn nan_and_infinity_in_the_tables_are_left_out_by_line() {
          A-1,2002.0,M,0.21,12,2.66\n",
     )
     .unwrap();
-    let c = flowzone::core_data::read_core_csv(&core, DepthUnit::Metre).expect("read");
+    let c = flowzone::input::core_samples::read_core_csv(&core, DepthUnit::Metre).expect("read");
     let kept: Vec<(u64, Option<f64>)> = c
         .samples
         .iter()
@@ -281,7 +281,7 @@ fn nan_and_infinity_in_the_tables_are_left_out_by_line() {
          P-3,A-1,nan,0.2,10,20,0.5,mercury-air\n",
     )
     .unwrap();
-    let (plugs, left) = flowzone::capillary_data::read(&cap).expect("read");
+    let (plugs, left) = flowzone::sat_height::lab_curves::read(&cap).expect("read");
     assert!(plugs.is_empty(), "{plugs:?}");
     let lines: Vec<u64> = left.iter().map(|r| r.line).collect();
     assert_eq!(lines, [2, 3, 4, 5], "{left:?}");

@@ -6,7 +6,7 @@
 
 use std::path::Path;
 
-use flowzone::las::{ReadOptions, read_bytes};
+use flowzone::input::las::{ReadOptions, read_bytes};
 
 use crate::common::{chain, crlf, root};
 

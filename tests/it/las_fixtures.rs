@@ -5,7 +5,7 @@
 
 use std::path::Path;
 
-use flowzone::las::{LasFile, ReadOptions, Version, read_bytes};
+use flowzone::input::las::{LasFile, ReadOptions, Version, read_bytes};
 
 use crate::common::{chain, crlf, root};
 

@@ -3,7 +3,7 @@
 //! used only here, because it misreads several layouts our reader handles
 //! (see DEVELOPERS.md, "The LAS reader").
 
-use flowzone::las::{ReadOptions, read_path};
+use flowzone::input::las::{ReadOptions, read_path};
 
 use crate::common::{assert_same_values, chain, root, shared};
 

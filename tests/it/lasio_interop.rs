@@ -5,7 +5,7 @@
 use std::path::Path;
 
 use flowzone::config::Format;
-use flowzone::las::{ReadOptions, read_path};
+use flowzone::input::las::{ReadOptions, read_path};
 use serde_json::json;
 
 use crate::common::{assert_same_values, chain, json_values, lasio_dump, lasio_write, shared};
@@ -31,7 +31,7 @@ fn files_flowzone_writes_are_read_by_lasio() {
         let src = shared().join("las-samples").join(name);
         let ours =
             read_path(&src, ReadOptions::default()).unwrap_or_else(|e| panic!("{}", chain(&e)));
-        let written = flowzone::export::export_file(&ours, &src, dir.path(), Format::Las)
+        let written = flowzone::cli::export::export_file(&ours, &src, dir.path(), Format::Las)
             .unwrap_or_else(|e| panic!("{}", chain(&e)));
         let theirs =
             lasio_dump(&written).unwrap_or_else(|e| panic!("lasio cannot read our {name}: {e}"));

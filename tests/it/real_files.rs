@@ -5,7 +5,7 @@
 
 use std::path::Path;
 
-use flowzone::las::{ReadOptions, read_bytes};
+use flowzone::input::las::{ReadOptions, read_bytes};
 
 use crate::common::{assert_same_values, chain, json_values, lasio_dump, shared};
 
@@ -181,7 +181,7 @@ fn every_real_file_is_read_like_lasio_or_refused_with_a_reason() {
 fn real_header_details() {
     let read = |name: &str| {
         let p = shared().join("las-samples").join(name);
-        flowzone::las::read_path(&p, ReadOptions::default())
+        flowzone::input::las::read_path(&p, ReadOptions::default())
             .unwrap_or_else(|e| panic!("{}", chain(&e)))
     };
     // LAS 1.2: the ~W value sits in the description field (`COMP . COMPANY: McElvain Energy, Inc.`).

@@ -1,0 +1,747 @@
+//! Classes in the field run: read the core, train (or load) the class model,
+//! then give every reservoir depth of every well a class, its vote share and a
+//! permeability from class and porosity.
+//!
+//! ```text
+//! core file ─► match to wells, accepted shifts ─► core table, shift suggestions
+//!                         │
+//! wells (stages) ─► features at cored depths ─► forest + LOWO scores ─► model file
+//!                                                        │
+//! every well ─► CLASS, CLASS_PROB, PERM, FLAG 32 ◄────────┘
+//! ```
+
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+use std::sync::{Arc, Mutex};
+use std::time::Instant;
+
+use rayon::prelude::*;
+use serde::{Deserialize, Serialize};
+
+use crate::classes::core_match::{self, FieldCore, NO_CLASS_FLAGS};
+use crate::classes::predictor::model_file::{
+    ClassModel, FeatureInfo, ModelHeader, SMARTCORE_VERSION, SchemeInfo,
+};
+use crate::classes::predictor::{self, Feature, Forest, ForestParams, TrainingSet};
+use crate::classes::{self, ClassScheme, perm};
+use crate::config::{PermMethod, PredictorConfig};
+use crate::error::{Error, chain};
+use crate::input::core_samples::{Rejected, ShiftSuggestion};
+use crate::output::schema::{Col, FLAG_LOW_CLASS_PROBABILITY, flag_description};
+use crate::output::{OutColumn, OutputError, Table, write_atomic};
+use crate::well::{self, RunContext};
+
+/// What the class stage needs from a run.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Mode {
+    /// `run`: load the configured model, or train one.
+    Run,
+    /// `train`: always train.
+    Train,
+    /// `core`: only the core table and the shift suggestions.
+    Core,
+}
+
+/// The model and what it needs to serve every well.
+#[derive(Debug)]
+pub struct ClassSetup {
+    pub scheme: SchemeInfo,
+    pub model: Arc<ClassModel>,
+    pub cfg: PredictorConfig,
+    /// Training rows, kept to fit models without a feature a well lacks.
+    training: Option<TrainingSet>,
+    reduced: Mutex<BTreeMap<Vec<Feature>, Option<Arc<ClassModel>>>>,
+}
+
+/// What the class stage did before the wells, for the run summary.
+#[derive(Debug, Clone, Serialize)]
+pub struct ClassSummary {
+    /// The scheme of CLASS.
+    pub scheme: Option<SchemeInfo>,
+    /// Every configured scheme, as in the core table's CLASS_<NAME> columns.
+    pub schemes: Vec<SchemeInfo>,
+    /// The model file used (loaded or written).
+    pub model_file: Option<String>,
+    pub trained: bool,
+    pub core_file: Option<String>,
+    pub core_samples: usize,
+    /// Rows of the core file left out, with line and reason.
+    pub core_rejected: Vec<Rejected>,
+    /// Core samples not used for training, by well, with line and reason.
+    pub training_excluded: BTreeMap<String, Vec<Rejected>>,
+    pub shifts_applied: BTreeMap<String, f64>,
+    pub shift_suggestions: BTreeMap<String, Option<ShiftSuggestion>>,
+    /// Files written by the class stage.
+    pub outputs: Vec<String>,
+}
+
+/// The class stage's results.
+#[derive(Debug)]
+pub struct Prepared {
+    pub setup: Option<ClassSetup>,
+    pub summary: ClassSummary,
+    pub core: Option<FieldCore>,
+}
+
+/// Per-well class counts.
+#[derive(Debug, Clone, Default, Serialize, PartialEq, Deserialize)]
+pub struct ClassCounts {
+    /// Depths given a class.
+    pub classified: usize,
+    /// Depths given a class with less than the minimum vote share (FLAG 32).
+    pub low_probability: usize,
+    /// Depths with VSH above the shale limit: no class.
+    pub shale: usize,
+    /// Depths flagged out of range, missing input or outside zones: no class.
+    pub flagged: usize,
+    /// Reservoir depths where a feature value is missing: no class.
+    pub missing_feature: usize,
+    /// Depths per class, class 1 first.
+    pub per_class: Vec<usize>,
+    /// The features of the model used; empty when none could be used.
+    pub features: Vec<Feature>,
+}
+
+fn write_json<T: Serialize>(path: &Path, value: &T) -> Result<(), Error> {
+    write_atomic(path, |w| {
+        serde_json::to_writer_pretty(&mut *w, value).map_err(|e| OutputError::Io {
+            path: path.to_path_buf(),
+            source: std::io::Error::other(e),
+        })?;
+        w.write_all(b"\n").map_err(|source| OutputError::Io {
+            path: path.to_path_buf(),
+            source,
+        })
+    })?;
+    Ok(())
+}
+
+use std::io::Write as _;
+
+/// Run the class stage before the wells: core, schemes, model.
+pub fn prepare(
+    ctx: &RunContext,
+    files: &[PathBuf],
+    out: &Path,
+    mode: Mode,
+    progress: bool,
+) -> Result<Prepared, Error> {
+    let config = &ctx.config;
+    let mut summary = ClassSummary {
+        scheme: None,
+        schemes: Vec::new(),
+        model_file: None,
+        trained: false,
+        core_file: None,
+        core_samples: 0,
+        core_rejected: Vec::new(),
+        training_excluded: BTreeMap::new(),
+        shifts_applied: BTreeMap::new(),
+        shift_suggestions: BTreeMap::new(),
+        outputs: Vec::new(),
+    };
+    let predictor_cfg = config.predictor.clone().unwrap_or_default();
+    let wants_model =
+        config.classes.is_some() && (config.predictor.is_some() || config.core.is_some());
+    let loaded = match (&predictor_cfg.model, mode, wants_model) {
+        (Some(p), Mode::Run, true) => {
+            let path = config.resolve_path(p);
+            Some((
+                ClassModel::load(&path).map_err(|e| Error::Usage(chain(&e)))?,
+                path,
+            ))
+        }
+        _ => None,
+    };
+    let Some(core_cfg) = &config.core else {
+        if mode != Mode::Run {
+            return Err(Error::Usage("the config has no [core] section".into()));
+        }
+        // a saved model can run without core (no reduced-feature models then)
+        let setup = loaded.map(|(model, path)| {
+            summary.model_file = Some(path.display().to_string());
+            summary.scheme = Some(model.header.scheme.clone());
+            ClassSetup {
+                scheme: model.header.scheme.clone(),
+                model: Arc::new(model),
+                cfg: predictor_cfg.clone(),
+                training: None,
+                reduced: Mutex::new(BTreeMap::new()),
+            }
+        });
+        return Ok(Prepared {
+            setup,
+            summary,
+            core: None,
+        });
+    };
+
+    let data = core_match::load(config, core_cfg).map_err(|e| Error::Usage(chain(&e)))?;
+    summary.core_file = Some(data.file.display().to_string());
+    let core_wells: Vec<String> = data
+        .samples
+        .iter()
+        .map(|s| s.well.to_ascii_lowercase())
+        .collect();
+
+    // pass 1: the stages on every well, keeping the cored wells' tables
+    if progress {
+        eprintln!(
+            "core: reading {} wells to match {} core samples",
+            files.len(),
+            data.samples.len()
+        );
+    }
+    let pass: Vec<(String, String, Result<Option<Table>, String>)> = files
+        .par_iter()
+        .map(|f| {
+            let stem = well::stem_of(f);
+            match well::process(f, ctx) {
+                Ok(o) => {
+                    let cored = core_wells
+                        .iter()
+                        .any(|w| w.eq_ignore_ascii_case(&o.name) || w.eq_ignore_ascii_case(&stem));
+                    (o.name, stem, Ok(cored.then_some(o.table)))
+                }
+                Err(e) => (stem.clone(), stem, Err(chain(&e))),
+            }
+        })
+        .collect();
+    let names: Vec<(String, String)> = pass
+        .iter()
+        .map(|(n, s, _)| (n.clone(), s.clone()))
+        .collect();
+    let core = core_match::match_wells(data, &names, core_cfg);
+    summary.core_samples = core.samples.len();
+    summary.core_rejected = core.rejected.clone();
+    summary.shifts_applied = core.shifts.clone();
+    let mut tables: BTreeMap<String, Table> = BTreeMap::new();
+    let mut failed: BTreeMap<String, String> = BTreeMap::new();
+    for (name, _, r) in pass {
+        match r {
+            Ok(Some(t)) => {
+                tables.insert(name, t);
+            }
+            Ok(None) => {}
+            Err(e) => {
+                failed.insert(name, e);
+            }
+        }
+    }
+    summary.shift_suggestions = core_match::suggest_shifts(&core, &tables, core_cfg);
+
+    // schemes: every configured one for the core table, the used one for the model
+    let phi_k = core.phi_k();
+    let mut schemes: Vec<(String, Box<dyn ClassScheme>)> = Vec::new();
+    if let Some(cl) = &config.classes {
+        for (name, spec) in &cl.scheme {
+            let s = classes::build(spec, &phi_k)
+                .map_err(|m| Error::Usage(format!("[classes.scheme.{name}]: {m}")))?;
+            summary.schemes.push(classes::info(name, s.as_ref()));
+            schemes.push((name.clone(), s));
+        }
+    }
+    let core_dir = out.join("core");
+    std::fs::create_dir_all(&core_dir).map_err(|source| Error::Io {
+        path: core_dir.clone(),
+        source,
+    })?;
+    let table_path = core_dir.join("core-table.csv");
+    let refs: Vec<(String, &dyn ClassScheme)> = schemes
+        .iter()
+        .map(|(n, s)| (n.clone(), s.as_ref()))
+        .collect();
+    core_match::write_core_table(&table_path, &core, &refs)?;
+    summary.outputs.push(crate::output::shown(out, &table_path));
+
+    let setup = if mode == Mode::Core || !wants_model {
+        None
+    } else {
+        let cl = config
+            .classes
+            .as_ref()
+            .expect("wants_model needs [classes]");
+        let (_, scheme) = schemes
+            .iter()
+            .find(|(n, _)| *n == cl.use_scheme)
+            .expect("validated: classes.use names a scheme");
+        let info = classes::info(&cl.use_scheme, scheme.as_ref());
+        summary.scheme = Some(info.clone());
+        let features: Vec<Feature> = predictor_cfg
+            .features
+            .iter()
+            .filter_map(|f| Feature::parse(f))
+            .collect();
+        let mut set = TrainingSet {
+            features: features.clone(),
+            ..TrainingSet::default()
+        };
+        for w in core.wells() {
+            let samples: Vec<&core_match::MatchedSample> =
+                core.samples.iter().filter(|s| s.well == w).collect();
+            let Some(table) = tables.get(&w) else {
+                let why = failed
+                    .get(&w)
+                    .cloned()
+                    .unwrap_or_else(|| "not processed".into());
+                summary.training_excluded.insert(
+                    w.clone(),
+                    samples
+                        .iter()
+                        .map(|s| Rejected {
+                            line: s.sample.line,
+                            reason: format!("the well failed: {why}"),
+                        })
+                        .collect(),
+                );
+                continue;
+            };
+            let (rows, excluded) = core_match::training_rows(
+                &samples,
+                table,
+                &features,
+                scheme.as_ref(),
+                &predictor_cfg,
+            );
+            if !excluded.is_empty() {
+                summary.training_excluded.insert(w.clone(), excluded);
+            }
+            for (x, y, phie) in rows {
+                set.x.extend(x);
+                set.y.push(y);
+                set.well.push(w.clone());
+                set.phie.push(phie);
+            }
+        }
+        // permeability from class and porosity: every matched core sample
+        let perm_samples: Vec<(u8, f64, f64)> = phi_k
+            .iter()
+            .filter_map(|&(p, k)| scheme.classify(p, k).map(|c| (c, p, k)))
+            .collect();
+        let perm_fit = perm::fit(&perm_samples);
+        let model_dir = out.join("model");
+        let model = match loaded {
+            Some((model, path)) => {
+                check_scheme(&model.header.scheme, &info, &path)?;
+                summary.model_file = Some(path.display().to_string());
+                model
+            }
+            None => {
+                if progress {
+                    eprintln!(
+                        "train: {} samples from {} wells, {} features",
+                        set.rows(),
+                        set.wells().len(),
+                        features.len()
+                    );
+                }
+                let model = train(&set, &info, &predictor_cfg, cl.perm_method, perm_fit)?;
+                if progress {
+                    eprintln!("train: forest fitted in {:.3} s", model.header.fit_seconds);
+                }
+                std::fs::create_dir_all(&model_dir).map_err(|source| Error::Io {
+                    path: model_dir.clone(),
+                    source,
+                })?;
+                let path = model_dir.join("class-model.fzm");
+                model.save(&path)?;
+                summary.model_file = Some(crate::output::shown(out, &path));
+                summary.trained = true;
+                summary.outputs.push(crate::output::shown(out, &path));
+                let json = model_dir.join("training-report.json");
+                write_json(&json, &model.header)?;
+                let text = model_dir.join("training-report.txt");
+                let report = report_text(&model.header, &summary);
+                write_atomic(&text, |w| {
+                    w.write_all(report.as_bytes())
+                        .map_err(|source| OutputError::Io {
+                            path: text.clone(),
+                            source,
+                        })
+                })?;
+                summary.outputs.push(crate::output::shown(out, &json));
+                summary.outputs.push(crate::output::shown(out, &text));
+                model
+            }
+        };
+        Some(ClassSetup {
+            scheme: model.header.scheme.clone(),
+            model: Arc::new(model),
+            cfg: predictor_cfg.clone(),
+            training: (set.rows() > 0).then_some(set),
+            reduced: Mutex::new(BTreeMap::new()),
+        })
+    };
+    let report_path = core_dir.join("core-report.json");
+    summary
+        .outputs
+        .push(crate::output::shown(out, &report_path));
+    write_json(&report_path, &summary)?;
+    Ok(Prepared {
+        setup,
+        summary,
+        core: Some(core),
+    })
+}
+
+/// A loaded model must have been trained for the scheme the config uses.
+fn check_scheme(model: &SchemeInfo, config: &SchemeInfo, path: &Path) -> Result<(), Error> {
+    let same_bounds = model.boundaries.len() == config.boundaries.len()
+        && model
+            .boundaries
+            .iter()
+            .zip(&config.boundaries)
+            .all(|(a, b)| (a - b).abs() <= 1e-9 * b.abs().max(1.0));
+    if model.name != config.name || model.kind != config.kind || !same_bounds {
+        return Err(Error::Usage(format!(
+            "model `{}` was trained for scheme {}, but the config's [classes] gives {}: train it again with `flowzone train`",
+            path.display(),
+            model.describe(),
+            config.describe()
+        )));
+    }
+    Ok(())
+}
+
+/// Fit the forest on the training set, score it leave-one-well-out, and wrap
+/// it with its header.
+pub fn train(
+    set: &TrainingSet,
+    scheme: &SchemeInfo,
+    cfg: &PredictorConfig,
+    perm_method: PermMethod,
+    perm: Vec<perm::ClassPerm>,
+) -> Result<ClassModel, Error> {
+    if set.rows() == 0 {
+        return Err(Error::Usage(
+            "no core sample could be paired with log features (see core/core-report.json: training_excluded)".into(),
+        ));
+    }
+    let params = ForestParams {
+        trees: cfg.trees,
+        max_depth: cfg.max_depth,
+        min_samples_leaf: cfg.min_samples_leaf,
+        seed: cfg.seed,
+    };
+    let nf = set.features.len();
+    let start = Instant::now();
+    let forest = Forest::fit(&set.x, nf, &set.y, &params).map_err(|e| Error::Usage(chain(&e)))?;
+    let fit_seconds = start.elapsed().as_secs_f64();
+    let validation = predictor::leave_one_well_out(set, &params, scheme.class_count)
+        .map_err(|e| Error::Usage(chain(&e)))?;
+    let samples_per_class = (1..=scheme.class_count)
+        .filter_map(|c| {
+            let c = u8::try_from(c).ok()?;
+            let n = set.y.iter().filter(|&&y| y == c).count();
+            (n > 0).then_some((c, n))
+        })
+        .collect();
+    let header = ModelHeader {
+        flowzone_version: env!("CARGO_PKG_VERSION").into(),
+        smartcore_version: SMARTCORE_VERSION.into(),
+        scheme: scheme.clone(),
+        features: set
+            .features
+            .iter()
+            .map(|f| FeatureInfo {
+                name: *f,
+                unit: f.unit().into(),
+            })
+            .collect(),
+        params,
+        training_wells: set.wells(),
+        training_samples: set.rows(),
+        samples_per_class,
+        perm_method,
+        perm,
+        validation,
+        fit_seconds,
+    };
+    Ok(ClassModel { header, forest })
+}
+
+fn pct(v: f64) -> String {
+    format!("{:.1} %", 100.0 * v)
+}
+
+/// The training report as text.
+pub fn report_text(h: &ModelHeader, summary: &ClassSummary) -> String {
+    use std::fmt::Write as _;
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        "flowzone class model (flowzone {}, smartcore {})",
+        h.flowzone_version, h.smartcore_version
+    );
+    let _ = writeln!(s, "scheme: {}", h.scheme.describe());
+    let feats: Vec<String> = h
+        .features
+        .iter()
+        .map(|f| format!("{} ({})", f.name.name(), f.unit))
+        .collect();
+    let _ = writeln!(s, "features: {}", feats.join(", "));
+    let _ = writeln!(
+        s,
+        "forest: {} trees, max depth {}, min leaf {}, seed {}",
+        h.params.trees, h.params.max_depth, h.params.min_samples_leaf, h.params.seed
+    );
+    let _ = writeln!(
+        s,
+        "training: {} samples from wells {}",
+        h.training_samples,
+        h.training_wells.join(", ")
+    );
+    for (c, n) in &h.samples_per_class {
+        let _ = writeln!(s, "  class {c}: {n} samples");
+    }
+    let excluded: usize = summary.training_excluded.values().map(Vec::len).sum();
+    if excluded > 0 {
+        let _ = writeln!(
+            s,
+            "core samples not used for training: {excluded} (reasons in core/core-report.json)"
+        );
+    }
+    match &h.validation {
+        None => {
+            let _ = writeln!(s, "validation: none (fewer than two cored wells)");
+        }
+        Some(v) => {
+            let _ = writeln!(
+                s,
+                "\nleave-one-well-out ({} held-out samples)",
+                v.forest.samples
+            );
+            let _ = writeln!(s, "  {:<28} {:>8} {:>12}", "method", "exact", "within one");
+            for (name, sc) in [
+                ("random forest", &v.forest),
+                ("baseline: nearest centroid", &v.nearest_centroid),
+                ("baseline: porosity bins", &v.porosity_bins),
+            ] {
+                let _ = writeln!(
+                    s,
+                    "  {:<28} {:>8} {:>12}",
+                    name,
+                    pct(sc.exact),
+                    pct(sc.within_one)
+                );
+            }
+            let _ = writeln!(s, "\n  per well (forest): well, samples, exact");
+            for (w, n, e) in &v.forest.folds {
+                let _ = writeln!(s, "    {w:<16} {n:>5} {:>8}", pct(*e));
+            }
+            let _ = writeln!(
+                s,
+                "\n  confusion (rows: core class, columns: predicted class)"
+            );
+            let k = v.forest.confusion.len();
+            let _ = write!(s, "    {:>6}", "");
+            for c in 1..=k {
+                let _ = write!(s, " {c:>6}");
+            }
+            let _ = writeln!(s, " {:>8}", "recall");
+            for (i, row) in v.forest.confusion.iter().enumerate() {
+                let _ = write!(s, "    {:>6}", i + 1);
+                for n in row {
+                    let _ = write!(s, " {n:>6}");
+                }
+                let r = v.forest.recall[i].map_or_else(|| "-".to_string(), pct);
+                let _ = writeln!(s, " {r:>8}");
+            }
+        }
+    }
+    let _ = writeln!(
+        s,
+        "\npermeability from class and porosity ({:?} used):",
+        h.perm_method
+    );
+    for p in &h.perm {
+        let line = match (p.intercept, p.slope, p.line_rms_log10) {
+            (Some(a), Some(b), Some(r)) => format!("log10 k = {a:.3} + {b:.3} phi (rms {r:.3})"),
+            _ => "no line (fewer than 3 samples)".into(),
+        };
+        let _ = writeln!(
+            s,
+            "  class {}: {} samples, FZI {:.3} um (rms log10 k {:.3}); {line}",
+            p.class, p.samples, p.fzi_um, p.fzi_rms_log10
+        );
+    }
+    let _ = writeln!(
+        s,
+        "\nResults are interpretations: review by a qualified petrophysicist before use, under local regulation and licensed practice."
+    );
+    s
+}
+
+impl ClassSetup {
+    /// The model for a well lacking `missing` features: the full model when
+    /// none is missing; a model trained without them when allowed and there
+    /// are training rows; else `None`.
+    fn model_without(&self, missing: &[Feature]) -> Option<Arc<ClassModel>> {
+        if missing.is_empty() {
+            return Some(self.model.clone());
+        }
+        if !self.cfg.allow_reduced_features {
+            return None;
+        }
+        let training = self.training.as_ref()?;
+        let keep: Vec<Feature> = self
+            .model
+            .header
+            .feature_list()
+            .into_iter()
+            .filter(|f| !missing.contains(f))
+            .collect();
+        if keep.is_empty() {
+            return None;
+        }
+        let mut cache = self.reduced.lock().unwrap_or_else(|e| e.into_inner());
+        cache
+            .entry(keep.clone())
+            .or_insert_with(|| {
+                let h = &self.model.header;
+                train(
+                    &training.select(&keep),
+                    &h.scheme,
+                    &self.cfg,
+                    h.perm_method,
+                    h.perm.clone(),
+                )
+                .ok()
+                .map(Arc::new)
+            })
+            .clone()
+    }
+
+    /// Give a well's table CLASS, CLASS_PROB and PERM columns (inserted before
+    /// FLAG) and set FLAG 32 where the class is uncertain.
+    pub fn apply(&self, table: &mut Table, well: &str, warnings: &mut Vec<String>) -> ClassCounts {
+        let n = table.n_rows();
+        let features = self.model.header.feature_list();
+        let missing: Vec<Feature> = features
+            .iter()
+            .copied()
+            .filter(|f| {
+                table
+                    .get(f.column())
+                    .is_none_or(|c| c.iter().all(|v| v.is_nan()))
+            })
+            .collect();
+        let model = self.model_without(&missing);
+        let names = |fs: &[Feature]| fs.iter().map(|f| f.name()).collect::<Vec<_>>().join(", ");
+        if !missing.is_empty() {
+            match &model {
+                Some(m) => warnings.push(format!(
+                    "{well} has no {}: classes from a model trained without it (features {}; leave-one-well-out exact {})",
+                    names(&missing),
+                    names(&m.header.feature_list()),
+                    m.header.validation.as_ref().map_or_else(|| "not scored".into(), |v| pct(v.forest.exact))
+                )),
+                None => warnings.push(format!(
+                    "{well} has no {}, which the class model needs: no CLASS or PERM in this well{}",
+                    names(&missing),
+                    if self.cfg.allow_reduced_features { "" } else { " (predictor.allow-reduced-features is false)" }
+                )),
+            }
+        }
+        let mut class = vec![f64::NAN; n];
+        let mut prob = vec![f64::NAN; n];
+        let mut permv = vec![f64::NAN; n];
+        let mut counts = ClassCounts {
+            per_class: vec![0; self.scheme.class_count],
+            ..ClassCounts::default()
+        };
+        let mut flag: Vec<f64> = table
+            .get(Col::Flag)
+            .map_or_else(|| vec![0.0; n], <[f64]>::to_vec);
+        if let Some(model) = &model {
+            let feats = model.header.feature_list();
+            counts.features = feats.clone();
+            let cols: Vec<(Feature, &[f64])> = feats
+                .iter()
+                .filter_map(|f| table.get(f.column()).map(|c| (*f, c)))
+                .collect();
+            let vsh = table.get(Col::Vsh).unwrap_or(&[]);
+            let phie = table.get(Col::Phie).unwrap_or(&[]);
+            let nf = cols.len();
+            let mut rows = Vec::new();
+            let mut x = Vec::new();
+            for i in 0..n {
+                if (flag[i] as u32) & NO_CLASS_FLAGS != 0 {
+                    counts.flagged += 1;
+                    continue;
+                }
+                if !crate::classes::core_match::is_reservoir(vsh.get(i).copied(), self.cfg.max_vsh)
+                {
+                    counts.shale += 1;
+                    continue;
+                }
+                let start = x.len();
+                x.extend(cols.iter().map(|(f, c)| f.transform(c[i])));
+                if x[start..].iter().any(|v| !v.is_finite()) {
+                    x.truncate(start);
+                    counts.missing_feature += 1;
+                    continue;
+                }
+                rows.push(i);
+            }
+            debug_assert_eq!(x.len(), rows.len() * nf);
+            match model.forest.predict(&x) {
+                Ok(pred) => {
+                    let perm_by_class: BTreeMap<u8, &perm::ClassPerm> =
+                        model.header.perm.iter().map(|p| (p.class, p)).collect();
+                    for (r, p) in rows.iter().zip(pred) {
+                        let Some((c, share)) = p else { continue };
+                        class[*r] = f64::from(c);
+                        prob[*r] = share;
+                        counts.classified += 1;
+                        if let Some(slot) = counts.per_class.get_mut(usize::from(c).wrapping_sub(1))
+                        {
+                            *slot += 1;
+                        }
+                        if share < self.cfg.min_probability {
+                            counts.low_probability += 1;
+                            flag[*r] = f64::from((flag[*r] as u32) | FLAG_LOW_CLASS_PROBABILITY);
+                        }
+                        if let (Some(cp), Some(&ph)) = (perm_by_class.get(&c), phie.get(*r)) {
+                            if ph > 0.0 {
+                                permv[*r] = cp.perm(model.header.perm_method, ph);
+                            }
+                        }
+                    }
+                }
+                Err(e) => warnings.push(format!("{well}: class prediction failed: {}", chain(&e))),
+            }
+        }
+        let describe = self.scheme.describe();
+        let at = table.position(Col::Flag).unwrap_or(table.columns.len());
+        if let Some(fc) = table.column_mut(Col::Flag) {
+            fc.values = flag;
+            fc.description = flag_description(FLAG_LOW_CLASS_PROBABILITY);
+        }
+        // none of the three has a depth unit
+        let du = crate::units::DepthUnit::Metre;
+        let new = [
+            OutColumn::new(Col::Class, du, class)
+                .described(format!("{} ({describe})", Col::Class.description())),
+            OutColumn::new(Col::ClassProb, du, prob),
+            OutColumn::new(Col::Perm, du, permv).described(format!(
+                "PERMEABILITY FROM CLASS AND PHIE ({})",
+                match self.model.header.perm_method {
+                    PermMethod::Fzi => "CLASS FZI",
+                    PermMethod::Line => "CLASS LOG-K LINE",
+                }
+            )),
+        ];
+        for (k, c) in new.into_iter().enumerate() {
+            table.columns.insert(at + k, c);
+        }
+        table.params.push(crate::input::las::HeaderItem {
+            mnemonic: "CLSCHEME".into(),
+            unit: String::new(),
+            value: describe,
+            description: "HYDRAULIC CLASS SCHEME".into(),
+            line: 0,
+        });
+        counts
+    }
+}

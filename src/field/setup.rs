@@ -1,0 +1,218 @@
+//! Everything a run does before the wells: the output folder checked, the
+//! tables loaded, the class model trained or loaded, the saturation-height
+//! model built.
+
+use std::path::{Path, PathBuf};
+
+use crate::config::Config;
+use crate::error::{Error, chain};
+use crate::field::safety::{check_inputs_outside, check_out_dir};
+use crate::output::file_stem;
+use crate::output::schema::Col;
+use crate::pipeline::Models;
+use crate::well;
+
+/// What every well of a run shares, made once before the wells: the files
+/// (sorted) and their output stems, the tables, the class model and the
+/// saturation-height model.
+pub struct FieldSetup {
+    pub files: Vec<PathBuf>,
+    /// Output file stem of each file (unique within the field).
+    pub stems: Vec<String>,
+    pub(crate) ctx: well::RunContext,
+    pub(crate) prepared: Option<crate::classes::stage::Prepared>,
+    pub(crate) sat: Option<crate::sat_height::SatHeightModel>,
+}
+
+impl FieldSetup {
+    /// Whether this run trained the class model (rather than loading one).
+    pub fn trained(&self) -> bool {
+        self.prepared.as_ref().is_some_and(|p| p.summary.trained)
+    }
+
+    /// The models every well goes through.
+    pub fn models(&self) -> Models<'_> {
+        Models {
+            ctx: &self.ctx,
+            classes: self.prepared.as_ref().and_then(|p| p.setup.as_ref()),
+            sat: self.sat.as_ref(),
+        }
+    }
+
+    /// The class and saturation-height models as JSON: equal for runs that
+    /// will give the same results (shards check it against the merge).
+    pub fn fingerprint(&self) -> String {
+        let classes = self.prepared.as_ref().map(|p| &p.summary);
+        serde_json::to_string(&(classes, &self.sat)).unwrap_or_default()
+    }
+}
+
+/// Check the output folder, load the tables, build the class model (or load
+/// it) and the saturation-height model: everything before the wells.
+pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup, Error> {
+    let files = config.well_files()?;
+    if files.is_empty() {
+        return Err(Error::Usage(
+            "the config names no LAS files ([input] wells)".into(),
+        ));
+    }
+    let inputs = config.input_paths();
+    check_out_dir(out, &inputs)?;
+    let mut every_input = files.clone();
+    every_input.extend(
+        crate::output::manifest::table_inputs(config)
+            .into_iter()
+            .map(|(_, p)| p),
+    );
+    every_input.push(config.source.clone());
+    check_inputs_outside(out, &every_input)?;
+    let ctx = well::RunContext::new(config.clone()).map_err(|e| Error::Usage(chain(&e)))?;
+    let prepared = if config.core.is_some() || config.classes.is_some() {
+        Some(crate::classes::stage::prepare(
+            &ctx,
+            &files,
+            out,
+            crate::classes::stage::Mode::Run,
+            progress,
+        )?)
+    } else {
+        None
+    };
+    let sat = {
+        let setup = prepared.as_ref().and_then(|p| p.setup.as_ref());
+        let lookup = DepthLookup {
+            files: &files,
+            ctx: &ctx,
+            cache: std::sync::Mutex::new(std::collections::BTreeMap::new()),
+        };
+        let tvdss_of = |well: &str, md: f64| lookup.tvdss(well, md);
+        match setup {
+            Some(s) => crate::sat_height::prepare(config, &s.scheme, &tvdss_of)?,
+            None if config.capillary.is_some() => {
+                return Err(Error::Usage(
+                    "[capillary] needs a class model: give [classes] with [core] or [predictor] model"
+                        .into(),
+                ));
+            }
+            None => None,
+        }
+    };
+    if let (Some(m), true) = (&sat, progress) {
+        report_model(m);
+    }
+    let mut stems: Vec<String> = files.iter().map(|f| file_stem(&well::stem_of(f))).collect();
+    // two inputs with the same stem: suffix the later ones
+    for i in 1..stems.len() {
+        let mut k = 1;
+        let base = stems[i].clone();
+        while stems[..i].contains(&stems[i]) {
+            k += 1;
+            stems[i] = format!("{base}-{k}");
+        }
+    }
+    Ok(FieldSetup {
+        files,
+        stems,
+        ctx,
+        prepared,
+        sat,
+    })
+}
+
+/// A well's (MD, TVDSS) columns, or why there are none.
+type DepthColumns = Result<(Vec<f64>, Vec<f64>), String>;
+
+/// Measured depth to TVDSS in a named well, through the well's own depth
+/// reference (elevation, survey); each well is processed once, when a
+/// pressure point given by MD needs it.
+struct DepthLookup<'a> {
+    files: &'a [PathBuf],
+    ctx: &'a well::RunContext,
+    cache: std::sync::Mutex<std::collections::BTreeMap<String, DepthColumns>>,
+}
+
+impl DepthLookup<'_> {
+    /// The (MD, TVDSS) columns of the well named `well` (LAS name or file
+    /// stem): files whose stem matches are tried first, then the others.
+    fn columns(&self, well: &str) -> DepthColumns {
+        let mut order: Vec<&PathBuf> = self.files.iter().collect();
+        order.sort_by_key(|f| !well::stem_of(f).eq_ignore_ascii_case(well));
+        for f in order {
+            let Ok(out) = well::process(f, self.ctx) else {
+                continue;
+            };
+            if out.name.eq_ignore_ascii_case(well) || well::stem_of(f).eq_ignore_ascii_case(well) {
+                let md = out
+                    .table
+                    .get(Col::Depth)
+                    .map(<[f64]>::to_vec)
+                    .unwrap_or_default();
+                let tvdss = out
+                    .table
+                    .get(Col::Tvdss)
+                    .map(<[f64]>::to_vec)
+                    .unwrap_or_default();
+                return Ok((md, tvdss));
+            }
+        }
+        Err(format!(
+            "well `{well}` is not among the field's readable LAS wells, so its MD cannot be converted to TVDSS"
+        ))
+    }
+
+    fn tvdss(&self, well: &str, md: f64) -> Result<f64, String> {
+        let mut cache = self.cache.lock().unwrap_or_else(|e| e.into_inner());
+        let entry = cache
+            .entry(well.to_ascii_lowercase())
+            .or_insert_with(|| self.columns(well));
+        let (mds, tvdss) = entry.as_ref().map_err(Clone::clone)?;
+        crate::stats::interpolate(mds, tvdss, md).ok_or_else(|| {
+            format!("{well}: MD {md} is outside the logged depths or the well has no TVDSS (no datum elevation)")
+        })
+    }
+}
+
+/// The saturation-height model's key facts, on stderr.
+fn report_model(m: &crate::sat_height::SatHeightModel) {
+    for c in &m.classes {
+        let how = match c.borrowed_from {
+            Some(b) => format!("borrowed from class {b}"),
+            None => format!("{} points from {}", c.points, c.plugs.join(", ")),
+        };
+        eprintln!(
+            "saturation-height: class {} J-function {} (rms Sw {:.3}), {how}",
+            c.class,
+            c.curve.form_name(),
+            c.curve.rms_sw()
+        );
+    }
+    for p in m.plugs.iter().filter(|p| p.suggested_class.is_some()) {
+        if let (Some(k), Some((_, r))) = (p.suggested_class, p.best_other) {
+            eprintln!(
+                "saturation-height: plug {} (class {}) fits class {k}'s curve better (rms Sw {r:.3} against {:.3}); to accept: [capillary.plug-class] \"{}\" = {k}",
+                p.sample, p.class, p.rms_own, p.sample
+            );
+        }
+    }
+    for c in &m.compartments {
+        let sigma = c
+            .fwl_sigma
+            .map_or_else(String::new, |s| format!(" ± {s:.2}"));
+        eprintln!(
+            "saturation-height: compartment {}: FWL {:.2}{sigma} TVDSS ({}), water {:.3} / hydrocarbon {:.3} g/cm3 ({})",
+            c.name, c.fwl_tvdss, c.source, c.rho_water_gcc, c.rho_hc_gcc, c.density_source
+        );
+    }
+    for r in &m.plugs_rejected {
+        eprintln!(
+            "saturation-height: capillary row or plug left out, line {}: {}",
+            r.line, r.reason
+        );
+    }
+    for r in &m.pressure_points_left_out {
+        eprintln!(
+            "saturation-height: pressure point left out, line {}: {}",
+            r.line, r.reason
+        );
+    }
+}

@@ -1,0 +1,911 @@
+//! Reads and writes LAS 2.0 well-log files, and reads LAS 1.2.
+//!
+//! Follows CWLS, *LAS Version 2.0: A Digital Standard for Logs* (January 2014
+//! update), with the 1992 original for LAS 1.2 habits. A file is made of
+//! sections, each opened by a line starting with `~` and a letter:
+//!
+//! ```text
+//! ~V  version: VERS (1.2 or 2.0) and WRAP (YES or NO)
+//! ~W  well: STRT, STOP, STEP (index unit), NULL, COMP, WELL, FLD, LOC, ...
+//! ~C  curves, one line per ~A column, index first: MNEM.UNIT API : DESCRIPTION
+//! ~P  parameters (optional), same line syntax
+//! ~O  other (optional), free text kept as it is
+//! ~A  the data, last: numbers separated by spaces
+//! ```
+//!
+//! The reader is strict where a wrong answer could pass for a right one: a row
+//! with the wrong number of values, text in a numeric column, a ~C line that
+//! cannot be split, a file without ~V, ~W, ~C or ~A are errors that name the
+//! file and line. Where the file is readable but contradicts itself (STRT/STOP
+//! against the index, STEP against the spacing, a non-monotonic index, ~A
+//! column names against ~C) it reads the data and records a [`Warning`] with the
+//! line number; [`ReadOptions::strict`] turns those contradictions into errors.
+//!
+//! After reading, the index increases: a file written with decreasing depth is
+//! reversed (and says so in [`LasFile::index_reversed`]).
+
+pub mod data;
+pub mod error;
+pub mod header;
+
+use std::path::{Path, PathBuf};
+
+pub use error::{FileError, LasError, LineError, Warning};
+pub use header::HeaderItem;
+
+/// LAS versions this reader reads.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+pub enum Version {
+    /// LAS 1.2 (1990): ~W values sit in the description field.
+    #[serde(rename = "1.2")]
+    V1_2,
+    /// LAS 2.0.
+    #[serde(rename = "2.0")]
+    V2_0,
+}
+
+/// One curve of ~C.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct CurveInfo {
+    /// Unique mnemonic: the file's own, or with `_2`, `_3`... when the file repeats it.
+    pub mnemonic: String,
+    /// The mnemonic as written in the file.
+    pub original_mnemonic: String,
+    pub unit: String,
+    /// The data field of the ~C line (an API log code in most files).
+    pub api_code: String,
+    pub description: String,
+    /// 1-based line number of the ~C line.
+    pub line: usize,
+}
+
+/// A LAS file as read: header sections, curves and data (column per curve).
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct LasFile {
+    pub version: Version,
+    /// Whether ~A was wrapped in the file.
+    pub wrapped: bool,
+    pub version_items: Vec<HeaderItem>,
+    pub well_items: Vec<HeaderItem>,
+    pub curves: Vec<CurveInfo>,
+    pub params: Vec<HeaderItem>,
+    /// ~O text, as written.
+    pub other: String,
+    /// The NULL value declared in ~W.
+    pub null_value: Option<f64>,
+    /// One column per curve, index first; missing samples are NaN.
+    #[serde(skip)]
+    pub columns: Vec<Vec<f64>>,
+    /// True when the file's index decreased and the rows were reversed.
+    pub index_reversed: bool,
+    pub warnings: Vec<Warning>,
+}
+
+/// A NULL value smaller in size than this is one real data can take, and is
+/// warned about (our choice: usual NULLs are -999.25, -9999, -999).
+pub const PLAUSIBLE_NULL_MIN_ABS: f64 = 10.0;
+
+/// Options of the reader.
+#[derive(Debug, Clone, Copy, Default)]
+pub struct ReadOptions {
+    /// Turn header/data contradictions (STRT, STOP, STEP, a non-monotonic index,
+    /// ~A column names) into errors instead of warnings.
+    pub strict: bool,
+    pub limits: Limits,
+}
+
+/// Bounds on what one file may hold, so that a damaged or hostile file gets a
+/// clear error instead of exhausting memory. A file is read whole, so memory
+/// per file in flight is about its size plus 8 bytes per value.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Limits {
+    /// Largest file read, bytes.
+    pub max_bytes: u64,
+    /// Most lines before ~A.
+    pub max_header_lines: usize,
+    /// Longest header line, bytes.
+    pub max_header_line_bytes: usize,
+    /// Most curves in ~C.
+    pub max_curves: usize,
+}
+
+impl Limits {
+    /// 2 GiB files, 1 000 000 header lines of at most 64 KiB, 10 000 curves:
+    /// far beyond real logs (tens of curves, a few hundred header lines;
+    /// our choice), small enough to fail fast on damaged files.
+    pub const DEFAULT: Limits = Limits {
+        max_bytes: 2 << 30,
+        max_header_lines: 1_000_000,
+        max_header_line_bytes: 64 << 10,
+        max_curves: 10_000,
+    };
+}
+
+impl Default for Limits {
+    fn default() -> Limits {
+        Limits::DEFAULT
+    }
+}
+
+/// Mnemonics the 2017 update allows for the index curve, plus common depth names.
+const INDEX_MNEMONICS: [&str; 6] = ["DEPT", "DEPTH", "TIME", "INDEX", "MD", "ETIM"];
+
+impl LasFile {
+    /// The index column (the first curve).
+    pub fn index(&self) -> &[f64] {
+        self.columns.first().map_or(&[], Vec::as_slice)
+    }
+
+    /// Number of depth steps.
+    pub fn n_rows(&self) -> usize {
+        self.index().len()
+    }
+
+    /// The unit of the index, from its ~C line, else from STRT.
+    pub fn index_unit(&self) -> &str {
+        match self.curves.first() {
+            Some(c) if !c.unit.is_empty() => &c.unit,
+            _ => self.well_item("STRT").map_or("", |i| i.unit.as_str()),
+        }
+    }
+
+    /// A ~W item by mnemonic (case-insensitive).
+    pub fn well_item(&self, mnemonic: &str) -> Option<&HeaderItem> {
+        self.well_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case(mnemonic))
+    }
+
+    /// A ~P item by mnemonic (case-insensitive).
+    pub fn param(&self, mnemonic: &str) -> Option<&HeaderItem> {
+        self.params
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case(mnemonic))
+    }
+
+    /// A ~W value by mnemonic, if present and not empty.
+    pub fn well_value(&self, mnemonic: &str) -> Option<&str> {
+        self.well_item(mnemonic)
+            .map(|i| i.value.as_str())
+            .filter(|v| !v.is_empty())
+    }
+
+    /// Position of a curve by its (unique) mnemonic, case-insensitive.
+    pub fn curve_position(&self, mnemonic: &str) -> Option<usize> {
+        self.curves
+            .iter()
+            .position(|c| c.mnemonic.eq_ignore_ascii_case(mnemonic))
+    }
+
+    /// A curve's data by its (unique) mnemonic.
+    pub fn curve_data(&self, mnemonic: &str) -> Option<&[f64]> {
+        self.curve_position(mnemonic)
+            .map(|i| self.columns[i].as_slice())
+    }
+
+    /// The well name: WELL, else UWI, else the caller's fallback.
+    pub fn well_name(&self) -> Option<&str> {
+        self.well_value("WELL").or_else(|| self.well_value("UWI"))
+    }
+}
+
+/// Read a LAS file from disk.
+pub fn read_path(path: &Path, options: ReadOptions) -> Result<LasFile, LasError> {
+    let meta = std::fs::metadata(path).map_err(|source| LasError::Io {
+        path: path.to_path_buf(),
+        source,
+    })?;
+    if meta.len() > options.limits.max_bytes {
+        return Err(LasError::File {
+            path: path.to_path_buf(),
+            source: FileError::TooLarge {
+                bytes: meta.len(),
+                limit: options.limits.max_bytes,
+            },
+        });
+    }
+    let bytes = std::fs::read(path).map_err(|source| LasError::Io {
+        path: path.to_path_buf(),
+        source,
+    })?;
+    read_bytes(&bytes, path, options)
+}
+
+/// Read a LAS file from bytes; `name` is used in errors.
+///
+/// ```
+/// use flowzone::input::las::{read_bytes, ReadOptions};
+/// let text = b"~V\n VERS. 2.0 :\n WRAP. NO :\n~W\n STRT.M 1500 :\n STOP.M 1500.5 :\n STEP.M 0.5 :\n NULL. -999.25 :\n~C\n DEPT.M :\n GR.GAPI :\n~A\n1500 35.2\n1500.5 -999.25\n";
+/// let las = read_bytes(text, "w.las".as_ref(), ReadOptions::default()).unwrap();
+/// assert_eq!(las.index(), &[1500.0, 1500.5]);
+/// assert!(las.curve_data("GR").unwrap()[1].is_nan()); // NULL is missing
+/// let err = read_bytes(b"~V\n VERS. 3.0 :\n", "x.las".as_ref(), ReadOptions::default()).unwrap_err();
+/// assert_eq!(flowzone::error::chain(&err), "x.las:2: LAS version `3.0` is not supported (this reader reads LAS 1.2 and 2.0; LAS 3.0 is not supported yet)");
+/// ```
+pub fn read_bytes(bytes: &[u8], name: &Path, options: ReadOptions) -> Result<LasFile, LasError> {
+    Reader {
+        name,
+        options,
+        warnings: Vec::new(),
+    }
+    .read(bytes)
+}
+
+/// Which header section a line belongs to.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Section {
+    None,
+    Version,
+    Well,
+    Curve,
+    Param,
+    Other,
+    Unknown,
+}
+
+struct Reader<'a> {
+    name: &'a Path,
+    options: ReadOptions,
+    warnings: Vec<Warning>,
+}
+
+impl Reader<'_> {
+    fn path(&self) -> PathBuf {
+        self.name.to_path_buf()
+    }
+
+    fn line_err(&self, line: usize, source: LineError) -> LasError {
+        LasError::Line {
+            path: self.path(),
+            line,
+            source,
+        }
+    }
+
+    fn file_err(&self, source: FileError) -> LasError {
+        LasError::File {
+            path: self.path(),
+            source,
+        }
+    }
+
+    fn warn(&mut self, line: Option<usize>, message: impl Into<String>) {
+        self.warnings.push(Warning {
+            line,
+            message: message.into(),
+        });
+    }
+
+    /// A header/data contradiction: a warning, or an error in strict mode.
+    fn contradiction(&mut self, line: Option<usize>, message: String) -> Result<(), LasError> {
+        if self.options.strict {
+            return Err(match line {
+                Some(line) => self.line_err(line, LineError::Contradiction(message)),
+                None => self.file_err(FileError::Contradiction(message)),
+            });
+        }
+        self.warn(line, message);
+        Ok(())
+    }
+
+    fn read(mut self, bytes: &[u8]) -> Result<LasFile, LasError> {
+        let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
+        if bytes.starts_with(b"LASF") {
+            return Err(self.file_err(FileError::BinaryLidar));
+        }
+        if bytes.iter().all(|b| b.is_ascii_whitespace()) {
+            return Err(self.file_err(FileError::Empty));
+        }
+
+        let mut section = Section::None;
+        let mut seen = [false; 6]; // V W C P O A
+        let mut version_items = Vec::new();
+        let mut well_items = Vec::new();
+        let mut curve_items: Vec<HeaderItem> = Vec::new();
+        let mut params = Vec::new();
+        let mut other = String::new();
+        let mut non_utf8: Option<(usize, usize)> = None; // first line, count
+        let mut data_start: Option<(usize, usize, String)> = None; // byte offset, line, ~A title
+
+        let mut pos = 0usize;
+        let mut line_no = 0usize;
+        while pos < bytes.len() {
+            line_no += 1;
+            let limits = self.options.limits;
+            if line_no > limits.max_header_lines {
+                return Err(self.line_err(
+                    line_no,
+                    LineError::TooManyHeaderLines {
+                        limit: limits.max_header_lines,
+                    },
+                ));
+            }
+            let end = memchr_newline(bytes, pos);
+            if end - pos > limits.max_header_line_bytes {
+                return Err(self.line_err(
+                    line_no,
+                    LineError::HeaderLineTooLong {
+                        bytes: end - pos,
+                        limit: limits.max_header_line_bytes,
+                    },
+                ));
+            }
+            let raw = &bytes[pos..end];
+            let next = (end + 1).min(bytes.len());
+            let raw = raw.strip_suffix(b"\r").unwrap_or(raw);
+            let text = match std::str::from_utf8(raw) {
+                Ok(t) => std::borrow::Cow::Borrowed(t),
+                Err(_) => {
+                    if let Some(&b) = raw.iter().find(|&&b| b < 0x20 && b != b'\t') {
+                        return Err(self.file_err(FileError::BadText {
+                            line: line_no,
+                            byte: b,
+                        }));
+                    }
+                    non_utf8 = Some(non_utf8.map_or((line_no, 1), |(l, n)| (l, n + 1)));
+                    let (decoded, _, _) = encoding_rs::WINDOWS_1252.decode(raw);
+                    std::borrow::Cow::Owned(decoded.into_owned())
+                }
+            };
+            let trimmed = text.trim();
+            if let Some(title) = trimmed.strip_prefix('~') {
+                let letter = title
+                    .chars()
+                    .next()
+                    .map(|c| c.to_ascii_uppercase())
+                    .unwrap_or(' ');
+                let upper = title.to_ascii_uppercase();
+                if upper.contains("_DEFINITION")
+                    || upper.contains("_DATA")
+                    || upper.contains("_PARAMETER")
+                    || upper.contains('|')
+                {
+                    return Err(self.line_err(line_no, LineError::Las3Section(format!("~{title}"))));
+                }
+                let slot = match letter {
+                    'V' => Some((0, Section::Version)),
+                    'W' => Some((1, Section::Well)),
+                    'C' => Some((2, Section::Curve)),
+                    'P' => Some((3, Section::Param)),
+                    'O' => Some((4, Section::Other)),
+                    'A' => Some((5, Section::None)),
+                    _ => None,
+                };
+                match slot {
+                    Some((i, s)) => {
+                        if seen[i] {
+                            return Err(self.line_err(line_no, LineError::RepeatedSection(letter)));
+                        }
+                        seen[i] = true;
+                        if letter == 'A' {
+                            data_start = Some((next, line_no + 1, title.trim().to_string()));
+                            break;
+                        }
+                        section = s;
+                        if section == Section::Version {
+                            // the version section's title may carry text (a producer banner)
+                        }
+                    }
+                    None => {
+                        self.warn(
+                            Some(line_no),
+                            format!(
+                                "section `~{title}` is not a LAS 2.0 section; its lines are skipped"
+                            ),
+                        );
+                        section = Section::Unknown;
+                    }
+                }
+                pos = next;
+                continue;
+            }
+            match section {
+                Section::Other => {
+                    other.push_str(&text);
+                    other.push('\n');
+                }
+                _ if trimmed.is_empty() => {}
+                _ if trimmed.starts_with('#') => {}
+                Section::None => {
+                    self.warn(Some(line_no), "text before the first section is skipped");
+                }
+                Section::Unknown => {}
+                Section::Curve => {
+                    let clean = text.replace('\t', " ");
+                    let (item, note) = header::parse_curve_line(&clean, line_no)
+                        .map_err(|e| self.line_err(line_no, e))?;
+                    if note == header::SplitNote::UnitWithSpace {
+                        self.warn(
+                            Some(line_no),
+                            format!(
+                                "unit of {} read as `{}` (a unit written with a space)",
+                                item.mnemonic, item.unit
+                            ),
+                        );
+                    }
+                    if curve_items.len() >= self.options.limits.max_curves {
+                        return Err(self.line_err(
+                            line_no,
+                            LineError::TooManyCurves {
+                                limit: self.options.limits.max_curves,
+                            },
+                        ));
+                    }
+                    curve_items.push(item);
+                }
+                Section::Version | Section::Well | Section::Param => {
+                    let clean = text.replace('\t', " ");
+                    match header::split_header_line(&clean) {
+                        Some(split) if !split.mnemonic.is_empty() => {
+                            let item = header::to_item(&split, line_no);
+                            match section {
+                                Section::Version => version_items.push(item),
+                                Section::Well => well_items.push(item),
+                                _ => params.push(item),
+                            }
+                        }
+                        _ if section == Section::Version => {
+                            return Err(self.line_err(line_no, LineError::VersionLineNoDot));
+                        }
+                        _ => self.warn(
+                            Some(line_no),
+                            format!("header line `{trimmed}` has no `MNEM.` part; skipped"),
+                        ),
+                    }
+                }
+            }
+            pos = next;
+        }
+
+        if let Some((line, count)) = non_utf8 {
+            self.warn(
+                Some(line),
+                format!("{count} header line(s) are not UTF-8; read as Windows-1252"),
+            );
+        }
+
+        // ~V: version and wrap
+        if !seen[0] {
+            return Err(self.file_err(FileError::MissingSection('V')));
+        }
+        let vers = version_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("VERS"))
+            .ok_or_else(|| self.file_err(FileError::MissingVersion))?;
+        let version = match vers.value.parse::<f64>() {
+            Ok(v) if (v - 1.2).abs() < 1e-9 => Version::V1_2,
+            Ok(v) if (v - 2.0).abs() < 1e-9 => Version::V2_0,
+            _ => {
+                return Err(
+                    self.line_err(vers.line, LineError::UnsupportedVersion(vers.value.clone()))
+                );
+            }
+        };
+        let wrap = version_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("WRAP"))
+            .ok_or_else(|| self.file_err(FileError::MissingWrap))?;
+        let wrapped = match wrap.value.to_ascii_uppercase().as_str() {
+            "YES" => true,
+            "NO" => false,
+            _ => return Err(self.line_err(wrap.line, LineError::BadWrap(wrap.value.clone()))),
+        };
+        if !seen[1] {
+            return Err(self.file_err(FileError::MissingSection('W')));
+        }
+        if !seen[2] {
+            return Err(self.file_err(FileError::MissingSection('C')));
+        }
+        if curve_items.is_empty() {
+            return Err(self.file_err(FileError::NoCurves));
+        }
+        let Some((data_pos, data_line, a_title)) = data_start else {
+            return Err(self.file_err(FileError::MissingSection('A')));
+        };
+
+        // LAS 1.2 keeps the ~W value in the description field (except the index
+        // and NULL lines): move it to the value.
+        if version == Version::V1_2 {
+            for item in &mut well_items {
+                let keep = ["STRT", "STOP", "STEP", "NULL"]
+                    .iter()
+                    .any(|m| item.mnemonic.eq_ignore_ascii_case(m));
+                if !keep && !item.description.is_empty() {
+                    std::mem::swap(&mut item.value, &mut item.description);
+                }
+            }
+        }
+
+        let null_value = match well_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("NULL"))
+        {
+            Some(item) if !item.value.is_empty() => Some(
+                item.value
+                    .parse::<f64>()
+                    .ok()
+                    .filter(|v| v.is_finite())
+                    .ok_or_else(|| {
+                        self.line_err(
+                            item.line,
+                            LineError::BadHeaderNumber {
+                                mnemonic: "NULL".into(),
+                                text: item.value.clone(),
+                            },
+                        )
+                    })?,
+            ),
+            _ => {
+                self.warn(
+                    None,
+                    "~W declares no NULL value; only NaN is read as missing",
+                );
+                None
+            }
+        };
+
+        if let (Some(v), Some(item)) = (
+            null_value,
+            well_items
+                .iter()
+                .find(|i| i.mnemonic.eq_ignore_ascii_case("NULL")),
+        ) {
+            // a NULL that real logs take (0 for SP or porosity, 1 for a
+            // ratio) turns true readings into gaps; the usual values are
+            // -999.25, -9999 and the like (common practice)
+            if v.is_finite() && v.abs() < PLAUSIBLE_NULL_MIN_ABS {
+                let line = item.line;
+                self.warn(
+                    Some(line),
+                    format!(
+                        "NULL is {v}, a value real logs take: every sample equal to it is read as missing; check the file's NULL"
+                    ),
+                );
+            }
+        }
+
+        let curves = self.unique_curves(curve_items);
+
+        // ~A: the data, up to the next section line (LAS 2.0 puts ~A last)
+        let rest = &bytes[data_pos.min(bytes.len())..];
+        let (data_bytes, trailing) = split_at_next_section(rest);
+        if let Some(off) = trailing {
+            let line = data_line + rest[..off].iter().filter(|&&b| b == b'\n').count();
+            self.warn(
+                Some(line),
+                "a section follows ~A; LAS 2.0 puts ~A last, so the rest of the file is skipped",
+            );
+        }
+        let hint = rows_hint(&well_items, data_bytes.len(), curves.len(), wrapped);
+        let parsed = data::parse_data(
+            data_bytes,
+            data_line,
+            curves.len(),
+            wrapped,
+            null_value,
+            hint,
+        )
+        .map_err(|(line, e)| self.line_err(line, e))?;
+        if parsed.scan.blank_lines > 0 {
+            self.warn(
+                None,
+                format!(
+                    "{} blank line(s) inside ~A skipped",
+                    parsed.scan.blank_lines
+                ),
+            );
+        }
+        let mut columns = parsed.columns;
+        if columns[0].is_empty() {
+            return Err(self.file_err(FileError::NoRows));
+        }
+
+        self.check_a_title(&a_title, &curves, data_line - 1)?;
+        self.check_index_name(&curves)?;
+
+        let mut index_reversed = false;
+        if let Some((line, prev, value)) = parsed.scan.first_break {
+            self.contradiction(
+                Some(line),
+                format!("index is not monotonic: {value} follows {prev}"),
+            )?;
+        } else if columns[0].len() > 1 && columns[0][0] > columns[0][columns[0].len() - 1] {
+            for c in &mut columns {
+                c.reverse();
+            }
+            index_reversed = true;
+        }
+
+        let mut file = LasFile {
+            version,
+            wrapped,
+            version_items,
+            well_items,
+            curves,
+            params,
+            other,
+            null_value,
+            columns,
+            index_reversed,
+            warnings: Vec::new(),
+        };
+        self.check_range(&file, parsed.scan.first_break.is_none())?;
+        file.warnings = self.warnings;
+        Ok(file)
+    }
+
+    /// Make mnemonics unique: the first keeps its name, repeats get `_2`, `_3`...
+    fn unique_curves(&mut self, items: Vec<HeaderItem>) -> Vec<CurveInfo> {
+        let mut curves: Vec<CurveInfo> = Vec::with_capacity(items.len());
+        for item in items {
+            let mut name = item.mnemonic.clone();
+            let mut k = 1;
+            while curves
+                .iter()
+                .any(|c| c.mnemonic.eq_ignore_ascii_case(&name))
+            {
+                k += 1;
+                name = format!("{}_{k}", item.mnemonic);
+            }
+            if name != item.mnemonic {
+                self.warn(
+                    Some(item.line),
+                    format!(
+                        "curve {} appears again; this one is named {name}",
+                        item.mnemonic
+                    ),
+                );
+            }
+            curves.push(CurveInfo {
+                mnemonic: name,
+                original_mnemonic: item.mnemonic,
+                unit: item.unit,
+                api_code: item.value,
+                description: item.description,
+                line: item.line,
+            });
+        }
+        curves
+    }
+
+    /// The `~A` line may repeat the curve names; when it does (two or more
+    /// words after the section word, the first naming the index), they must
+    /// agree with ~C. Other text on the line is a label.
+    fn check_a_title(
+        &mut self,
+        title: &str,
+        curves: &[CurveInfo],
+        line: usize,
+    ) -> Result<(), LasError> {
+        let strip = |s: &str| s.split('[').next().unwrap_or(s).to_ascii_uppercase();
+        let names: Vec<&str> = title.split_whitespace().skip(1).collect();
+        if names.len() < 2 || strip(names[0]) != curves[0].original_mnemonic.to_ascii_uppercase() {
+            return Ok(());
+        }
+        let matches = |n: &str, c: &CurveInfo| {
+            n.eq_ignore_ascii_case(&c.original_mnemonic)
+                || strip(n) == c.original_mnemonic.to_ascii_uppercase()
+        };
+        if names.len() != curves.len() {
+            let message = format!(
+                "~A line names {} columns but ~C declares {} curves",
+                names.len(),
+                curves.len()
+            );
+            self.contradiction(Some(line), message)?;
+        } else if let Some((k, (n, c))) = names
+            .iter()
+            .zip(curves)
+            .enumerate()
+            .find(|(_, (n, c))| !matches(n, c))
+        {
+            let message = format!(
+                "~A line names column {} `{n}` where ~C declares `{}`",
+                k + 1,
+                c.original_mnemonic
+            );
+            self.contradiction(Some(line), message)?;
+        }
+        Ok(())
+    }
+
+    fn check_index_name(&mut self, curves: &[CurveInfo]) -> Result<(), LasError> {
+        let first = &curves[0];
+        let is_index = INDEX_MNEMONICS
+            .iter()
+            .any(|m| first.original_mnemonic.eq_ignore_ascii_case(m));
+        if !is_index {
+            if let Some(c) = curves.iter().skip(1).find(|c| {
+                INDEX_MNEMONICS
+                    .iter()
+                    .any(|m| c.original_mnemonic.eq_ignore_ascii_case(m))
+            }) {
+                self.contradiction(
+                    Some(c.line),
+                    format!("index curve {} is not first in ~C; the first curve, {}, is used as the index", c.mnemonic, first.mnemonic),
+                )?;
+            } else {
+                self.warn(Some(first.line), format!("first curve {} is not a usual index mnemonic (DEPT, DEPTH, TIME, INDEX); used as the index", first.mnemonic));
+            }
+        }
+        Ok(())
+    }
+
+    /// STRT, STOP and STEP against the index column.
+    fn check_range(&mut self, file: &LasFile, monotonic: bool) -> Result<(), LasError> {
+        let index = file.index();
+        let n = index.len();
+        let number = |m: &str| {
+            file.well_item(m)
+                .map(|i| (i.line, i.value.trim().parse::<f64>()))
+        };
+        // in file order: first and last as written
+        let (first, last) = if file.index_reversed {
+            (index[n - 1], index[0])
+        } else {
+            (index[0], index[n - 1])
+        };
+        let spacing = median_step(index);
+        let step_tol = spacing.abs().max(1e-6) * 0.5;
+        for (m, actual) in [("STRT", first), ("STOP", last)] {
+            match number(m) {
+                Some((line, Ok(v))) => {
+                    let tol = step_tol.max(1e-6 * v.abs());
+                    if (v - actual).abs() > tol {
+                        self.contradiction(
+                            Some(line),
+                            format!(
+                                "{m} is {v} but the index {} at {actual}",
+                                if m == "STRT" { "starts" } else { "ends" }
+                            ),
+                        )?;
+                    }
+                }
+                Some((line, Err(_))) => self.warn(Some(line), format!("{m} is not a number")),
+                None => self.warn(None, format!("~W has no {m}")),
+            }
+        }
+        if n < 2 || !monotonic {
+            return Ok(());
+        }
+        let (min_d, max_d) = step_range(index);
+        match number("STEP") {
+            Some((line, Ok(step))) if step != 0.0 => {
+                let written = if file.index_reversed {
+                    -spacing
+                } else {
+                    spacing
+                };
+                if (step - written).abs() > 1e-3 * step.abs().max(1e-9) {
+                    self.contradiction(
+                        Some(line),
+                        format!("STEP is {step} but the index steps by {written}"),
+                    )?;
+                } else if (max_d - min_d) > 0.01 * spacing.abs() {
+                    self.contradiction(
+                        Some(line),
+                        format!(
+                            "STEP is {step} but the index spacing varies from {min_d} to {max_d}"
+                        ),
+                    )?;
+                }
+            }
+            Some((_, Ok(_))) => {} // STEP 0 declares irregular spacing
+            Some((line, Err(_))) => self.warn(Some(line), "STEP is not a number"),
+            None => self.warn(None, "~W has no STEP"),
+        }
+        Ok(())
+    }
+}
+
+/// End of the line starting at `pos` (position of `\n`, or the buffer length).
+fn memchr_newline(bytes: &[u8], pos: usize) -> usize {
+    bytes[pos..]
+        .iter()
+        .position(|&b| b == b'\n')
+        .map_or(bytes.len(), |n| pos + n)
+}
+
+/// Split ~A bytes at the first line that starts a new section (`~` first non-blank).
+fn split_at_next_section(rest: &[u8]) -> (&[u8], Option<usize>) {
+    let mut pos = 0;
+    while pos < rest.len() {
+        let mut p = pos;
+        while p < rest.len() && (rest[p] == b' ' || rest[p] == b'\t') {
+            p += 1;
+        }
+        if p < rest.len() && rest[p] == b'~' {
+            return (&rest[..pos], Some(pos));
+        }
+        pos = memchr_newline(rest, pos) + 1;
+    }
+    (rest, None)
+}
+
+/// Expected number of rows, to size the column vectors once. STRT, STOP and
+/// STEP give it when they agree with the data section's size: every value
+/// takes at least two bytes (a digit and a separator), so a header that
+/// claims more rows than the bytes can hold (damaged, or hostile) cannot
+/// make the reader reserve memory the file does not need.
+fn rows_hint(well: &[HeaderItem], data_len: usize, n_curves: usize, wrapped: bool) -> usize {
+    let most_rows = data_len / (2 * n_curves.max(1)) + 1;
+    let get = |m: &str| {
+        well.iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case(m))
+            .and_then(|i| i.value.parse::<f64>().ok())
+    };
+    if let (Some(a), Some(b), Some(s)) = (get("STRT"), get("STOP"), get("STEP")) {
+        if s != 0.0 {
+            let n = ((b - a) / s).round();
+            if (0.0..1e8).contains(&n) {
+                return (n as usize + 1).min(most_rows);
+            }
+        }
+    }
+    // about 10 bytes per value
+    let per_row = (n_curves * 10 + if wrapped { 8 } else { 1 }).max(1);
+    data_len / per_row + 1
+}
+
+/// Median of the index steps (0 for fewer than two rows).
+pub fn median_step(index: &[f64]) -> f64 {
+    if index.len() < 2 {
+        return 0.0;
+    }
+    let mut d: Vec<f64> = index.windows(2).map(|w| w[1] - w[0]).collect();
+    let mid = d.len() / 2;
+    d.select_nth_unstable_by(mid, f64::total_cmp);
+    d[mid]
+}
+
+/// Smallest and largest index step.
+pub fn step_range(index: &[f64]) -> (f64, f64) {
+    index
+        .windows(2)
+        .map(|w| w[1] - w[0])
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), d| {
+            (lo.min(d), hi.max(d))
+        })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn items(strt: &str, stop: &str, step: &str) -> Vec<HeaderItem> {
+        [("STRT", strt), ("STOP", stop), ("STEP", step)]
+            .into_iter()
+            .enumerate()
+            .map(|(k, (m, v))| HeaderItem {
+                mnemonic: m.into(),
+                unit: "M".into(),
+                value: v.into(),
+                description: String::new(),
+                line: k + 1,
+            })
+            .collect()
+    }
+
+    /// The hint sizes every curve's column. An honest header gives the row
+    /// count exactly; a header claiming more rows than the data section's
+    /// bytes can hold (two bytes a value at least) gets what the bytes allow:
+    /// found by fuzzing the SPWLA reader, whose value count went straight to
+    /// an allocation the same way (common practice: never size a buffer by
+    /// an untrusted count).
+    #[test]
+    fn rows_hint_trusts_the_header_only_as_far_as_the_bytes_go() {
+        let data = "1000 1\n1000.5 2\n1001 3\n";
+        assert_eq!(
+            rows_hint(&items("1000", "1001", "0.5"), data.len(), 2, false),
+            3
+        );
+        // 10 million rows claimed over 2 000 curves: 160 GB if believed
+        let hint = rows_hint(&items("0", "9999999", "1"), 100, 2000, false);
+        assert_eq!(hint, 1);
+        // no usable STEP: the byte estimate (about 10 bytes a value)
+        assert_eq!(
+            rows_hint(&items("0", "10", "0"), 2100, 2, false),
+            2100 / 21 + 1
+        );
+    }
+}

@@ -1,0 +1,191 @@
+//! One well through every stage, in order.
+//!
+//! ```text
+//! read LAS ─► curves and units ─► depth reference ─► zones ─► petrophysics   (well)
+//!   ─► classes and permeability ─► class-aware SW                            (classes, well)
+//!   ─► saturation-height ─► contact audit                                     (sat_height, contacts)
+//!   ─► zone summary                                                           (well::summary)
+//! ```
+//!
+//! [`run_well`] is the only place that chains the stages; the field run
+//! schedules wells through it and hands each [`Interpreted`] well to the
+//! writers and the report. A stage the run has no model for (no `[classes]`,
+//! no `[capillary]`) is skipped, and the well keeps what the earlier stages
+//! gave it.
+
+use std::path::Path;
+
+use serde::{Deserialize, Serialize};
+
+use crate::classes::stage::{ClassCounts, ClassSetup};
+use crate::contacts::WellAudit;
+use crate::output::schema::Col;
+use crate::sat_height::{SatHeightModel, WellSatHeight};
+use crate::well::summary::ZoneSummary;
+use crate::well::{self, RunContext, WellError, WellOutput};
+
+/// What every well of a run shares: the config and its tables, and the
+/// models built once before the wells (absent when the config asks for none).
+#[derive(Clone, Copy)]
+pub struct Models<'a> {
+    /// The config and the tables it names.
+    pub ctx: &'a RunContext,
+    /// The class scheme and predictor.
+    pub classes: Option<&'a ClassSetup>,
+    /// The saturation-height model (J-function per class, FWL per compartment).
+    pub sat: Option<&'a SatHeightModel>,
+}
+
+/// A well after every stage: its table and what each stage found.
+#[derive(Debug, Clone)]
+pub struct Interpreted {
+    /// The logs stage's result, with the later stages' curves added to its table.
+    pub well: WellOutput,
+    /// Depths classed, per class, and why others have no class.
+    pub classes: Option<ClassCounts>,
+    /// Height above the FWL, SWH and the SW − SWH residual summary.
+    pub saturation_height: Option<WellSatHeight>,
+    /// Saturation steps with their kinds, and the FWL the logs imply.
+    pub contacts: Option<WellAudit>,
+    /// Gross, net, net-to-gross, averages and HPT per zone.
+    pub zones: Vec<ZoneSummary>,
+}
+
+/// Take the well in `path` through every stage the run has a model for.
+pub fn run_well(path: &Path, models: &Models<'_>) -> Result<Interpreted, WellError> {
+    let config = &models.ctx.config;
+    // read, curves and units, depth reference, zones, petrophysics
+    let mut out = well::process(path, models.ctx)?;
+    // classes and permeability, then SW with each class's exponents
+    let classes = models.classes.map(|setup| {
+        let name = out.name.clone();
+        let counts = setup.apply(&mut out.table, &name, &mut out.warnings);
+        if config.parameters.has_class_params() {
+            let max_class = u8::try_from(setup.scheme.class_count).unwrap_or(u8::MAX);
+            out.apply_class_exponents(&config.parameters, max_class);
+        }
+        counts
+    });
+    // saturation-height, and the audit of every saturation step against it
+    let mut saturation_height = None;
+    let mut contacts = None;
+    if let Some(sat) = models.sat {
+        let file_stem = well::stem_of(path);
+        let names = [out.name.as_str(), file_stem.as_str()];
+        saturation_height = sat.apply(&mut out.table, &names, &mut out.warnings);
+        if saturation_height.is_some() {
+            contacts = crate::contacts::apply(
+                &mut out.table,
+                &out.name,
+                &names,
+                sat,
+                &config.contacts,
+                config.project.depth_unit,
+            );
+            if let Some(f) = contacts
+                .as_ref()
+                .and_then(|a| a.implied_fwl.as_ref())
+                .filter(|f| !f.agrees)
+            {
+                out.warnings.push(format!("contact audit: {}", f.note));
+            }
+        }
+    }
+    // the per-zone summary of the final curves
+    let zone_names: Vec<String> = out.report.zones.iter().map(|z| z.name.clone()).collect();
+    let nan = vec![f64::NAN; out.table.n_rows()];
+    let get = |c: Col| out.table.get(c).unwrap_or(&nan);
+    let zones = crate::well::summary::zone_summary(
+        &out.name,
+        get(Col::Depth),
+        &out.zone_of,
+        &zone_names,
+        get(Col::Vsh),
+        get(Col::Phie),
+        get(Col::Sw),
+        get(Col::Class),
+        &config.summary,
+    );
+    Ok(Interpreted {
+        well: out,
+        classes,
+        saturation_height,
+        contacts,
+        zones,
+    })
+}
+
+/// What happened to one well, as the run summary and the report give it.
+#[derive(Debug, Clone, Serialize, Deserialize)]
+pub struct WellReport {
+    /// The LAS file, as given.
+    pub file: String,
+    /// The well's name (LAS `WELL`, else the file stem); `None` when unread.
+    pub well: Option<String>,
+    /// Whether every stage and every write succeeded.
+    pub ok: bool,
+    /// Why the well failed, with its cause chain.
+    pub error: Option<String>,
+    /// Depth samples.
+    pub rows: usize,
+    /// Files written, relative to the output folder.
+    pub outputs: Vec<String>,
+    /// Logical curve, mnemonic used, unit as read.
+    pub curves: Vec<(String, String, String)>,
+    /// Warnings from reading and from the stages.
+    pub warnings: Vec<String>,
+    /// Depth reference, zones with their parameters and picks, and what was clipped or flagged.
+    pub stages: Option<well::WellReport>,
+    /// Depths classed, per class, and why others have no class.
+    pub classes: Option<ClassCounts>,
+    /// Height above the FWL, SWH and the SW − SWH residual summary.
+    pub saturation_height: Option<WellSatHeight>,
+    /// Saturation steps with their kinds, and the FWL the logs imply.
+    pub contacts: Option<WellAudit>,
+    /// Gross, net, net-to-gross, averages and HPT per zone.
+    pub zones: Vec<ZoneSummary>,
+    /// A sample of the well's (PHIE, RT, CLASS) for the field Pickett plot
+    /// (not in the summary; shard states carry it beside the report).
+    #[serde(skip)]
+    pub pickett: Vec<crate::report::plots::PickettPoint>,
+}
+
+impl WellReport {
+    /// The report of a well not processed yet (or that failed before any stage).
+    pub fn new(path: &Path) -> WellReport {
+        WellReport {
+            file: path.display().to_string(),
+            well: None,
+            ok: false,
+            error: None,
+            rows: 0,
+            outputs: Vec::new(),
+            curves: Vec::new(),
+            warnings: Vec::new(),
+            stages: None,
+            classes: None,
+            saturation_height: None,
+            contacts: None,
+            zones: Vec::new(),
+            pickett: Vec::new(),
+        }
+    }
+
+    /// Take what every stage found in `w`.
+    pub fn record(&mut self, w: &Interpreted) {
+        let out = &w.well;
+        self.classes.clone_from(&w.classes);
+        self.saturation_height.clone_from(&w.saturation_height);
+        self.contacts.clone_from(&w.contacts);
+        self.well = Some(out.name.clone());
+        self.rows = out.table.n_rows();
+        self.warnings.clone_from(&out.warnings);
+        self.stages = Some(out.report.clone());
+        self.curves = out
+            .resolved
+            .iter()
+            .map(|(l, m, u)| (l.key().to_string(), m.clone(), u.clone()))
+            .collect();
+        self.zones.clone_from(&w.zones);
+    }
+}
