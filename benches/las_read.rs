@@ -11,7 +11,8 @@ use std::hint::black_box;
 use std::path::Path;
 
 use criterion::{Criterion, Throughput, criterion_group, criterion_main};
-use flowzone::input::las::{ReadOptions, read_bytes, writer};
+use flowzone::input::las::{ReadOptions, read_bytes};
+use flowzone::output::las::write_las;
 
 const ROWS: usize = 200_000;
 const CURVES: usize = 12;
@@ -81,7 +82,7 @@ fn bench(c: &mut Criterion) {
         let mut out = Vec::with_capacity(bytes.len() + (1 << 20));
         b.iter(|| {
             out.clear();
-            writer::write_las(&mut out, black_box(&file), &decimals).expect("in memory");
+            write_las(&mut out, black_box(&file), &decimals).expect("in memory");
             black_box(out.len())
         })
     });

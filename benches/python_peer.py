@@ -33,7 +33,7 @@ import tomllib
 import lasio
 import numpy as np
 
-# flowzone's physical input ranges (src/stages.rs): outside them a depth is not interpreted
+# flowzone's physical input ranges (src/well/chain.rs): outside them a depth is not interpreted
 RANGES = {
     "GR": (0.0, 1000.0),
     "RHOB": (1.0, 3.2),

@@ -151,12 +151,23 @@ impl ClassScheme for FziClusters {
 /// onto a few equal samples (a design choice: a factor of 1.05 in FZI).
 pub const CLUSTER_MIN_SD_LOG10: f64 = 0.02;
 
+/// Why a configured scheme cannot be built.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SchemeError {
+    /// An FZI ladder with neither bounds nor a full geometric series.
+    #[error("give either bounds, or start, ratio and count")]
+    LadderSpec,
+    /// The FZI clusters cannot be fitted to the core.
+    #[error(transparent)]
+    Clusters(#[from] clusters::ClusterError),
+}
+
 /// Build a configured scheme; data-driven schemes are fitted to `core`
 /// (φ v/v, k mD pairs).
 pub fn build(
     spec: &crate::config::SchemeSpec,
     core: &[(f64, f64)],
-) -> Result<Box<dyn ClassScheme>, String> {
+) -> Result<Box<dyn ClassScheme>, SchemeError> {
     use crate::config::SchemeSpec;
     Ok(match spec {
         SchemeSpec::FziLadder {
@@ -169,7 +180,7 @@ pub fn build(
             ..
         } => Box::new(FziLadder::geometric(*s, *r, *n)),
         SchemeSpec::FziLadder { .. } => {
-            return Err("give either bounds, or start, ratio and count".into());
+            return Err(SchemeError::LadderSpec);
         }
         SchemeSpec::PortSize { bounds } => Box::new(PortSize {
             bounds: bounds

@@ -421,7 +421,7 @@ fn cmd_class_stage(
     let files = config.well_files()?;
     let inputs = config.input_paths();
     field::safety::check_out_dir(out, &inputs)?;
-    let ctx = crate::well::RunContext::new(config).map_err(|e| Error::Usage(chain(&e)))?;
+    let ctx = crate::well::RunContext::new(config)?;
     let prepared = crate::classes::stage::prepare(&ctx, &files, out, mode, !quiet)?;
     let summary = &prepared.summary;
     for r in &summary.core_rejected {
@@ -489,12 +489,11 @@ fn cmd_compare(config_path: &std::path::Path, json: bool) -> Result<(), Error> {
             "classes compare needs [core] and [classes] in the config".into(),
         ));
     };
-    let data =
-        crate::classes::core_match::load(&config, core_cfg).map_err(|e| Error::Usage(chain(&e)))?;
+    let data = crate::classes::core_match::load(&config, core_cfg)?;
     for r in &data.rejected {
         eprintln!("core: line {}: left out: {}", r.line, r.reason);
     }
-    let rows = crate::classes::compare::compare(classes, &data.samples).map_err(Error::Usage)?;
+    let rows = crate::classes::compare::compare(classes, &data.samples)?;
     let stdout = std::io::stdout();
     let mut o = stdout.lock();
     if json {

@@ -15,7 +15,8 @@ pub fn chain(error: &dyn std::error::Error) -> String {
     text
 }
 
-/// An error that stops a command.
+/// An error that stops a command. Each stage's own error is wrapped as it
+/// is, so the printed chain names the file, line, well, class or config key.
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
     #[error(transparent)]
@@ -23,7 +24,22 @@ pub enum Error {
     #[error(transparent)]
     Las(#[from] crate::input::las::LasError),
     #[error(transparent)]
+    Table(#[from] crate::input::tables::TableError),
+    #[error(transparent)]
+    Core(#[from] crate::input::core_samples::CoreError),
+    #[error(transparent)]
+    Scheme(#[from] crate::classes::compare::SchemeBuildError),
+    #[error(transparent)]
+    ClassModel(#[from] crate::classes::stage::ClassStageError),
+    #[error(transparent)]
+    ModelFile(#[from] crate::classes::predictor::model_file::ModelFileError),
+    #[error(transparent)]
+    Predict(#[from] crate::classes::predictor::PredictError),
+    #[error(transparent)]
+    SatHeight(#[from] crate::sat_height::SatHeightError),
+    #[error(transparent)]
     Output(#[from] crate::output::OutputError),
+    /// A command asked for something its arguments or config do not give.
     #[error("{0}")]
     Usage(String),
     #[error("cannot write `{}`", .path.display())]

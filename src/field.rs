@@ -19,9 +19,10 @@ use serde::Serialize;
 use crate::config::Config;
 use crate::error::{Error, chain};
 use crate::field::journal::{Journal, PROGRESS_FILE, read_journal};
-use crate::field::outputs::{contact_outputs, saturation_outputs, write_json};
+use crate::field::outputs::{contact_outputs, saturation_outputs};
 use crate::field::setup::FieldSetup;
 use crate::output;
+use crate::output::write_json;
 use crate::pipeline::{self, Models, WellReport};
 use crate::well::WellError;
 

@@ -1,4 +1,4 @@
-//! Input files: the LAS reader and writer, the CSV tables (tops, survey,
+//! Input files: the LAS reader, the CSV tables (tops, survey,
 //! core, capillary pressure, formation pressures) and the SPWLA core format.
 //!
 //! Readers turn bytes into typed records with file:line errors; nothing here

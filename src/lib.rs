@@ -1,30 +1,27 @@
 //! flowzone: field-scale petrophysics from well logs, core, capillary-pressure
-//! and formation-pressure data.
+//! and formation-pressure data. The modules are the stages of a run:
 //!
 //! ```text
-//! LAS files ──► las (read, check) ──► curves (aliases, units) ──► stages ──► output
-//!                                                                  │          (LAS, CSV, Parquet)
-//!   config (TOML) ──────────────────────────────────────────────────┘
+//! read (input::las) ─► curves (input::curves) ─► depth/zones (well) ─► petro (well::chain)
+//!   ─► classes ─► class-aware SW (well::chain) ─► sat_height ─► contacts ─► output/report
+//! pipeline.rs: one well through every stage, in order; field: schedules the wells (rayon, shards)
 //! ```
 //!
-//! Modules:
-//! - [`las`]: LAS 2.0 / 1.2 reader and LAS 2.0 writer, strict with file:line errors.
-//! - [`units`]: unit spellings and conversion to the canonical units.
-//! - [`curves`]: logical curves found by alias lists, converted to canonical units.
-//! - [`config`]: the project config (TOML).
-//! - [`well`]: one well through the stages; [`field`]: many wells in parallel.
-//! - [`output`]: depth-indexed tables written as CSV, Parquet and LAS.
-//! - [`core_data`], [`core_set`]: core plugs read, matched to wells and shifted.
-//! - [`classes`]: flow-unit quantities, class schemes, permeability per class.
-//! - [`predictor`]: the random-forest class predictor and its model file;
-//!   [`classify`]: the class stage of a run (train or load, apply to wells).
-//! - [`capillary`], [`capillary_data`], [`pressure`]: Leverett J and curve
-//!   forms, lab curves and their J fits, free water levels from pressures;
-//!   [`sat_height`]: the saturation-height stage of a run (SWH per depth);
-//!   [`contacts`]: the audit of every saturation step.
-//! - [`inspect`], [`export`]: the `inspect` and `export` commands.
-//! - [`synth`], [`demo`]: the synthetic forward model behind the invented demo field.
-//! - [`cli`]: the command line.
+//! - [`input`]: LAS reader, CSV tables, core samples, logical curves in canonical units.
+//! - [`well`]: one well's logs: depth reference, zones, the petrophysics chain, zone summary.
+//! - [`petro`]: the formulas of shale volume, porosity, formation water and saturation.
+//! - [`classes`]: flow units, class schemes, core on log depth, the predictor, the class stage.
+//! - [`sat_height`]: Leverett J, lab curves and their fits, free water levels, SWH per depth.
+//! - [`contacts`]: the audit of every saturation step and the FWL the logs imply.
+//! - [`output`]: tables written as CSV, Parquet and LAS; the column set ([`output::schema::Col`]).
+//! - [`report`]: the HTML pages and their plots (SVG, PNG).
+//! - [`pipeline`]: [`pipeline::run_well`], the one place that chains the stages for a well.
+//! - [`field`]: the field run: wells in parallel or in shards, the journal, field-level outputs.
+//! - [`config`]: the project config (TOML); [`units`]: unit spellings and conversions.
+//! - [`stats`]: the shared statistics; [`error`]: the error a command ends with.
+//! - [`cli`]: the command line and the `inspect` and `export` commands.
+//! - [`demo`]: the synthetic forward model behind the invented demo field.
+//! - `testutil`: test helpers, compiled for tests only.
 //!
 //! Results are interpretations: they must be reviewed by a qualified
 //! petrophysicist before they inform reserves, well or investment decisions,

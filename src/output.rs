@@ -238,6 +238,19 @@ pub fn remove_stale_partials(out: &Path) {
     }
 }
 
+/// Write `value` as pretty JSON and a final newline, through a temporary file
+/// ([`write_atomic`]).
+pub fn write_json<T: serde::Serialize>(path: &Path, value: &T) -> Result<(), OutputError> {
+    let io = |source| OutputError::Io {
+        path: path.to_path_buf(),
+        source,
+    };
+    write_atomic(path, |w| {
+        serde_json::to_writer_pretty(&mut *w, value).map_err(|e| io(std::io::Error::other(e)))?;
+        w.write_all(b"\n").map_err(io)
+    })
+}
+
 /// Write `path` through a temporary file in the same folder, renamed when done.
 pub fn write_atomic(
     path: &Path,

@@ -1,7 +1,7 @@
 //! The formula layer of shale volume and porosity, and formation water.
 //!
 //! Pure functions of scalars, no config and no clipping inside: the stage
-//! (`stages`) applies them to a well's curves, clips to physical bounds and
+//! ([`crate::well::chain`]) applies them to a well's curves, clips to physical bounds and
 //! counts what it clipped.
 
 pub mod saturation;

@@ -147,7 +147,7 @@ pub struct WellReport {
     /// A sample of the well's (PHIE, RT, CLASS) for the field Pickett plot
     /// (not in the summary; shard states carry it beside the report).
     #[serde(skip)]
-    pub pickett: Vec<crate::report::plots::PickettPoint>,
+    pub pickett: Vec<PickettPoint>,
 }
 
 impl WellReport {
@@ -188,4 +188,16 @@ impl WellReport {
             .collect();
         self.zones.clone_from(&w.zones);
     }
+}
+
+/// A log depth as the Pickett plot shows it: a well keeps a sample of these
+/// for the field page (which no longer has the logs).
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize, serde::Deserialize)]
+pub struct PickettPoint {
+    /// Effective porosity, v/v.
+    pub phi: f64,
+    /// Deep resistivity, ohm.m.
+    pub rt: f64,
+    /// Hydraulic class, 1 the poorest rock.
+    pub class: u8,
 }

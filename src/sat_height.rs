@@ -26,14 +26,13 @@ use serde::{Deserialize, Serialize};
 use crate::classes::ClassScheme;
 use crate::classes::predictor::model_file::SchemeInfo;
 use crate::config::{CompartmentConfig, Config, FluidProps};
-use crate::error::{Error, chain};
 use crate::input::core_samples::Rejected;
 use crate::output::schema::Col;
 use crate::output::schema::{FLAG_MISSING_INPUT, FLAG_OUT_OF_RANGE, FLAG_OUTSIDE_ZONE};
 use crate::output::{OutColumn, OutputError, Table, write_atomic};
 use crate::sat_height::capillary::{FluidSystem, leverett_j, pc_at_height_psi, sigma_cos};
-use crate::sat_height::fwl::FwlFit;
-use crate::sat_height::lab_curves::{CapSample, J_FORM_CRITERION, JCurve, JFit};
+use crate::sat_height::fwl::{FwlError, FwlFit};
+use crate::sat_height::lab_curves::{CapSample, J_FORM_CRITERION, JCurve, JFit, JFitError};
 use crate::units::DepthUnit;
 
 /// The J-function a class uses.
@@ -170,13 +169,108 @@ const RESIDUAL_SKIP_FLAGS: u32 = 1 | FLAG_OUT_OF_RANGE | FLAG_MISSING_INPUT | FL
 /// Least depths for a well's mean residual to count in the neighbour comparison.
 pub const MIN_RESIDUAL_SAMPLES: usize = 20;
 
-fn usage(msg: String) -> Error {
-    Error::Usage(msg)
+/// Why a pressure point's TVDSS cannot be had.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum TvdssError {
+    /// The row's DEPTH_UNIT is not a depth unit.
+    #[error(transparent)]
+    Unit(#[from] crate::units::UnknownDepthUnit),
+    /// The row gives no depth, or both TVDSS columns.
+    #[error("give TVDSS_M or TVDSS_FT (not both), or DEPTH_MD")]
+    NoDepth,
+    /// No readable LAS well of the field has this name.
+    #[error(
+        "well `{well}` is not among the field's readable LAS wells, so its MD cannot be converted to TVDSS"
+    )]
+    UnknownWell { well: String },
+    /// The MD is outside the well's log, or the well has no TVDSS.
+    #[error(
+        "{well}: MD {md} is outside the logged depths or the well has no TVDSS (no datum elevation)"
+    )]
+    OutsideLog { well: String, md: f64 },
+}
+
+/// Why the saturation-height model could not be built; each names the file,
+/// plug, class, compartment or config key at fault.
+#[derive(Debug, thiserror::Error)]
+pub enum SatHeightError {
+    /// The class scheme has more classes than a class number holds.
+    #[error("scheme {scheme} has too many classes")]
+    TooManyClasses { scheme: String },
+    /// A capillary-pressure or pressure-point file cannot be read.
+    #[error(transparent)]
+    Table(#[from] crate::input::tables::TableError),
+    /// `capillary.plug-class` names a sample the file does not have.
+    #[error("config key `capillary.plug-class.\"{sample}\"`: no usable sample `{sample}` in {}", .file.display())]
+    UnknownPlug { sample: String, file: PathBuf },
+    /// A plug falls in no class of the scheme.
+    #[error(
+        "{}: line {line}: plug {sample} (φ {porosity}, k {perm_md} mD) has no class in scheme {scheme}",
+        .file.display()
+    )]
+    UnclassedPlug {
+        file: PathBuf,
+        line: u64,
+        sample: String,
+        porosity: f64,
+        perm_md: f64,
+        scheme: String,
+    },
+    /// `capillary.plug-class` gives a class the scheme does not have.
+    #[error(
+        "config key `capillary.plug-class.\"{sample}\"`: class {class} is above the scheme's {class_count} classes"
+    )]
+    PlugClassTooHigh {
+        sample: String,
+        class: u8,
+        class_count: u8,
+    },
+    /// A class's plugs give no J-function.
+    #[error("capillary class {class} (plugs {plugs}): the J-function fit failed")]
+    JFit {
+        class: u8,
+        plugs: String,
+        #[source]
+        source: JFitError,
+    },
+    /// The file has no plug usable for a J-function.
+    #[error("{}: no usable capillary-pressure plug, so no class has a J-function", .file.display())]
+    NoPlugs { file: PathBuf },
+    /// Neither compartments nor pressure points give a free water level.
+    #[error(
+        "the saturation-height model needs a free water level: add [compartments.NAME] with fwl-tvdss, or [pressures]"
+    )]
+    NoFwlSource,
+    /// A compartment has no free water level.
+    #[error("compartment `{compartment}`: no free water level: set fwl-tvdss")]
+    NoFwl { compartment: String },
+    /// A compartment's pressure fit failed and the config gives no FWL.
+    #[error(
+        "compartment `{compartment}`: no free water level: the pressure fit failed ({reason}); set fwl-tvdss or fix the points"
+    )]
+    FwlFit {
+        compartment: String,
+        reason: FwlError,
+    },
+    /// A compartment has no fluid densities.
+    #[error(
+        "compartment `{compartment}`: no fluid densities: set rho-water-gcc and rho-hc-gcc, or give pressure points for both legs"
+    )]
+    NoDensities { compartment: String },
+    /// The water is not denser than the hydrocarbon.
+    #[error(
+        "compartment `{compartment}`: water density {rho_water:.3} g/cm3 is not above the hydrocarbon's {rho_hc:.3}"
+    )]
+    Densities {
+        compartment: String,
+        rho_water: f64,
+        rho_hc: f64,
+    },
 }
 
 /// TVDSS (project depth unit) of a measured depth (project depth unit) in a
 /// well, by the well's own depth reference; `Err` says why not.
-pub type TvdssOf<'a> = &'a (dyn Fn(&str, f64) -> Result<f64, String> + Sync);
+pub type TvdssOf<'a> = &'a (dyn Fn(&str, f64) -> Result<f64, TvdssError> + Sync);
 
 /// Build the model before the wells: read and class the plugs, fit a
 /// J-function per class, find every compartment's FWL. `None` when the config
@@ -186,12 +280,14 @@ pub fn prepare(
     config: &Config,
     scheme: &SchemeInfo,
     tvdss_of: TvdssOf<'_>,
-) -> Result<Option<SatHeightModel>, Error> {
+) -> Result<Option<SatHeightModel>, SatHeightError> {
     let Some(cap) = &config.capillary else {
         return Ok(None);
     };
-    let class_count = u8::try_from(scheme.class_count)
-        .map_err(|_| usage(format!("scheme {} has too many classes", scheme.name)))?;
+    let class_count =
+        u8::try_from(scheme.class_count).map_err(|_| SatHeightError::TooManyClasses {
+            scheme: scheme.name.clone(),
+        })?;
     let reservoir = config.saturation_height.reservoir.unwrap_or_else(|| {
         let (s, t) = FluidSystem::OilBrineReservoir.typical();
         FluidProps {
@@ -203,8 +299,7 @@ pub fn prepare(
 
     // plugs
     let cap_path = config.resolve_path(&cap.file);
-    let (mut samples, plugs_rejected) =
-        lab_curves::read(&cap_path).map_err(|e| usage(chain(&e)))?;
+    let (mut samples, plugs_rejected) = lab_curves::read(&cap_path)?;
     for s in &mut samples {
         if let Some(o) = lab_override(cap, s.system) {
             relabel(s, sigma_cos(o.sigma_dyn_cm, o.theta_deg));
@@ -212,10 +307,10 @@ pub fn prepare(
     }
     for name in cap.plug_class.keys() {
         if !samples.iter().any(|s| s.sample == *name) {
-            return Err(usage(format!(
-                "config key `capillary.plug-class.\"{name}\"`: no usable sample `{name}` in {}",
-                cap_path.display()
-            )));
+            return Err(SatHeightError::UnknownPlug {
+                sample: name.clone(),
+                file: cap_path,
+            });
         }
     }
     let mut plug_class: Vec<(u8, String)> = Vec::with_capacity(samples.len());
@@ -225,23 +320,23 @@ pub fn prepare(
             None => match scheme.classify(s.porosity, s.perm_md) {
                 Some(c) => (c, "scheme".to_string()),
                 None => {
-                    return Err(usage(format!(
-                        "{}: line {}: plug {} (φ {}, k {} mD) has no class in scheme {}",
-                        cap_path.display(),
-                        s.line,
-                        s.sample,
-                        s.porosity,
-                        s.perm_md,
-                        scheme.name
-                    )));
+                    return Err(SatHeightError::UnclassedPlug {
+                        file: cap_path,
+                        line: s.line,
+                        sample: s.sample.clone(),
+                        porosity: s.porosity,
+                        perm_md: s.perm_md,
+                        scheme: scheme.name.clone(),
+                    });
                 }
             },
         };
         if c > class_count {
-            return Err(usage(format!(
-                "config key `capillary.plug-class.\"{}\"`: class {c} is above the scheme's {class_count} classes",
-                s.sample
-            )));
+            return Err(SatHeightError::PlugClassTooHigh {
+                sample: s.sample.clone(),
+                class: c,
+                class_count,
+            });
         }
         plug_class.push((c, src));
     }
@@ -265,19 +360,15 @@ pub fn prepare(
             .collect();
         let names: Vec<String> = members.iter().map(|s| s.sample.clone()).collect();
         j_points.extend(pts.iter().map(|&(j, sw)| (c, sw, j)));
-        let fit = lab_curves::fit_j_curve(&pts).map_err(|m| {
-            usage(format!(
-                "capillary class {c} (plugs {}): the J-function fit failed: {m}",
-                names.join(", ")
-            ))
+        let fit = lab_curves::fit_j_curve(&pts).map_err(|source| SatHeightError::JFit {
+            class: c,
+            plugs: names.join(", "),
+            source,
         })?;
         own.insert(c, (fit, names, pts.len()));
     }
     if own.is_empty() {
-        return Err(usage(format!(
-            "{}: no usable capillary-pressure plug, so no class has a J-function",
-            cap_path.display()
-        )));
+        return Err(SatHeightError::NoPlugs { file: cap_path });
     }
     let classes: Vec<ClassJ> = (1..=class_count)
         .map(|c| match own.get(&c) {
@@ -439,14 +530,18 @@ pub fn read_pressure_points(
             (Some(m), None, _) => Ok(m),
             (None, Some(f), _) => Ok(f * DepthUnit::Foot.factor_to(DepthUnit::Metre)),
             (None, None, Some(md)) => DepthUnit::from_optional(r.depth_unit.as_deref(), depth_unit)
+                .map_err(TvdssError::from)
                 .and_then(|u| tvdss_of(&r.well, md * u.factor_to(depth_unit)))
                 .map(|t| t * to_m),
-            _ => Err("give TVDSS_M or TVDSS_FT (not both), or DEPTH_MD".into()),
+            _ => Err(TvdssError::NoDepth),
         };
         let tvdss_m = match tvdss_m {
             Ok(t) => t,
-            Err(reason) => {
-                left_out.push(Rejected { line, reason });
+            Err(e) => {
+                left_out.push(Rejected {
+                    line,
+                    reason: e.to_string(),
+                });
                 continue;
             }
         };
@@ -503,7 +598,7 @@ pub fn compartment_of<'a, T>(
 fn compartments(
     config: &Config,
     tvdss_of: TvdssOf<'_>,
-) -> Result<(Vec<CompartmentFwl>, Vec<Rejected>), Error> {
+) -> Result<(Vec<CompartmentFwl>, Vec<Rejected>), SatHeightError> {
     let du = config.project.depth_unit;
     let to_m = du.factor_to(DepthUnit::Metre);
     let mut cfgs: Vec<(String, CompartmentConfig)> = config
@@ -513,9 +608,7 @@ fn compartments(
         .collect();
     if cfgs.is_empty() {
         if config.pressures.is_none() {
-            return Err(usage(
-                "the saturation-height model needs a free water level: add [compartments.NAME] with fwl-tvdss, or [pressures]".into(),
-            ));
+            return Err(SatHeightError::NoFwlSource);
         }
         cfgs.push(("field".into(), CompartmentConfig::default()));
     }
@@ -525,8 +618,7 @@ fn compartments(
     if let Some(p) = &config.pressures {
         min_leg = p.min_leg_points;
         let path = config.resolve_path(&p.file);
-        let (obs, rejected) = read_pressure_points(&path, du, &p.exclude_quality, tvdss_of)
-            .map_err(|e| usage(chain(&e)))?;
+        let (obs, rejected) = read_pressure_points(&path, du, &p.exclude_quality, tvdss_of)?;
         left_out = rejected;
         for o in obs {
             match compartment_of(&cfgs, |c| &c.wells, &[o.well.as_str()]) {
@@ -544,15 +636,13 @@ fn compartments(
     }
     let mut out = Vec::with_capacity(cfgs.len());
     for ((name, c), pts) in cfgs.into_iter().zip(points) {
-        let err = |m: String| usage(format!("compartment `{name}`: {m}"));
         let fit = if config.pressures.is_none() {
             None
         } else if pts.len() < 2 * min_leg {
-            Some(Err(format!(
-                "{} usable pressure points: two legs need at least {}",
-                pts.len(),
-                2 * min_leg
-            )))
+            Some(Err(FwlError::TooFewUsable {
+                count: pts.len(),
+                need: 2 * min_leg,
+            }))
         } else {
             Some(match c.split_tvdss {
                 Some(s) => fwl::fit_fwl_split_at(&pts, s * to_m),
@@ -566,12 +656,13 @@ fn compartments(
                 Some(f.fwl_sigma_m / to_m),
                 "pressures",
             ),
-            (None, Some(Err(m))) => {
-                return Err(err(format!(
-                    "no free water level: the pressure fit failed ({m}); set fwl-tvdss or fix the points"
-                )));
+            (None, Some(Err(reason))) => {
+                return Err(SatHeightError::FwlFit {
+                    compartment: name,
+                    reason: reason.clone(),
+                });
             }
-            (None, None) => return Err(err("no free water level: set fwl-tvdss".into())),
+            (None, None) => return Err(SatHeightError::NoFwl { compartment: name }),
         };
         let fitted = fit.as_ref().and_then(|f| f.as_ref().ok());
         let (rho_water, rho_hc, density_source) = match (c.rho_water_gcc, c.rho_hc_gcc, fitted) {
@@ -582,22 +673,24 @@ fn compartments(
                 "pressure gradients",
             ),
             _ => {
-                return Err(err(
-                    "no fluid densities: set rho-water-gcc and rho-hc-gcc, or give pressure points for both legs".into(),
-                ));
+                return Err(SatHeightError::NoDensities { compartment: name });
             }
         };
         if !(rho_water > rho_hc && rho_hc > 0.0) {
-            return Err(err(format!(
-                "water density {rho_water:.3} g/cm3 is not above the hydrocarbon's {rho_hc:.3}"
-            )));
+            return Err(SatHeightError::Densities {
+                compartment: name,
+                rho_water,
+                rho_hc,
+            });
         }
         out.push(CompartmentFwl {
             wells: c.wells.clone(),
             fwl_tvdss,
             fwl_sigma,
             source: source.into(),
-            pressure_fit_error: fit.as_ref().and_then(|f| f.as_ref().err().cloned()),
+            pressure_fit_error: fit
+                .as_ref()
+                .and_then(|f| f.as_ref().err().map(ToString::to_string)),
             pressure_fit: fitted.cloned(),
             rho_water_gcc: rho_water,
             rho_hc_gcc: rho_hc,
@@ -885,9 +978,9 @@ pub fn write_outputs(
     out: &Path,
     export: &ModelExport<'_>,
     wells: &[(String, &WellSatHeight)],
-) -> Result<Vec<PathBuf>, Error> {
+) -> Result<Vec<PathBuf>, OutputError> {
     let dir = out.join("saturation");
-    std::fs::create_dir_all(&dir).map_err(|source| Error::Io {
+    std::fs::create_dir_all(&dir).map_err(|source| OutputError::Io {
         path: dir.clone(),
         source,
     })?;
@@ -1057,7 +1150,9 @@ mod tests {
         .unwrap();
         let tvdss_of = |well: &str, md: f64| {
             if well == "B-9" {
-                Err("B-9 has no datum elevation".to_string())
+                Err(TvdssError::UnknownWell {
+                    well: well.to_string(),
+                })
             } else {
                 Ok(md - 30.0)
             }
@@ -1086,7 +1181,10 @@ mod tests {
             left_out[2]
         );
         assert!(left_out[3].reason.contains("not both"), "{:?}", left_out[3]);
-        assert_eq!(left_out[4].reason, "B-9 has no datum elevation");
+        assert_eq!(
+            left_out[4].reason,
+            "well `B-9` is not among the field's readable LAS wells, so its MD cannot be converted to TVDSS"
+        );
     }
 
     /// Source: formulas.md §8.7 constructed check (σcosθ 26, Δρ 0.30, one

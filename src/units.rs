@@ -53,6 +53,11 @@ impl Quantity {
     }
 }
 
+/// A table's DEPTH_UNIT that is neither metres nor feet (the text as written).
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[error("DEPTH_UNIT `{0}` is neither m nor ft")]
+pub struct UnknownDepthUnit(pub String);
+
 /// The depth unit a project works in.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize, serde::Deserialize, Default)]
 pub enum DepthUnit {
@@ -75,11 +80,13 @@ impl DepthUnit {
 
     /// A table's optional DEPTH_UNIT field: blank or absent means `default`;
     /// otherwise it must be a depth unit (`Err` carries the message).
-    pub fn from_optional(text: Option<&str>, default: DepthUnit) -> Result<DepthUnit, String> {
+    pub fn from_optional(
+        text: Option<&str>,
+        default: DepthUnit,
+    ) -> Result<DepthUnit, UnknownDepthUnit> {
         match text.map(str::trim).filter(|u| !u.is_empty()) {
             None => Ok(default),
-            Some(u) => DepthUnit::from_las(u)
-                .ok_or_else(|| format!("DEPTH_UNIT `{u}` is neither m nor ft")),
+            Some(u) => DepthUnit::from_las(u).ok_or_else(|| UnknownDepthUnit(u.to_string())),
         }
     }
 

@@ -70,6 +70,25 @@ pub struct MixtureFit {
     pub samples: usize,
 }
 
+/// Why [`fit_log_fzi`] cannot fit a mixture.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum ClusterError {
+    /// Fewer than two usable values.
+    #[error(
+        "fit_log_fzi: need at least 2 finite, positive FZI values, found {usable} usable out of {supplied} supplied"
+    )]
+    TooFewValues { usable: usize, supplied: usize },
+    /// `max_k` is 0.
+    #[error("fit_log_fzi: max_k must be at least 1")]
+    NoComponents,
+    /// `min_sd_log10` is NaN, infinite or negative.
+    #[error("fit_log_fzi: min_sd_log10 must be finite and non-negative, got {0}")]
+    BadMinSd(f64),
+    /// No k gave a fit (cannot happen: k = 1 always fits).
+    #[error("fit_log_fzi: no mixture fitted")]
+    NoFit,
+}
+
 /// Fit Gaussian mixtures with 1..=max_k components to log10 of the given FZI
 /// values (µm) by EM (Dempster, Laird & Rubin 1977) and keep the k with the
 /// lowest BIC (Schwarz 1978): `BIC = -2 lnL + p ln n`, `p = 3k - 1`
@@ -97,7 +116,7 @@ pub fn fit_log_fzi(
     max_k: usize,
     min_per_component: usize,
     min_sd_log10: f64,
-) -> Result<MixtureFit, String> {
+) -> Result<MixtureFit, ClusterError> {
     // log10 of a finite, strictly positive f64 is always finite.
     let mut x: Vec<f64> = fzi_um
         .iter()
@@ -107,18 +126,16 @@ pub fn fit_log_fzi(
         .collect();
     let n = x.len();
     if n < 2 {
-        return Err(format!(
-            "fit_log_fzi: need at least 2 finite, positive FZI values, found {n} usable out of {} supplied",
-            fzi_um.len()
-        ));
+        return Err(ClusterError::TooFewValues {
+            usable: n,
+            supplied: fzi_um.len(),
+        });
     }
     if max_k == 0 {
-        return Err("fit_log_fzi: max_k must be at least 1".to_string());
+        return Err(ClusterError::NoComponents);
     }
     if !(min_sd_log10.is_finite() && min_sd_log10 >= 0.0) {
-        return Err(format!(
-            "fit_log_fzi: min_sd_log10 must be finite and non-negative, got {min_sd_log10}"
-        ));
+        return Err(ClusterError::BadMinSd(min_sd_log10));
     }
     let sd_floor = min_sd_log10.max(HARD_MIN_SD_LOG10);
 
@@ -149,7 +166,7 @@ pub fn fit_log_fzi(
         }
     }
     // `best` is always set because k = 1 is always fitted.
-    let (bic, mut components, log_likelihood) = best.ok_or("fit_log_fzi: no mixture fitted")?;
+    let (bic, mut components, log_likelihood) = best.ok_or(ClusterError::NoFit)?;
     components.sort_by(|a, b| a.mean_log10.total_cmp(&b.mean_log10));
     let boundaries_um = components
         .windows(2)
@@ -565,7 +582,14 @@ mod tests {
         assert!(fit_log_fzi(&[1.0], 4, 1, 0.02).is_err());
         let only_one_good = [f64::NAN, 0.0, -1.0, f64::INFINITY, f64::NEG_INFINITY, 1.0];
         let err = fit_log_fzi(&only_one_good, 4, 1, 0.02).unwrap_err();
-        assert!(err.contains("at least 2"), "{err}");
+        assert_eq!(
+            err,
+            ClusterError::TooFewValues {
+                usable: 1,
+                supplied: 6
+            }
+        );
+        assert!(err.to_string().contains("at least 2"), "{err}");
 
         let mixed = [f64::NAN, 0.0, -1.0, 1.0, f64::INFINITY, 2.0, -0.0, 3.0];
         let fit = fit_log_fzi(&mixed, 4, 1, 0.02).unwrap();
@@ -574,9 +598,15 @@ mod tests {
         assert!((w - 1.0).abs() < 1e-12);
 
         // Parameter problems are errors, not panics.
-        assert!(fit_log_fzi(&[1.0, 2.0], 0, 1, 0.02).is_err());
+        assert_eq!(
+            fit_log_fzi(&[1.0, 2.0], 0, 1, 0.02).unwrap_err(),
+            ClusterError::NoComponents
+        );
         assert!(fit_log_fzi(&[1.0, 2.0], 3, 1, f64::NAN).is_err());
-        assert!(fit_log_fzi(&[1.0, 2.0], 3, 1, -0.1).is_err());
+        assert_eq!(
+            fit_log_fzi(&[1.0, 2.0], 3, 1, -0.1).unwrap_err(),
+            ClusterError::BadMinSd(-0.1)
+        );
         assert!(fit_log_fzi(&[1.0, 2.0], 3, 1, f64::INFINITY).is_err());
         // min_per_component = 0 and larger than n are tolerated: k = 1 still fitted.
         assert!(fit_log_fzi(&[1.0, 2.0, 3.0], 3, 0, 0.0).is_ok());

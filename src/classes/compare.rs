@@ -38,6 +38,19 @@ pub struct SchemeComparison {
     pub wells: Vec<String>,
 }
 
+/// A configured scheme that cannot be built, on all the core or on the core
+/// without one well (a leave-one-well-out fold).
+#[derive(Debug, thiserror::Error)]
+#[error("[classes.scheme.{scheme}]{}", .without.as_ref().map(|w| format!(" without {w}")).unwrap_or_default())]
+pub struct SchemeBuildError {
+    /// The scheme's name under `[classes.scheme]`.
+    pub scheme: String,
+    /// The well left out, in a fold.
+    pub without: Option<String>,
+    #[source]
+    pub source: classes::SchemeError,
+}
+
 fn rms(v: &[f64]) -> Option<f64> {
     (!v.is_empty()).then(|| (v.iter().map(|x| x * x).sum::<f64>() / v.len() as f64).sqrt())
 }
@@ -46,15 +59,18 @@ fn rms(v: &[f64]) -> Option<f64> {
 pub fn compare(
     classes_cfg: &ClassesConfig,
     core: &[CoreSample],
-) -> Result<Vec<SchemeComparison>, String> {
+) -> Result<Vec<SchemeComparison>, SchemeBuildError> {
     let phi_k: Vec<(f64, f64)> = core.iter().map(|s| (s.porosity, s.perm_md)).collect();
     let mut wells: Vec<String> = core.iter().map(|s| s.well.clone()).collect();
     wells.sort();
     wells.dedup();
     let mut out = Vec::new();
     for (name, spec) in &classes_cfg.scheme {
-        let scheme =
-            classes::build(spec, &phi_k).map_err(|m| format!("[classes.scheme.{name}]: {m}"))?;
+        let scheme = classes::build(spec, &phi_k).map_err(|source| SchemeBuildError {
+            scheme: name.clone(),
+            without: None,
+            source,
+        })?;
         let classed: Vec<(u8, f64, f64)> = phi_k
             .iter()
             .filter_map(|&(p, k)| scheme.classify(p, k).map(|c| (c, p, k)))
@@ -80,8 +96,12 @@ pub fn compare(
                     .filter(|s| &s.well != w)
                     .map(|s| (s.porosity, s.perm_md))
                     .collect();
-                let fold_scheme = classes::build(spec, &train)
-                    .map_err(|m| format!("[classes.scheme.{name}] without {w}: {m}"))?;
+                let fold_scheme =
+                    classes::build(spec, &train).map_err(|source| SchemeBuildError {
+                        scheme: name.clone(),
+                        without: Some(w.clone()),
+                        source,
+                    })?;
                 let fold_classed: Vec<(u8, f64, f64)> = train
                     .iter()
                     .filter_map(|&(p, k)| fold_scheme.classify(p, k).map(|c| (c, p, k)))

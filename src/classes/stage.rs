@@ -28,8 +28,9 @@ use crate::config::{PermMethod, PredictorConfig};
 use crate::error::{Error, chain};
 use crate::input::core_samples::{Rejected, ShiftSuggestion};
 use crate::output::schema::{Col, FLAG_LOW_CLASS_PROBABILITY, flag_description};
-use crate::output::{OutColumn, OutputError, Table, write_atomic};
+use crate::output::{OutColumn, OutputError, Table, write_atomic, write_json};
 use crate::well::{self, RunContext};
+use std::io::Write as _;
 
 /// What the class stage needs from a run.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -102,22 +103,6 @@ pub struct ClassCounts {
     pub features: Vec<Feature>,
 }
 
-fn write_json<T: Serialize>(path: &Path, value: &T) -> Result<(), Error> {
-    write_atomic(path, |w| {
-        serde_json::to_writer_pretty(&mut *w, value).map_err(|e| OutputError::Io {
-            path: path.to_path_buf(),
-            source: std::io::Error::other(e),
-        })?;
-        w.write_all(b"\n").map_err(|source| OutputError::Io {
-            path: path.to_path_buf(),
-            source,
-        })
-    })?;
-    Ok(())
-}
-
-use std::io::Write as _;
-
 /// Run the class stage before the wells: core, schemes, model.
 pub fn prepare(
     ctx: &RunContext,
@@ -146,10 +131,7 @@ pub fn prepare(
     let loaded = match (&predictor_cfg.model, mode, wants_model) {
         (Some(p), Mode::Run, true) => {
             let path = config.resolve_path(p);
-            Some((
-                ClassModel::load(&path).map_err(|e| Error::Usage(chain(&e)))?,
-                path,
-            ))
+            Some((ClassModel::load(&path)?, path))
         }
         _ => None,
     };
@@ -176,7 +158,7 @@ pub fn prepare(
         });
     };
 
-    let data = core_match::load(config, core_cfg).map_err(|e| Error::Usage(chain(&e)))?;
+    let data = core_match::load(config, core_cfg)?;
     summary.core_file = Some(data.file.display().to_string());
     let core_wells: Vec<String> = data
         .samples
@@ -192,7 +174,7 @@ pub fn prepare(
             data.samples.len()
         );
     }
-    let pass: Vec<(String, String, Result<Option<Table>, String>)> = files
+    let pass: Vec<(String, String, Result<Option<Table>, well::WellError>)> = files
         .par_iter()
         .map(|f| {
             let stem = well::stem_of(f);
@@ -203,7 +185,7 @@ pub fn prepare(
                         .any(|w| w.eq_ignore_ascii_case(&o.name) || w.eq_ignore_ascii_case(&stem));
                     (o.name, stem, Ok(cored.then_some(o.table)))
                 }
-                Err(e) => (stem.clone(), stem, Err(chain(&e))),
+                Err(e) => (stem.clone(), stem, Err(e)),
             }
         })
         .collect();
@@ -224,7 +206,7 @@ pub fn prepare(
             }
             Ok(None) => {}
             Err(e) => {
-                failed.insert(name, e);
+                failed.insert(name, chain(&e));
             }
         }
     }
@@ -235,8 +217,13 @@ pub fn prepare(
     let mut schemes: Vec<(String, Box<dyn ClassScheme>)> = Vec::new();
     if let Some(cl) = &config.classes {
         for (name, spec) in &cl.scheme {
-            let s = classes::build(spec, &phi_k)
-                .map_err(|m| Error::Usage(format!("[classes.scheme.{name}]: {m}")))?;
+            let s = classes::build(spec, &phi_k).map_err(|source| {
+                crate::classes::compare::SchemeBuildError {
+                    scheme: name.clone(),
+                    without: None,
+                    source,
+                }
+            })?;
             summary.schemes.push(classes::info(name, s.as_ref()));
             schemes.push((name.clone(), s));
         }
@@ -384,6 +371,26 @@ pub fn prepare(
     })
 }
 
+/// Why the class stage cannot give a model.
+#[derive(Debug, thiserror::Error)]
+pub enum ClassStageError {
+    /// A saved model was trained for another scheme than the config's.
+    #[error(
+        "model `{}` was trained for scheme {trained_for}, but the config's [classes] gives {config_gives}: train it again with `flowzone train`",
+        .model.display()
+    )]
+    SchemeMismatch {
+        model: PathBuf,
+        trained_for: String,
+        config_gives: String,
+    },
+    /// No core sample has log features at its depth.
+    #[error(
+        "no core sample could be paired with log features (see core/core-report.json: training_excluded)"
+    )]
+    NoTrainingSamples,
+}
+
 /// A loaded model must have been trained for the scheme the config uses.
 fn check_scheme(model: &SchemeInfo, config: &SchemeInfo, path: &Path) -> Result<(), Error> {
     let same_bounds = model.boundaries.len() == config.boundaries.len()
@@ -393,12 +400,12 @@ fn check_scheme(model: &SchemeInfo, config: &SchemeInfo, path: &Path) -> Result<
             .zip(&config.boundaries)
             .all(|(a, b)| (a - b).abs() <= 1e-9 * b.abs().max(1.0));
     if model.name != config.name || model.kind != config.kind || !same_bounds {
-        return Err(Error::Usage(format!(
-            "model `{}` was trained for scheme {}, but the config's [classes] gives {}: train it again with `flowzone train`",
-            path.display(),
-            model.describe(),
-            config.describe()
-        )));
+        return Err(ClassStageError::SchemeMismatch {
+            model: path.to_path_buf(),
+            trained_for: model.describe(),
+            config_gives: config.describe(),
+        }
+        .into());
     }
     Ok(())
 }
@@ -413,9 +420,7 @@ pub fn train(
     perm: Vec<perm::ClassPerm>,
 ) -> Result<ClassModel, Error> {
     if set.rows() == 0 {
-        return Err(Error::Usage(
-            "no core sample could be paired with log features (see core/core-report.json: training_excluded)".into(),
-        ));
+        return Err(ClassStageError::NoTrainingSamples.into());
     }
     let params = ForestParams {
         trees: cfg.trees,
@@ -425,10 +430,9 @@ pub fn train(
     };
     let nf = set.features.len();
     let start = Instant::now();
-    let forest = Forest::fit(&set.x, nf, &set.y, &params).map_err(|e| Error::Usage(chain(&e)))?;
+    let forest = Forest::fit(&set.x, nf, &set.y, &params)?;
     let fit_seconds = start.elapsed().as_secs_f64();
-    let validation = predictor::leave_one_well_out(set, &params, scheme.class_count)
-        .map_err(|e| Error::Usage(chain(&e)))?;
+    let validation = predictor::leave_one_well_out(set, &params, scheme.class_count)?;
     let samples_per_class = (1..=scheme.class_count)
         .filter_map(|c| {
             let c = u8::try_from(c).ok()?;

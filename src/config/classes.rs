@@ -253,7 +253,7 @@ pub fn validate(
         }
         for (name, spec) in &cl.scheme {
             let key = format!("classes.scheme.{name}");
-            spec.check().map_err(|m| (key, m))?;
+            spec.check().map_err(|e| (key, e.to_string()))?;
         }
     }
     if let Some(p) = predictor {
@@ -309,8 +309,34 @@ pub fn validate(
     Ok(())
 }
 
+/// A `[classes.scheme.NAME]` whose values cannot make a scheme.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SchemeSpecError {
+    /// Bounds empty, not positive, not ascending or too many.
+    #[error("bounds must be positive and ascending (1 to 249 of them)")]
+    Bounds,
+    /// A geometric ladder's start, ratio or count out of range.
+    #[error("start {start} must be above 0, ratio {ratio} above 1 and count {count} in 1-249")]
+    Series {
+        start: f64,
+        ratio: f64,
+        count: usize,
+    },
+    /// Neither bounds nor a full geometric series.
+    #[error("give either bounds, or start, ratio and count")]
+    Ladder,
+    /// Cluster limits out of range.
+    #[error(
+        "max-classes {max_classes} must be 1-20 and min-samples-per-class {min_samples_per_class} at least 2"
+    )]
+    Clusters {
+        max_classes: usize,
+        min_samples_per_class: usize,
+    },
+}
+
 impl SchemeSpec {
-    fn check(&self) -> Result<(), String> {
+    fn check(&self) -> Result<(), SchemeSpecError> {
         let ascending_positive = |b: &[f64]| {
             !b.is_empty()
                 && b.iter().all(|v| v.is_finite() && *v > 0.0)
@@ -327,7 +353,7 @@ impl SchemeSpec {
                     if ascending_positive(b) && b.len() < 250 {
                         Ok(())
                     } else {
-                        Err("bounds must be positive and ascending (1 to 249 of them)".into())
+                        Err(SchemeSpecError::Bounds)
                     }
                 }
                 (None, Some(s), Some(r), Some(n)) => {
@@ -339,16 +365,18 @@ impl SchemeSpec {
                     {
                         Ok(())
                     } else {
-                        Err(format!(
-                            "start {s} must be above 0, ratio {r} above 1 and count {n} in 1-249"
-                        ))
+                        Err(SchemeSpecError::Series {
+                            start: *s,
+                            ratio: *r,
+                            count: *n,
+                        })
                     }
                 }
-                _ => Err("give either bounds, or start, ratio and count".into()),
+                _ => Err(SchemeSpecError::Ladder),
             },
             SchemeSpec::PortSize { bounds } => match bounds {
                 Some(b) if !(ascending_positive(b) && b.len() < 250) => {
-                    Err("bounds must be positive and ascending (1 to 249 of them)".into())
+                    Err(SchemeSpecError::Bounds)
                 }
                 _ => Ok(()),
             },
@@ -359,9 +387,10 @@ impl SchemeSpec {
                 if (1..=20).contains(max_classes) && *min_samples_per_class >= 2 {
                     Ok(())
                 } else {
-                    Err(format!(
-                        "max-classes {max_classes} must be 1-20 and min-samples-per-class {min_samples_per_class} at least 2"
-                    ))
+                    Err(SchemeSpecError::Clusters {
+                        max_classes: *max_classes,
+                        min_samples_per_class: *min_samples_per_class,
+                    })
                 }
             }
         }

@@ -4,23 +4,10 @@
 
 use std::path::Path;
 
-use serde::Serialize;
-
 use crate::config::Config;
 use crate::error::Error;
 use crate::output;
 use crate::pipeline::WellReport;
-
-/// Write `value` as pretty JSON through a temporary file.
-pub(crate) fn write_json<T: Serialize>(path: &Path, value: &T) -> Result<(), Error> {
-    output::write_atomic(path, |w| {
-        serde_json::to_writer_pretty(&mut *w, value).map_err(|e| output::OutputError::Io {
-            path: path.to_path_buf(),
-            source: std::io::Error::other(e),
-        })
-    })?;
-    Ok(())
-}
 
 /// The field-level saturation-height outputs: marks wells whose residuals
 /// depart from their neighbours' (a warning on each), writes saturation/.

@@ -5,11 +5,12 @@
 use std::path::{Path, PathBuf};
 
 use crate::config::Config;
-use crate::error::{Error, chain};
+use crate::error::Error;
 use crate::field::safety::{check_inputs_outside, check_out_dir};
 use crate::output::file_stem;
 use crate::output::schema::Col;
 use crate::pipeline::Models;
+use crate::sat_height::TvdssError;
 use crate::well;
 
 /// What every well of a run shares, made once before the wells: the files
@@ -66,7 +67,7 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
     );
     every_input.push(config.source.clone());
     check_inputs_outside(out, &every_input)?;
-    let ctx = well::RunContext::new(config.clone()).map_err(|e| Error::Usage(chain(&e)))?;
+    let ctx = well::RunContext::new(config.clone())?;
     let prepared = if config.core.is_some() || config.classes.is_some() {
         Some(crate::classes::stage::prepare(
             &ctx,
@@ -120,7 +121,7 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
 }
 
 /// A well's (MD, TVDSS) columns, or why there are none.
-type DepthColumns = Result<(Vec<f64>, Vec<f64>), String>;
+type DepthColumns = Result<(Vec<f64>, Vec<f64>), TvdssError>;
 
 /// Measured depth to TVDSS in a named well, through the well's own depth
 /// reference (elevation, survey); each well is processed once, when a
@@ -155,19 +156,20 @@ impl DepthLookup<'_> {
                 return Ok((md, tvdss));
             }
         }
-        Err(format!(
-            "well `{well}` is not among the field's readable LAS wells, so its MD cannot be converted to TVDSS"
-        ))
+        Err(TvdssError::UnknownWell {
+            well: well.to_string(),
+        })
     }
 
-    fn tvdss(&self, well: &str, md: f64) -> Result<f64, String> {
+    fn tvdss(&self, well: &str, md: f64) -> Result<f64, TvdssError> {
         let mut cache = self.cache.lock().unwrap_or_else(|e| e.into_inner());
         let entry = cache
             .entry(well.to_ascii_lowercase())
             .or_insert_with(|| self.columns(well));
         let (mds, tvdss) = entry.as_ref().map_err(Clone::clone)?;
-        crate::stats::interpolate(mds, tvdss, md).ok_or_else(|| {
-            format!("{well}: MD {md} is outside the logged depths or the well has no TVDSS (no datum elevation)")
+        crate::stats::interpolate(mds, tvdss, md).ok_or_else(|| TvdssError::OutsideLog {
+            well: well.to_string(),
+            md,
         })
     }
 }

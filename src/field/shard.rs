@@ -42,24 +42,52 @@ pub struct ShardSpec {
     pub n: usize,
 }
 
-impl FromStr for ShardSpec {
-    type Err = String;
+/// A `--shard` value that is not K/N with 1 <= K <= N <= [`MAX_SHARDS`].
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub enum ShardSpecError {
+    /// No `/`.
+    #[error("`{0}` is not K/N (e.g. 3/8: the third of eight shards)")]
+    NotKOverN(String),
+    /// K or N is not a whole number.
+    #[error("`{spec}`: {what} `{text}` is not a whole number")]
+    NotANumber {
+        spec: String,
+        what: &'static str,
+        text: String,
+    },
+    /// N is 0 or above [`MAX_SHARDS`].
+    #[error("`{0}`: N must be 1 to {MAX_SHARDS}")]
+    BadN(String),
+    /// K is 0 or above N.
+    #[error("`{spec}`: K must be 1 to N ({n})")]
+    BadK { spec: String, n: usize },
+}
 
-    fn from_str(s: &str) -> Result<ShardSpec, String> {
+impl FromStr for ShardSpec {
+    type Err = ShardSpecError;
+
+    fn from_str(s: &str) -> Result<ShardSpec, ShardSpecError> {
         let (k, n) = s
             .split_once('/')
-            .ok_or_else(|| format!("`{s}` is not K/N (e.g. 3/8: the third of eight shards)"))?;
-        let num = |t: &str, what: &str| {
+            .ok_or_else(|| ShardSpecError::NotKOverN(s.to_string()))?;
+        let num = |t: &str, what: &'static str| {
             t.trim()
                 .parse::<usize>()
-                .map_err(|_| format!("`{s}`: {what} `{t}` is not a whole number"))
+                .map_err(|_| ShardSpecError::NotANumber {
+                    spec: s.to_string(),
+                    what,
+                    text: t.to_string(),
+                })
         };
         let (k, n) = (num(k, "K")?, num(n, "N")?);
         if n == 0 || n > MAX_SHARDS {
-            return Err(format!("`{s}`: N must be 1 to {MAX_SHARDS}"));
+            return Err(ShardSpecError::BadN(s.to_string()));
         }
         if k == 0 || k > n {
-            return Err(format!("`{s}`: K must be 1 to N ({n})"));
+            return Err(ShardSpecError::BadK {
+                spec: s.to_string(),
+                n,
+            });
         }
         Ok(ShardSpec { k, n })
     }

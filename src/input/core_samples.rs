@@ -91,18 +91,31 @@ struct CoreRow {
     sample_type: Option<String>,
 }
 
+/// Why a core sample is left out (the reason recorded by line).
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+enum SampleProblem {
+    #[error("permeability {0} mD is not a finite number")]
+    PermNotFinite(f64),
+    #[error("permeability {0} mD is not above 0")]
+    PermNotPositive(f64),
+    #[error("porosity {0} is outside 0-{MAX_CORE_POROSITY}")]
+    Porosity(f64),
+    #[error("depth {0} is not a finite number")]
+    Depth(f64),
+    #[error("grain density {0} g/cm3 is not a finite number")]
+    GrainDensity(f64),
+}
+
 /// Check one sample; `Err` is the reason it is left out.
-fn check(porosity: f64, perm: f64) -> Result<(), String> {
+fn check(porosity: f64, perm: f64) -> Result<(), SampleProblem> {
     if !perm.is_finite() {
-        return Err(format!("permeability {perm} mD is not a finite number"));
+        return Err(SampleProblem::PermNotFinite(perm));
     }
     if perm <= 0.0 {
-        return Err(format!("permeability {perm} mD is not above 0"));
+        return Err(SampleProblem::PermNotPositive(perm));
     }
     if !(porosity.is_finite() && (0.0..=MAX_CORE_POROSITY).contains(&porosity)) {
-        return Err(format!(
-            "porosity {porosity} is outside 0-{MAX_CORE_POROSITY}"
-        ));
+        return Err(SampleProblem::Porosity(porosity));
     }
     Ok(())
 }
@@ -110,22 +123,20 @@ fn check(porosity: f64, perm: f64) -> Result<(), String> {
 /// A sample's depth in the project's unit: a finite number, or the reason to
 /// leave it out (`nan` and `inf` parse as numbers, and 1e308 m overflows in
 /// feet; no log depth matches any of them).
-fn finite_depth(d: f64) -> Result<f64, String> {
+fn finite_depth(d: f64) -> Result<f64, SampleProblem> {
     if d.is_finite() {
         Ok(d)
     } else {
-        Err(format!("depth {d} is not a finite number"))
+        Err(SampleProblem::Depth(d))
     }
 }
 
 /// Grain density as read: NaN is missing (as `nan` is in LAS data), an
 /// infinity is refused.
-fn grain_density(g: Option<f64>) -> Result<Option<f64>, String> {
+fn grain_density(g: Option<f64>) -> Result<Option<f64>, SampleProblem> {
     match g {
         Some(g) if g.is_nan() => Ok(None),
-        Some(g) if g.is_infinite() => {
-            Err(format!("grain density {g} g/cm3 is not a finite number"))
-        }
+        Some(g) if g.is_infinite() => Err(SampleProblem::GrainDensity(g)),
         g => Ok(g),
     }
 }
@@ -174,8 +185,11 @@ pub fn read_core_csv(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreErro
         };
         let unit = match DepthUnit::from_optional(r.depth_unit.as_deref(), depth) {
             Ok(u) => u,
-            Err(reason) => {
-                rejected.push(Rejected { line, reason });
+            Err(e) => {
+                rejected.push(Rejected {
+                    line,
+                    reason: e.to_string(),
+                });
                 continue;
             }
         };
@@ -184,8 +198,11 @@ pub fn read_core_csv(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreErro
             .and_then(|d| Ok((d, grain_density(r.grain_density)?)));
         let (d, grain) = match checked {
             Ok(v) => v,
-            Err(reason) => {
-                rejected.push(Rejected { line, reason });
+            Err(e) => {
+                rejected.push(Rejected {
+                    line,
+                    reason: e.to_string(),
+                });
                 continue;
             }
         };
@@ -370,10 +387,10 @@ pub fn read_spwla(
                 };
                 let grain = match check(porosity, k).and_then(|()| grain_density(get(gd_i))) {
                     Ok(g) => g,
-                    Err(reason) => {
+                    Err(e) => {
                         rejected.push(Rejected {
                             line: line_no,
-                            reason,
+                            reason: e.to_string(),
                         });
                         continue;
                     }

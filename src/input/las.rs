@@ -1,4 +1,4 @@
-//! Reads and writes LAS 2.0 well-log files, and reads LAS 1.2.
+//! Reads LAS 2.0 well-log files, and LAS 1.2 (the writer is [`crate::output::las`]).
 //!
 //! Follows CWLS, *LAS Version 2.0: A Digital Standard for Logs* (January 2014
 //! update), with the 1992 original for LAS 1.2 habits. A file is made of

@@ -67,15 +67,7 @@ pub struct CorePoint {
     pub class: Option<u8>,
 }
 
-/// A log depth on the Pickett plot.
-#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize, serde::Deserialize)]
-pub struct PickettPoint {
-    /// Effective porosity, v/v.
-    pub phi: f64,
-    /// Deep resistivity, ohm.m.
-    pub rt: f64,
-    pub class: u8,
-}
+pub use crate::pipeline::PickettPoint;
 
 /// The Archie parameters of one class, with the Rw the lines are drawn for.
 #[derive(Debug, Clone, Copy, PartialEq)]

@@ -32,27 +32,42 @@ fn fonts() -> Arc<usvg::fontdb::Database> {
     .clone()
 }
 
+/// Why a plot cannot be rasterised.
+#[derive(Debug, thiserror::Error)]
+pub enum PngError {
+    /// The SVG text does not parse.
+    #[error("SVG not readable: {0}")]
+    Svg(#[from] usvg::Error),
+    /// The plot is larger than [`MAX_SIDE_PX`] on a side.
+    #[error("plot of {width} x {height} px is above the {MAX_SIDE_PX} px PNG limit")]
+    TooLarge { width: u32, height: u32 },
+    /// The plot has no area.
+    #[error("empty plot")]
+    Empty,
+    /// The PNG encoder failed.
+    #[error("PNG encoding failed: {0}")]
+    Encode(String),
+}
+
 /// Rasterise an SVG document to PNG bytes at its own size (1 px per unit).
-pub fn svg_to_png(svg: &str) -> Result<Vec<u8>, String> {
+pub fn svg_to_png(svg: &str) -> Result<Vec<u8>, PngError> {
     let opt = usvg::Options {
         fontdb: fonts(),
         ..usvg::Options::default()
     };
-    let tree = usvg::Tree::from_str(svg, &opt).map_err(|e| format!("SVG not readable: {e}"))?;
+    let tree = usvg::Tree::from_str(svg, &opt)?;
     let size = tree.size().to_int_size();
     if size.width() > MAX_SIDE_PX || size.height() > MAX_SIDE_PX {
-        return Err(format!(
-            "plot of {} x {} px is above the {MAX_SIDE_PX} px PNG limit",
-            size.width(),
-            size.height()
-        ));
+        return Err(PngError::TooLarge {
+            width: size.width(),
+            height: size.height(),
+        });
     }
-    let mut pixmap = tiny_skia::Pixmap::new(size.width(), size.height())
-        .ok_or_else(|| "empty plot".to_string())?;
+    let mut pixmap = tiny_skia::Pixmap::new(size.width(), size.height()).ok_or(PngError::Empty)?;
     resvg::render(&tree, tiny_skia::Transform::default(), &mut pixmap.as_mut());
     pixmap
         .encode_png()
-        .map_err(|e| format!("PNG encoding failed: {e}"))
+        .map_err(|e| PngError::Encode(e.to_string()))
 }
 
 #[cfg(test)]
@@ -88,6 +103,8 @@ mod tests {
     fn refuses_bad_and_huge_documents() {
         assert!(svg_to_png("not svg").is_err());
         let huge = Svg::new(10.0, 9000.0).finish();
-        assert!(svg_to_png(&huge).expect_err("too tall").contains("limit"));
+        let e = svg_to_png(&huge).expect_err("too tall");
+        assert!(matches!(e, PngError::TooLarge { .. }), "{e}");
+        assert!(e.to_string().contains("limit"), "{e}");
     }
 }

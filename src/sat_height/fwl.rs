@@ -86,32 +86,87 @@ pub struct FwlFit {
 /// oil-water contrasts are 0.1-0.5 g/cm3 and gas-water larger).
 pub const MIN_DENSITY_CONTRAST_GCC: f64 = 0.02;
 
-fn intersect(upper: Line, lower: Line, split: usize) -> Result<FwlFit, String> {
+/// Why no free water level comes out of a set of pressure points.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum FwlError {
+    /// The legs' densities differ by less than [`MIN_DENSITY_CONTRAST_GCC`].
+    #[error(
+        "the two legs are parallel: gradients {upper_psi_per_m:.4} and {lower_psi_per_m:.4} psi/m ({upper_gcc:.3} and {lower_gcc:.3} g/cm3) differ by less than {MIN_DENSITY_CONTRAST_GCC} g/cm3, so the points show one fluid and no free water level"
+    )]
+    Parallel {
+        upper_psi_per_m: f64,
+        lower_psi_per_m: f64,
+        upper_gcc: f64,
+        lower_gcc: f64,
+    },
+    /// The upper leg is the denser fluid.
+    #[error(
+        "the upper leg's gradient ({upper_psi_per_m:.4} psi/m, {upper_gcc:.3} g/cm3) is not lighter than the lower leg's ({lower_psi_per_m:.4} psi/m, {lower_gcc:.3} g/cm3): a denser fluid cannot sit above a lighter one"
+    )]
+    Inverted {
+        upper_psi_per_m: f64,
+        lower_psi_per_m: f64,
+        upper_gcc: f64,
+        lower_gcc: f64,
+    },
+    /// The crossing overflows.
+    #[error(
+        "the legs cross at no finite depth and pressure (TVDSS {tvdss_m} m, {psi} psi): check the points' units"
+    )]
+    NoCrossing { tvdss_m: f64, psi: f64 },
+    /// A point's depth or pressure is NaN or infinite.
+    #[error("pressure point ({tvdss_m}, {psi}) is not a number")]
+    NotANumber { tvdss_m: f64, psi: f64 },
+    /// Fewer points than two legs need.
+    #[error("{count} pressure points: two legs need at least {need}")]
+    TooFewPoints { count: usize, need: usize },
+    /// Fewer usable points (after exclusions) than two legs need.
+    #[error("{count} usable pressure points: two legs need at least {need}")]
+    TooFewUsable { count: usize, need: usize },
+    /// No automatic split gives two fitted lines.
+    #[error(
+        "no split gives two legs with a depth spread (or the values are too large to fit: check the points' units)"
+    )]
+    NoSplit,
+    /// The user's split leaves a leg that cannot be fitted.
+    #[error(
+        "fewer than two points {side} the split (or no depth spread, or values too large to fit)"
+    )]
+    BadLeg { side: &'static str },
+}
+
+fn intersect(upper: Line, lower: Line, split: usize) -> Result<FwlFit, FwlError> {
     let dg = upper.gradient_psi_per_m - lower.gradient_psi_per_m;
+    let legs = |parallel: bool| {
+        let (upper_psi_per_m, lower_psi_per_m) =
+            (upper.gradient_psi_per_m, lower.gradient_psi_per_m);
+        let (upper_gcc, lower_gcc) = (upper.density_gcc(), lower.density_gcc());
+        if parallel {
+            FwlError::Parallel {
+                upper_psi_per_m,
+                lower_psi_per_m,
+                upper_gcc,
+                lower_gcc,
+            }
+        } else {
+            FwlError::Inverted {
+                upper_psi_per_m,
+                lower_psi_per_m,
+                upper_gcc,
+                lower_gcc,
+            }
+        }
+    };
     if dg.abs() / PSI_PER_M_PER_GCC < MIN_DENSITY_CONTRAST_GCC {
-        return Err(format!(
-            "the two legs are parallel: gradients {:.4} and {:.4} psi/m ({:.3} and {:.3} g/cm3) differ by less than {MIN_DENSITY_CONTRAST_GCC} g/cm3, so the points show one fluid and no free water level",
-            upper.gradient_psi_per_m,
-            lower.gradient_psi_per_m,
-            upper.density_gcc(),
-            lower.density_gcc()
-        ));
+        return Err(legs(true));
     }
     if dg >= 0.0 {
-        return Err(format!(
-            "the upper leg's gradient ({:.4} psi/m, {:.3} g/cm3) is not lighter than the lower leg's ({:.4} psi/m, {:.3} g/cm3): a denser fluid cannot sit above a lighter one",
-            upper.gradient_psi_per_m,
-            upper.density_gcc(),
-            lower.gradient_psi_per_m,
-            lower.density_gcc()
-        ));
+        return Err(legs(false));
     }
     let d = (lower.intercept_psi - upper.intercept_psi) / dg;
     let p = upper.pressure_at(d);
     if !(d.is_finite() && p.is_finite()) {
-        return Err(format!(
-            "the legs cross at no finite depth and pressure (TVDSS {d} m, {p} psi): check the points' units"
-        ));
+        return Err(FwlError::NoCrossing { tvdss_m: d, psi: p });
     }
     // D = (b_l − b_u)/(g_u − g_l): partial derivatives for error propagation
     let dd_dbl = 1.0 / dg;
@@ -135,12 +190,12 @@ fn intersect(upper: Line, lower: Line, split: usize) -> Result<FwlFit, String> {
     })
 }
 
-fn sorted(points: &[(f64, f64)]) -> Result<Vec<(f64, f64)>, String> {
-    if let Some(p) = points
+fn sorted(points: &[(f64, f64)]) -> Result<Vec<(f64, f64)>, FwlError> {
+    if let Some(&(tvdss_m, psi)) = points
         .iter()
         .find(|(d, p)| !d.is_finite() || !p.is_finite())
     {
-        return Err(format!("pressure point ({}, {}) is not a number", p.0, p.1));
+        return Err(FwlError::NotANumber { tvdss_m, psi });
     }
     let mut v = points.to_vec();
     v.sort_by(|a, b| a.0.total_cmp(&b.0));
@@ -149,15 +204,14 @@ fn sorted(points: &[(f64, f64)]) -> Result<Vec<(f64, f64)>, String> {
 
 /// The split found automatically: every split with at least `min_leg` (≥ 2)
 /// points per leg is tried and the least total squared residual wins.
-pub fn fit_fwl_auto(points: &[(f64, f64)], min_leg: usize) -> Result<FwlFit, String> {
+pub fn fit_fwl_auto(points: &[(f64, f64)], min_leg: usize) -> Result<FwlFit, FwlError> {
     let min_leg = min_leg.max(2);
     let v = sorted(points)?;
     if v.len() < 2 * min_leg {
-        return Err(format!(
-            "{} pressure points: two legs need at least {}",
-            v.len(),
-            2 * min_leg
-        ));
+        return Err(FwlError::TooFewPoints {
+            count: v.len(),
+            need: 2 * min_leg,
+        });
     }
     let mut best: Option<(f64, usize, Line, Line)> = None;
     for k in min_leg..=v.len() - min_leg {
@@ -169,22 +223,16 @@ pub fn fit_fwl_auto(points: &[(f64, f64)], min_leg: usize) -> Result<FwlFit, Str
             best = Some((sse, k, u, l));
         }
     }
-    let (_, k, u, l) = best.ok_or(
-        "no split gives two legs with a depth spread (or the values are too large to fit: check the points' units)",
-    )?;
+    let (_, k, u, l) = best.ok_or(FwlError::NoSplit)?;
     intersect(u, l, k)
 }
 
 /// The split given by the user: points at or above `split_tvdss_m` are the upper leg.
-pub fn fit_fwl_split_at(points: &[(f64, f64)], split_tvdss_m: f64) -> Result<FwlFit, String> {
+pub fn fit_fwl_split_at(points: &[(f64, f64)], split_tvdss_m: f64) -> Result<FwlFit, FwlError> {
     let v = sorted(points)?;
     let k = v.partition_point(|p| p.0 <= split_tvdss_m);
-    let u = fit_line(&v[..k]).ok_or(
-        "fewer than two points above the split (or no depth spread, or values too large to fit)",
-    )?;
-    let l = fit_line(&v[k..]).ok_or(
-        "fewer than two points below the split (or no depth spread, or values too large to fit)",
-    )?;
+    let u = fit_line(&v[..k]).ok_or(FwlError::BadLeg { side: "above" })?;
+    let l = fit_line(&v[k..]).ok_or(FwlError::BadLeg { side: "below" })?;
     intersect(u, l, k)
 }
 
@@ -282,14 +330,20 @@ mod tests {
             (6150.0, 2881.5),
         ]);
         let err = fit_fwl_split_at(&pts, 6000.0 * FT).expect_err("inverted");
+        assert!(matches!(err, FwlError::Inverted { .. }), "{err}");
         assert!(
-            err.contains("a denser fluid cannot sit above a lighter one"),
+            err.to_string()
+                .contains("a denser fluid cannot sit above a lighter one"),
             "{err}"
         );
-        assert!(fit_fwl_auto(&pts[..3], 2).is_err());
+        assert_eq!(
+            fit_fwl_auto(&pts[..3], 2).expect_err("3 points"),
+            FwlError::TooFewPoints { count: 3, need: 4 }
+        );
         assert!(
             fit_fwl_auto(&[(1.0, f64::NAN); 6], 2)
                 .expect_err("nan")
+                .to_string()
                 .contains("not a number")
         );
         assert!(fit_fwl_auto(&[(1000.0, 1400.0); 6], 2).is_err());
@@ -305,7 +359,11 @@ mod tests {
             })
             .collect();
         let err = fit_fwl_auto(&one, 2).expect_err("parallel");
-        assert!(err.contains("the two legs are parallel"), "{err}");
+        assert!(matches!(err, FwlError::Parallel { .. }), "{err}");
+        assert!(
+            err.to_string().contains("the two legs are parallel"),
+            "{err}"
+        );
     }
 
     /// Finite points whose sums overflow (pressures near f64::MAX, depths of
@@ -319,7 +377,8 @@ mod tests {
             .collect();
         assert!(fit_line(&huge_p[..3]).is_none());
         let err = fit_fwl_auto(&huge_p, 2).expect_err("overflow");
-        assert!(err.contains("no split gives two legs"), "{err}");
+        assert_eq!(err, FwlError::NoSplit);
+        assert!(err.to_string().contains("no split gives two legs"), "{err}");
         assert!(fit_fwl_split_at(&huge_p, 2025.0).is_err());
         // depths of 1e200 m: the depth spread overflows, so no line (it used
         // to be a flat line with a zero standard error, and "parallel legs")
@@ -328,7 +387,7 @@ mod tests {
             .collect();
         assert!(fit_line(&huge_d).is_none());
         let err = fit_fwl_auto(&huge_d, 2).expect_err("overflow");
-        assert!(err.contains("too large to fit"), "{err}");
+        assert!(err.to_string().contains("too large to fit"), "{err}");
         // two finite legs, flat at 5e307 psi over a 0.05 psi/m leg through 0
         // (contrast 0.035 g/cm3, above the least): they cross at 1e309 m
         let far = [
@@ -340,7 +399,8 @@ mod tests {
             (5.0, 0.25),
         ];
         let err = fit_fwl_split_at(&far, 2.5).expect_err("beyond f64");
-        assert!(err.contains("no finite depth"), "{err}");
+        assert!(matches!(err, FwlError::NoCrossing { .. }), "{err}");
+        assert!(err.to_string().contains("no finite depth"), "{err}");
     }
 
     /// Exact points on an oil and a water line recover the FWL over a grid of

@@ -23,11 +23,20 @@ const PC_COLUMNS: [(&str, f64); 4] = [
     ("PC_BAR", 1e5),
 ];
 
+/// A row that gives no capillary pressure column, or more than one.
+#[derive(Debug, thiserror::Error)]
+enum PcColumns {
+    #[error("no capillary pressure: give one of PC_PSI, PC_KPA, PC_MPA, PC_BAR")]
+    None,
+    #[error("capillary pressure given in {} columns ({}): give exactly one", .0.len(), .0.join(", "))]
+    Several(Vec<&'static str>),
+}
+
 impl Row {
     /// The row's capillary pressure in psi, from whichever one PC_ column it
     /// gives; `Err` naming the columns when none or several are given.
     /// Returns (psi, column, the value as written).
-    fn pc_psi(&self) -> Result<(f64, &'static str, f64), String> {
+    fn pc_psi(&self) -> Result<(f64, &'static str, f64), PcColumns> {
         let given: Vec<(&'static str, f64, f64)> = PC_COLUMNS
             .iter()
             .zip([self.pc_psi, self.pc_kpa, self.pc_mpa, self.pc_bar])
@@ -35,12 +44,8 @@ impl Row {
             .collect();
         match given.as_slice() {
             [(name, pa, v)] => Ok((v * pa / PA_PER_PSI, name, *v)),
-            [] => Err("no capillary pressure: give one of PC_PSI, PC_KPA, PC_MPA, PC_BAR".into()),
-            _ => Err(format!(
-                "capillary pressure given in {} columns ({}): give exactly one",
-                given.len(),
-                given.iter().map(|g| g.0).collect::<Vec<_>>().join(", ")
-            )),
+            [] => Err(PcColumns::None),
+            _ => Err(PcColumns::Several(given.iter().map(|g| g.0).collect())),
         }
     }
 }
@@ -143,8 +148,11 @@ pub fn read(path: &Path) -> Result<(Vec<CapSample>, Vec<Rejected>), TableError> 
                 });
                 continue;
             }
-            Err(reason) => {
-                rejected.push(Rejected { line, reason });
+            Err(e) => {
+                rejected.push(Rejected {
+                    line,
+                    reason: e.to_string(),
+                });
                 continue;
             }
         };
@@ -638,34 +646,44 @@ pub struct JFit {
     pub thomeer: Option<ThomeerJ>,
 }
 
+/// Why no J-function comes out of a class's (J, Sw) points.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum JFitError {
+    /// Fewer than [`MIN_J_POINTS`] usable points.
+    #[error("{count} usable (J, Sw) points: a J-function needs at least {MIN_J_POINTS}")]
+    TooFewPoints { count: usize },
+    /// Fewer than [`MIN_J_POINTS_BELOW_PLATEAU`] points below the plateau.
+    #[error(
+        "{count} points below the entry plateau (Sw < {PLATEAU_SW}): a J-function needs at least {MIN_J_POINTS_BELOW_PLATEAU}"
+    )]
+    TooFewBelowPlateau { count: usize },
+    /// Sw does not fall as J rises below the plateau.
+    #[error("Sw does not fall as J rises over the {count} points below the entry plateau")]
+    NotFalling { count: usize },
+    /// Neither curve form could be fitted.
+    #[error("neither Brooks-Corey nor Thomeer fits the {count} points")]
+    NoForm { count: usize },
+}
+
 /// Fit Brooks-Corey ([`fit_brooks_corey`], then polished to the least RMS as
 /// [`fit_thomeer`] is) and Thomeer ([`fit_thomeer`]) in J to (J, Sw) points,
 /// and choose the one with the smaller RMS of Sw over all points
 /// ([`J_FORM_CRITERION`]): both forms have three parameters and both are
 /// fitted to that same RMS, so neither gains from extra freedom; Brooks-Corey
-/// wins a tie. Err, with a plain message, with fewer than [`MIN_J_POINTS`]
+/// wins a tie. A [`JFitError`] with fewer than [`MIN_J_POINTS`]
 /// usable points, fewer than [`MIN_J_POINTS_BELOW_PLATEAU`] below the plateau,
 /// when Sw does not fall as J rises, or when neither form fits.
-pub fn fit_j_curve(points: &[(f64, f64)]) -> Result<JFit, String> {
+pub fn fit_j_curve(points: &[(f64, f64)]) -> Result<JFit, JFitError> {
     let pts = usable(points);
     if pts.len() < MIN_J_POINTS {
-        return Err(format!(
-            "{} usable (J, Sw) points: a J-function needs at least {MIN_J_POINTS}",
-            pts.len()
-        ));
+        return Err(JFitError::TooFewPoints { count: pts.len() });
     }
     let below: Vec<(f64, f64)> = pts.iter().copied().filter(|p| p.1 < PLATEAU_SW).collect();
     if below.len() < MIN_J_POINTS_BELOW_PLATEAU {
-        return Err(format!(
-            "{} points below the entry plateau (Sw < {PLATEAU_SW}): a J-function needs at least {MIN_J_POINTS_BELOW_PLATEAU}",
-            below.len()
-        ));
+        return Err(JFitError::TooFewBelowPlateau { count: below.len() });
     }
     if !falls_with_j(&below) {
-        return Err(format!(
-            "Sw does not fall as J rises over the {} points below the entry plateau",
-            below.len()
-        ));
+        return Err(JFitError::NotFalling { count: below.len() });
     }
     let brooks_corey = fit_brooks_corey(&pts).map(|b| polish_brooks_corey(&pts, &b));
     let thomeer = fit_thomeer(&pts);
@@ -673,12 +691,7 @@ pub fn fit_j_curve(points: &[(f64, f64)]) -> Result<JFit, String> {
         (Some(b), Some(t)) if t.rms_sw < b.rms_sw => JCurve::Thomeer(t.clone()),
         (Some(b), _) => JCurve::BrooksCorey(b.clone()),
         (None, Some(t)) => JCurve::Thomeer(t.clone()),
-        (None, None) => {
-            return Err(format!(
-                "neither Brooks-Corey nor Thomeer fits the {} points",
-                pts.len()
-            ));
-        }
+        (None, None) => return Err(JFitError::NoForm { count: pts.len() }),
     };
     Ok(JFit {
         chosen,
@@ -834,14 +847,21 @@ mod tests {
     #[test]
     fn fit_j_curve_too_few_points_is_err() {
         let e = fit_j_curve(&[(0.1, 0.8), (0.2, 0.6)]).expect_err("2 points");
-        assert!(e.starts_with("2 usable"), "{e}");
+        assert_eq!(e, JFitError::TooFewPoints { count: 2 });
+        assert!(e.to_string().starts_with("2 usable"), "{e}");
         let e = fit_j_curve(&[(0.01, 1.0), (0.02, 1.0), (0.1, 0.8), (0.2, 0.6)])
             .expect_err("2 below the plateau");
-        assert!(e.starts_with("2 points below the entry plateau"), "{e}");
+        assert_eq!(e, JFitError::TooFewBelowPlateau { count: 2 });
+        assert!(
+            e.to_string()
+                .starts_with("2 points below the entry plateau"),
+            "{e}"
+        );
         // Sw rising with J: no J-function
         let rising = [(0.1, 0.3), (0.2, 0.5), (0.4, 0.7), (0.8, 0.9)];
         let e = fit_j_curve(&rising).expect_err("rising");
-        assert!(e.starts_with("Sw does not fall"), "{e}");
+        assert_eq!(e, JFitError::NotFalling { count: 4 });
+        assert!(e.to_string().starts_with("Sw does not fall"), "{e}");
         assert_eq!(fit_thomeer(&rising), None);
     }
 

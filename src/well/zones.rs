@@ -42,14 +42,13 @@ impl Tops {
         let rows: Vec<(u64, TopRow)> = read_csv(path)?;
         let mut by_well: BTreeMap<String, Vec<(f64, String)>> = BTreeMap::new();
         for (line, r) in rows {
-            let unit =
-                DepthUnit::from_optional(r.depth_unit.as_deref(), depth).map_err(|message| {
-                    TableError::Row {
-                        path: path.to_path_buf(),
-                        line,
-                        message,
-                    }
-                })?;
+            let unit = DepthUnit::from_optional(r.depth_unit.as_deref(), depth).map_err(|e| {
+                TableError::Row {
+                    path: path.to_path_buf(),
+                    line,
+                    message: e.to_string(),
+                }
+            })?;
             if !r.top_md.is_finite() {
                 return Err(TableError::Row {
                     path: path.to_path_buf(),

@@ -126,13 +126,14 @@ pub enum ModelFileError {
 }
 
 impl ClassModel {
-    /// The file's bytes.
-    pub fn to_bytes(&self) -> Result<Vec<u8>, String> {
+    /// The file's bytes; an error only if the header or the forest cannot
+    /// be serialised (a bug, not bad input).
+    pub fn to_bytes(&self) -> Result<Vec<u8>, std::io::Error> {
         let mut out = Vec::new();
-        let _ = writeln!(out, "{MAGIC} {FORMAT_VERSION}");
-        serde_json::to_writer(&mut out, &self.header).map_err(|e| e.to_string())?;
+        writeln!(out, "{MAGIC} {FORMAT_VERSION}")?;
+        serde_json::to_writer(&mut out, &self.header)?;
         out.push(b'\n');
-        let body = postcard::to_allocvec(&self.forest).map_err(|e| e.to_string())?;
+        let body = postcard::to_allocvec(&self.forest).map_err(std::io::Error::other)?;
         out.extend_from_slice(&body);
         Ok(out)
     }
@@ -141,9 +142,9 @@ impl ClassModel {
     pub fn save(&self, path: &Path) -> Result<(), crate::output::OutputError> {
         let bytes = self
             .to_bytes()
-            .map_err(|e| crate::output::OutputError::Io {
+            .map_err(|source| crate::output::OutputError::Io {
                 path: path.to_path_buf(),
-                source: std::io::Error::other(e),
+                source,
             })?;
         crate::output::write_atomic(path, |w| {
             w.write_all(&bytes)

@@ -1,15 +1,15 @@
 //! The per-well log plot: one SVG document per well, depth increasing
 //! downward, tracks left to right:
 //!
-//! | group class     | content                                                  |
-//! |-----------------|----------------------------------------------------------|
-//! | `track-depth`   | MD labels (and TVDSS labels when the well has them)      |
-//! | `track-gr`      | GR 0-150 gAPI, VSH 0-1 v/v                               |
-//! | `track-rt`      | RT 0.2-2000 ohm.m, logarithmic, decade grid              |
-//! | `track-dn`      | RHOB 1.95-2.95 g/cm3, NPHI 0.45 to -0.15 v/v (sandstone) |
-//! | `track-phi`     | PHIT, PHIE 0.5 to 0 v/v (porosity increasing leftward)   |
-//! | `track-class`   | hydraulic class band, width = class probability          |
-//! | `track-sw`      | SW, SWH 0-1 v/v, SW_FIXED faint, saturation steps        |
+//! | group class     | content                                                             |
+//! |-----------------|---------------------------------------------------------------------|
+//! | `track-depth`   | MD labels (and TVDSS labels when the well has them)                 |
+//! | `track-gr`      | GR 0-150 gAPI, VSH 0-1 v/v                                          |
+//! | `track-rt`      | RT 0.2-2000 ohm.m, logarithmic, decade grid                         |
+//! | `track-dn`      | RHOB 1.95-2.95 g/cm3, NPHI 0.45 to -0.15 v/v (limestone-compatible) |
+//! | `track-phi`     | PHIT, PHIE 0.5 to 0 v/v (porosity increasing leftward)              |
+//! | `track-class`   | hydraulic class band, width = class probability                     |
+//! | `track-sw`      | SW, SWH 0-1 v/v, SW_FIXED faint, saturation steps                   |
 //!
 //! Across the data tracks: zone tops, the FWL (where the well's TVDSS
 //! crosses it) and flagged depths shaded grey. A legend closes the plot.
