@@ -61,6 +61,7 @@ pub fn class_of(v: f64, bounds: &[f64]) -> Option<u8> {
 /// Classes by FZI (Amaefule et al. 1993) between given boundaries.
 #[derive(Debug, Clone, PartialEq)]
 pub struct FziLadder {
+    /// FZI boundaries, µm, ascending.
     pub bounds: Vec<f64>,
 }
 
@@ -95,6 +96,7 @@ impl ClassScheme for FziLadder {
 /// as recommended in formulas.md §10). Class 1 is nanoport.
 #[derive(Debug, Clone, PartialEq)]
 pub struct PortSize {
+    /// R35 boundaries, µm, ascending.
     pub bounds: Vec<f64>,
 }
 
@@ -129,6 +131,7 @@ impl ClassScheme for PortSize {
 /// densities are equal.
 #[derive(Debug, Clone, PartialEq)]
 pub struct FziClusters {
+    /// The mixture fitted to the core; its `boundaries_um` are the class boundaries.
     pub fit: clusters::MixtureFit,
 }
 

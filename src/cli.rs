@@ -2,8 +2,9 @@
 //! the dispatch to the library. No formulas here.
 
 pub mod export;
-pub mod inspect;
+pub(crate) mod inspect;
 
+use crate::output::messages::note;
 use std::io::Write as _;
 use std::path::PathBuf;
 
@@ -20,10 +21,12 @@ use crate::input::las::{self, ReadOptions};
 #[derive(Debug, Parser)]
 #[command(name = "flowzone", version, about, long_about = None)]
 pub struct Args {
+    /// The subcommand to run.
     #[command(subcommand)]
     pub command: Command,
 }
 
+/// The subcommands of `flowzone`.
 #[derive(Debug, Subcommand)]
 pub enum Command {
     /// Show each LAS file's well header, curves with units, depth range and
@@ -138,6 +141,7 @@ pub enum Command {
     },
     /// Hydraulic class schemes.
     Classes {
+        /// The `classes` subcommand to run.
         #[command(subcommand)]
         command: ClassesCommand,
     },
@@ -253,7 +257,7 @@ fn cmd_inspect(files: &[PathBuf], json: bool, strict: bool) -> Result<(), Error>
             }
             Err(e) => {
                 failed += 1;
-                eprintln!("error: {}", chain(&e));
+                note!("error: {}", chain(&e));
             }
         }
     }
@@ -288,15 +292,15 @@ fn cmd_export(files: &[PathBuf], format: Format, out: &PathBuf, strict: bool) ->
         .map_err(Error::from)
         .and_then(|file| {
             for w in &file.warnings {
-                eprintln!("warning: {}: {w}", f.display());
+                note!("warning: {}: {w}", f.display());
             }
             export::export_file(&file, f, out, format)
         });
         match result {
-            Ok(p) => eprintln!("wrote {}", p.display()),
+            Ok(p) => note!("wrote {}", p.display()),
             Err(e) => {
                 failed += 1;
-                eprintln!("error: {}", chain(&e));
+                note!("error: {}", chain(&e));
             }
         }
     }
@@ -331,10 +335,10 @@ fn report_wells(
 ) -> Result<(), Error> {
     let failed = wells.iter().filter(|w| !w.ok).count();
     for w in wells.iter().filter(|w| !w.ok) {
-        eprintln!("error: {}", w.error.as_deref().unwrap_or("unknown error"));
+        note!("error: {}", w.error.as_deref().unwrap_or("unknown error"));
     }
     if !quiet {
-        eprintln!("{total} wells, {failed} failed; {done}");
+        note!("{total} wells, {failed} failed; {done}");
     }
     if failed > 0 && !keep_going {
         return Err(Error::Partial {
@@ -371,7 +375,7 @@ fn cmd_run(
     if let Some(spec) = shard {
         let done = crate::field::shard::run_shard(&config, &out, spec, !quiet)?;
         if done.trained && !quiet {
-            eprintln!(
+            note!(
                 "note: shard {spec} trained the class model itself, as every shard will; train it once (`flowzone train`) and set [predictor] model to share it"
             );
         }
@@ -425,7 +429,7 @@ fn cmd_class_stage(
     let prepared = crate::classes::stage::prepare(&ctx, &files, out, mode, !quiet)?;
     let summary = &prepared.summary;
     for r in &summary.core_rejected {
-        eprintln!("core: line {}: left out: {}", r.line, r.reason);
+        note!("core: line {}: left out: {}", r.line, r.reason);
     }
     let stdout = std::io::stdout();
     let mut o = stdout.lock();
@@ -476,7 +480,7 @@ fn cmd_class_stage(
     }
     if !quiet {
         for p in &summary.outputs {
-            eprintln!("wrote {p}");
+            note!("wrote {p}");
         }
     }
     Ok(())
@@ -491,7 +495,7 @@ fn cmd_compare(config_path: &std::path::Path, json: bool) -> Result<(), Error> {
     };
     let data = crate::classes::core_match::load(&config, core_cfg)?;
     for r in &data.rejected {
-        eprintln!("core: line {}: left out: {}", r.line, r.reason);
+        note!("core: line {}: left out: {}", r.line, r.reason);
     }
     let rows = crate::classes::compare::compare(classes, &data.samples)?;
     let stdout = std::io::stdout();

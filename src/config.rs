@@ -29,22 +29,32 @@ pub use saturation::{
 /// An error loading a config file.
 #[derive(Debug, thiserror::Error)]
 pub enum ConfigError {
+    /// A file or folder cannot be read.
     #[error("cannot read config `{}`", .path.display())]
     Io {
+        /// The config file, or a folder of `[input] wells`.
         path: PathBuf,
+        /// The read error.
         #[source]
         source: std::io::Error,
     },
+    /// The text is not valid TOML or does not fit the config's keys and types.
     #[error("config `{}`", .path.display())]
     Parse {
+        /// The config file.
         path: PathBuf,
+        /// The TOML parser's error (with its line and column).
         #[source]
         source: Box<toml::de::Error>,
     },
+    /// A value is out of range or contradicts another key.
     #[error("config `{}`: key `{key}`: {message}", .path.display())]
     Invalid {
+        /// The config file.
         path: PathBuf,
+        /// The full dotted key (`predictor.max-vsh`).
         key: String,
+        /// What is wrong with the value.
         message: String,
     },
 }
@@ -53,24 +63,34 @@ pub enum ConfigError {
 #[derive(Debug, Clone, Deserialize, Default)]
 #[serde(deny_unknown_fields, rename_all = "kebab-case")]
 pub struct Config {
+    /// `[project]`: name and depth unit.
     #[serde(default)]
     pub project: Project,
+    /// `[input]`: the LAS files and the reader's limits.
     #[serde(default)]
     pub input: Input,
+    /// `[output]`: output folder, formats, decimals and report.
     #[serde(default)]
     pub output: Output,
+    /// `[curves]`: curve aliases and unit overrides.
     #[serde(default)]
     pub curves: Curves,
+    /// `[depth]`: elevation mnemonics and per-well depth settings.
     #[serde(default)]
     pub depth: DepthConfig,
+    /// `[zones]`: the zone-tops file.
     #[serde(default)]
     pub zones: ZonesConfig,
+    /// `[parameters]`: interpretation parameters by field, zone, well and zone, and class.
     #[serde(default)]
     pub parameters: crate::config::params::Parameters,
+    /// `[core]`: core plugs and their depth shifts; `None` without core.
     #[serde(default)]
     pub core: Option<CoreConfig>,
+    /// `[classes]`: hydraulic class schemes; `None` for a run without classes.
     #[serde(default)]
     pub classes: Option<ClassesConfig>,
+    /// `[predictor]`: the class predictor; `None` uses its defaults.
     #[serde(default)]
     pub predictor: Option<PredictorConfig>,
     /// Lab capillary-pressure curves for the J-function of each class.
@@ -178,7 +198,7 @@ pub struct Output {
     /// Write the HTML report (report/index.html and a page per well). Default true.
     #[serde(default = "default_report")]
     pub report: bool,
-    /// Also write each well's log plot as PNG (report/wells/<stem>-log.png). Default false.
+    /// Also write each well's log plot as PNG (`report/wells/<stem>-log.png`). Default false.
     #[serde(default)]
     pub report_png: bool,
 }
@@ -211,12 +231,16 @@ impl Default for Output {
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, clap::ValueEnum)]
 #[serde(rename_all = "kebab-case")]
 pub enum Format {
+    /// `las`: LAS 2.0.
     Las,
+    /// `csv`: comma-separated values.
     Csv,
+    /// `parquet`: Apache Parquet.
     Parquet,
 }
 
 impl Format {
+    /// The file extension, without the dot.
     pub fn extension(self) -> &'static str {
         match self {
             Format::Las => "las",

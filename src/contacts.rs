@@ -38,6 +38,7 @@ pub enum StepKind {
 }
 
 impl StepKind {
+    /// The kind's name as written in contacts.csv (KIND) and contacts.json.
     pub fn name(self) -> &'static str {
         match self {
             StepKind::RockQuality => "rock-quality",
@@ -61,26 +62,33 @@ impl StepKind {
 /// One saturation step.
 #[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct Step {
+    /// Well name.
     pub well: String,
     /// MD and TVDSS of the step (between the last sample above and the first
     /// below), project depth unit.
     pub depth_md: f64,
+    /// TVDSS of the step, project depth unit; NaN when the well has no TVDSS.
     pub tvdss: f64,
+    /// How the step is explained.
     pub kind: StepKind,
     /// Mean SW over the bed just above and just below, v/v.
     pub sw_above: f64,
+    /// Mean SW over the bed just below, v/v.
     pub sw_below: f64,
     /// Most common class just above and below (0: no class, e.g. shale).
     pub class_above: u8,
+    /// Most common class just below (0: no class).
     pub class_below: u8,
     /// Mean modelled SW (SWH; 1 in shale) just above and below, v/v.
     pub swh_above: f64,
+    /// Mean modelled SW just below, v/v.
     pub swh_below: f64,
     /// Height above the compartment's FWL, project depth unit.
     pub hafwl: f64,
     /// For a step without rock change: the height (project depth unit) at
     /// which the model gives this rock the step's middle saturation.
     pub model_height: Option<f64>,
+    /// Why the step has its kind, in words (EXPLANATION in contacts.csv).
     pub explanation: String,
     /// Row of the first sample below the step.
     #[serde(skip)]
@@ -95,21 +103,29 @@ pub struct ImpliedFwl {
     /// The range within one standard error (project depth unit); an end is
     /// `None` when the logs do not close it (e.g. no water leg in the well).
     pub lower: Option<f64>,
+    /// The shallow end of that range; `None` when the logs do not close it.
     pub upper: Option<f64>,
+    /// Depths in the fit: classed, unflagged, with SW, PERM, PHIE and TVDSS.
     pub samples: usize,
     /// RMS of SW − SWH at the best fit, v/v.
     pub rms: f64,
     /// The compartment's FWL and whether the implied one agrees with it.
     pub compartment_fwl: f64,
+    /// Whether the implied FWL (or its one-sided bound) agrees with the
+    /// compartment's; true when the logs do not constrain it.
     pub agrees: bool,
+    /// The comparison with the compartment's FWL, in words.
     pub note: String,
 }
 
 /// The audit of one well.
 #[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct WellAudit {
+    /// Name of the compartment the well is in.
     pub compartment: String,
+    /// The saturation steps found, in row order.
     pub steps: Vec<Step>,
+    /// The FWL the logs imply; `None` with fewer than 10 usable depths.
     pub implied_fwl: Option<ImpliedFwl>,
 }
 
@@ -260,13 +276,21 @@ fn mode_class(c: &[f64]) -> u8 {
 
 /// The depth-indexed inputs of the audit, project depth unit for depths.
 pub struct Profile<'a> {
+    /// Measured depth per row, project depth unit.
     pub md: &'a [f64],
+    /// TVDSS per row, project depth unit (NaN where unknown).
     pub tvdss: &'a [f64],
+    /// Interpreted SW, v/v (NaN where not computed).
     pub sw: &'a [f64],
+    /// Modelled SW (SWH), v/v (NaN where undefined).
     pub swh: &'a [f64],
+    /// Class number per row (NaN where unclassed, e.g. shale).
     pub class: &'a [f64],
+    /// Permeability, mD.
     pub perm: &'a [f64],
+    /// Effective porosity, v/v.
     pub phie: &'a [f64],
+    /// FLAG bits per row, as a number.
     pub flag: &'a [f64],
 }
 
@@ -733,8 +757,11 @@ pub fn apply(
 /// A fluid contact seen in a well, and the FWL it implies.
 #[derive(Debug, Clone, Serialize)]
 pub struct ApparentContact {
+    /// Well name.
     pub well: String,
+    /// MD of the step, project depth unit.
     pub depth_md: f64,
+    /// TVDSS of the step, project depth unit.
     pub tvdss: f64,
     /// TVDSS of the contact plus the model's height for its saturation:
     /// where this contact puts the FWL.
@@ -744,12 +771,18 @@ pub struct ApparentContact {
 /// One compartment across its wells.
 #[derive(Debug, Clone, Serialize)]
 pub struct CompartmentView {
+    /// Compartment name.
     pub name: String,
+    /// The compartment's FWL, TVDSS project depth unit.
     pub fwl_tvdss: f64,
+    /// One standard error of that FWL, project depth unit; `None` unless it
+    /// comes from the pressure fit.
     pub fwl_sigma: Option<f64>,
+    /// Where the FWL comes from: "config" or "pressures".
     pub fwl_source: String,
     /// Each well's implied FWL (from its logs) with its note.
     pub wells: Vec<(String, Option<ImpliedFwl>)>,
+    /// The fluid-contact steps in its wells.
     pub apparent_contacts: Vec<ApparentContact>,
     /// Wells whose implied FWL or contacts do not line up with the compartment's FWL.
     pub not_lined_up: Vec<String>,

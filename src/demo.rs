@@ -7,6 +7,7 @@
 
 pub mod synth;
 
+use crate::output::messages::note;
 use std::io::Write as _;
 use std::path::Path;
 
@@ -107,7 +108,7 @@ pub fn write_demo(out: &Path, seed: u64) -> Result<(), Error> {
         write_text(&out.join(name), text)?;
     }
     write_text(&out.join("README.md"), &synth::scenario_markdown(&field))?;
-    eprintln!(
+    note!(
         "wrote the demo field ({} wells, seed {seed}) to {}",
         field.wells.len(),
         out.display()
@@ -176,12 +177,12 @@ pub fn write_field(out: &Path, wells: usize, depths: usize, seed: u64) -> Result
         })
         .unwrap_or(0);
     if others > 0 {
-        eprintln!(
+        note!(
             "warning: {} holds {others} other LAS files, which field.toml's [input] reads too",
             out.display()
         );
     }
-    eprintln!(
+    note!(
         "wrote a synthetic field ({wells} wells of ~{depths} samples, seed {seed}) and field.toml to {}",
         out.display()
     );

@@ -5,12 +5,13 @@
 //! outputs and the summary are the same whatever the thread count. One bad
 //! well never stops the others: it is recorded with its error.
 
-pub mod journal;
-pub mod outputs;
-pub mod safety;
-pub mod setup;
+pub(crate) mod journal;
+pub(crate) mod outputs;
+pub(crate) mod safety;
+pub(crate) mod setup;
 pub mod shard;
 
+use crate::output::messages::note;
 use std::path::Path;
 
 use rayon::prelude::*;
@@ -29,9 +30,13 @@ use crate::well::WellError;
 /// The run summary (also written as run-summary.json).
 #[derive(Debug, Clone, Serialize)]
 pub struct RunSummary {
+    /// The program and its version (`flowzone 0.1.0`).
     pub tool: String,
+    /// The project name (`[project] name`).
     pub project: String,
+    /// LAS files in the run.
     pub wells_total: usize,
+    /// Wells that failed (recorded with their error).
     pub wells_failed: usize,
     /// Core, scheme and class model of the run (when `[core]` or `[classes]` is set).
     pub classes: Option<crate::classes::stage::ClassSummary>,
@@ -43,6 +48,7 @@ pub struct RunSummary {
     pub contacts: Vec<crate::contacts::CompartmentView>,
     /// contacts.csv and contacts.json.
     pub contact_outputs: Vec<String>,
+    /// One report per well, failed ones included.
     pub wells: Vec<WellReport>,
 }
 
@@ -78,7 +84,7 @@ pub fn process_wells(
         .as_deref()
         .and_then(read_journal)
     {
-        eprintln!("note: {}", i.message(journal));
+        note!("note: {}", i.message(journal));
     }
     let journal = Journal::create(journal, &listed)?;
     let models = setup.models();
@@ -113,7 +119,7 @@ pub fn process_wells(
                         b.println(format!("{} FAILED", path.display()));
                     }
                 }
-                None if progress => eprintln!("[{n}/{total}] {} {status}", path.display()),
+                None if progress => note!("[{n}/{total}] {} {status}", path.display()),
                 None => {}
             }
             report
@@ -159,7 +165,7 @@ pub fn finish(
         .collect();
     let zone_outputs = crate::well::summary::write(&zone_rows, &out.join("field"))?;
     if progress {
-        eprintln!(
+        note!(
             "summary: {} zones of {} wells in {}",
             zone_rows.len(),
             reports.iter().filter(|r| r.ok).count(),
@@ -181,7 +187,7 @@ pub fn finish(
             &manifest,
         )?;
         if progress {
-            eprintln!("report: {}", out.join(page).display());
+            note!("report: {}", out.join(page).display());
         }
     }
     let summary = RunSummary {

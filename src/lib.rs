@@ -14,13 +14,13 @@
 //! - [`sat_height`]: Leverett J, lab curves and their fits, free water levels, SWH per depth.
 //! - [`contacts`]: the audit of every saturation step and the FWL the logs imply.
 //! - [`output`]: tables written as CSV, Parquet and LAS; the column set ([`output::schema::Col`]).
-//! - [`report`]: the HTML pages and their plots (SVG, PNG).
+//! - `report`: the HTML pages and their plots (SVG, PNG).
 //! - [`pipeline`]: [`pipeline::run_well`], the one place that chains the stages for a well.
 //! - [`field`]: the field run: wells in parallel or in shards, the journal, field-level outputs.
 //! - [`config`]: the project config (TOML); [`units`]: unit spellings and conversions.
 //! - [`stats`]: the shared statistics; [`error`]: the error a command ends with.
 //! - [`cli`]: the command line and the `inspect` and `export` commands.
-//! - [`demo`]: the synthetic forward model behind the invented demo field.
+//! - `demo`: the synthetic forward model behind the invented demo field.
 //! - `testutil`: test helpers, compiled for tests only.
 //!
 //! Results are interpretations: they must be reviewed by a qualified
@@ -31,14 +31,14 @@ pub mod classes;
 pub mod cli;
 pub mod config;
 pub mod contacts;
-pub mod demo;
+pub(crate) mod demo;
 pub mod error;
 pub mod field;
 pub mod input;
 pub mod output;
 pub mod petro;
 pub mod pipeline;
-pub mod report;
+pub(crate) mod report;
 pub mod sat_height;
 pub mod stats;
 pub mod units;

@@ -1,4 +1,5 @@
 //! The flowzone binary: parse arguments, run, print the error chain, exit.
+#![allow(clippy::print_stderr)] // the binary prints the error chain
 
 use clap::Parser;
 

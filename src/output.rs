@@ -7,8 +7,9 @@
 //! null and the NULL value in LAS.
 
 pub mod las;
-pub mod manifest;
-pub mod numfmt;
+pub(crate) mod manifest;
+pub(crate) mod messages;
+pub(crate) mod numfmt;
 pub mod schema;
 
 use std::fs::File;
@@ -25,15 +26,22 @@ use crate::units::DepthUnit;
 /// An error writing an output file.
 #[derive(Debug, thiserror::Error)]
 pub enum OutputError {
+    /// Writing, flushing or renaming an output file failed, or reading a
+    /// file being copied into the output.
     #[error("cannot write `{}`", .path.display())]
     Io {
+        /// The output file by its final name, or the source of a copy.
         path: PathBuf,
+        /// The I/O error.
         #[source]
         source: std::io::Error,
     },
+    /// polars could not build the table or write it as CSV or Parquet.
     #[error("cannot write `{}`", .path.display())]
     Table {
+        /// The output file by its final name.
         path: PathBuf,
+        /// The polars error.
         #[source]
         source: polars::error::PolarsError,
     },
@@ -45,8 +53,11 @@ pub struct OutColumn {
     /// Which curve of the column set this is; `None` for a column outside it
     /// (an exported LAS curve, a demo truth table).
     pub key: Option<Col>,
+    /// The column header in CSV and Parquet, and the mnemonic in LAS.
     pub name: String,
+    /// The unit for the LAS header; CSV and Parquet carry no unit.
     pub unit: String,
+    /// The curve description for the LAS header.
     pub description: String,
     /// Missing samples are NaN.
     pub values: Vec<f64>,
@@ -57,6 +68,7 @@ pub struct OutColumn {
 /// A depth-indexed table: the first column is the index.
 #[derive(Debug, Clone, Default)]
 pub struct Table {
+    /// The columns, depth index first; the index's length is the row count.
     pub columns: Vec<OutColumn>,
     /// ~W items for LAS output (WELL, UWI, COMP...), excluding STRT/STOP/STEP/NULL.
     pub well_items: Vec<HeaderItem>,

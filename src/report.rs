@@ -408,6 +408,24 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
     table(&mut h, "facts", &[], &facts);
     h.push_str("<p class=\"note\">run-manifest.json holds every input's SHA-256, the command, the start and end times and, for a sharded run, the shards; run-summary.json and the CSV files hold every number shown here.</p>\n");
 
+    wells_section(&mut h, p);
+    crossplots_section(&mut h, p);
+    steps_section(&mut h, p);
+    zone_section(&mut h, p);
+    page_end(&mut h);
+    let path = dir.join("index.html");
+    output::write_atomic(&path, |w| {
+        use std::io::Write as _;
+        w.write_all(h.as_bytes()).map_err(|source| OutputError::Io {
+            path: path.clone(),
+            source,
+        })
+    })?;
+    Ok(format!("{REPORT_DIR}/index.html"))
+}
+
+/// The field page's table of wells, each linked to its page.
+fn wells_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("<h2>Wells</h2>\n");
     let rows: Vec<Vec<Cell>> = p
         .wells
@@ -467,33 +485,39 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
         &rows,
     );
     h.push_str(&wells_html);
+}
 
+/// The field page's crossplots: core φ-k, J-functions, pressures, the predictor's confusion matrix, Pickett.
+fn crossplots_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("<h2>Crossplots</h2>\n<div class=\"plots\">\n");
     plot(
-        &mut h,
+        h,
         &plots::crossplots::core_phi_k(&p.core, &p.boundaries, p.class_count),
     );
-    plot(&mut h, &plots::crossplots::j_function(&p.j_classes));
+    plot(h, &plots::crossplots::j_function(&p.j_classes));
     plot(
-        &mut h,
+        h,
         &plots::crossplots::pressure_depth(&p.pressures, p.depth_unit),
     );
     match &p.confusion {
         Some(c) => plot(
-            &mut h,
+            h,
             &plots::crossplots::confusion(c, "class predictor, leave one well out"),
         ),
         None => plot(
-            &mut h,
+            h,
             &plots::crossplots::confusion(&[], "no class predictor in this run"),
         ),
     }
     plot(
-        &mut h,
+        h,
         &plots::crossplots::pickett(&p.pickett, &p.archie, p.rw_ohmm),
     );
     h.push_str("</div>\n<p class=\"note\">The Pickett plot thins every well's depths to a sample; each well's page has its own.</p>\n");
+}
 
+/// The field page's saturation steps, the first [`MAX_TABLE_ROWS`].
+fn steps_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("<h2>Saturation steps</h2>\n");
     let steps: Vec<&crate::contacts::Step> = p
         .wells
@@ -525,7 +549,7 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
         );
     }
     table(
-        &mut h,
+        h,
         "contacts",
         &[
             "well",
@@ -538,8 +562,12 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
         ],
         &rows,
     );
+}
 
+/// The field page's zone summary, the first [`MAX_TABLE_ROWS`].
+fn zone_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("<h2>Zone summary</h2>\n");
+    let u = p.depth_unit;
     let rows: Vec<Vec<Cell>> = p
         .zones
         .iter()
@@ -565,7 +593,7 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
         );
     }
     table(
-        &mut h,
+        h,
         "zone-summary",
         &[
             "well",
@@ -579,16 +607,6 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
         ],
         &rows,
     );
-    page_end(&mut h);
-    let path = dir.join("index.html");
-    output::write_atomic(&path, |w| {
-        use std::io::Write as _;
-        w.write_all(h.as_bytes()).map_err(|source| OutputError::Io {
-            path: path.clone(),
-            source,
-        })
-    })?;
-    Ok(format!("{REPORT_DIR}/index.html"))
 }
 
 /// A J-curve sampled for plotting: Sw at J on a log grid, Sw increasing.

@@ -38,6 +38,7 @@ use crate::units::DepthUnit;
 /// The J-function a class uses.
 #[derive(Debug, Clone, Serialize)]
 pub struct ClassJ {
+    /// Class number, 1 upwards.
     pub class: u8,
     /// The class's own fit (both forms, the chosen one), when it has plugs.
     pub fit: Option<JFit>,
@@ -47,19 +48,26 @@ pub struct ClassJ {
     pub borrowed_from: Option<u8>,
     /// The plugs whose points were fitted (the lending class's when borrowed).
     pub plugs: Vec<String>,
+    /// Number of (J, Sw) points fitted (the lending class's when borrowed).
     pub points: usize,
 }
 
 /// How a plug was classed and how well the curves fit it.
 #[derive(Debug, Clone, Serialize)]
 pub struct PlugReport {
+    /// Sample name (SAMPLE in the capillary file).
     pub sample: String,
+    /// Well name as written in the capillary file.
     pub well: String,
+    /// The plug's DEPTH_MD as written in the capillary file, not converted.
     pub depth_md: f64,
+    /// Plug porosity, v/v.
     pub porosity: f64,
+    /// Plug permeability, mD.
     pub perm_md: f64,
     /// The scheme's quantity of the plug (FZI or R35, µm).
     pub scheme_value: f64,
+    /// The class the plug is fitted in: the scheme's, or the config's (`class_source`).
     pub class: u8,
     /// "scheme" (the plug's own φ and k) or "config" (`[capillary] plug-class`).
     pub class_source: String,
@@ -74,6 +82,8 @@ pub struct PlugReport {
 /// A compartment's free water level.
 #[derive(Debug, Clone, Serialize)]
 pub struct CompartmentFwl {
+    /// Compartment name: the key of `[compartments.NAME]`, or `field` when none
+    /// is configured.
     pub name: String,
     /// Its wells; `None` takes every well no other compartment lists.
     pub wells: Option<Vec<String>>,
@@ -87,10 +97,13 @@ pub struct CompartmentFwl {
     pub pressure_fit: Option<FwlFit>,
     /// Why there is no pressure fit, when points were given.
     pub pressure_fit_error: Option<String>,
+    /// Water density, g/cm3: from the config, else the lower leg's gradient.
     pub rho_water_gcc: f64,
+    /// Hydrocarbon density, g/cm3: from the config, else the upper leg's gradient.
     pub rho_hc_gcc: f64,
     /// "config" or "pressure gradients".
     pub density_source: String,
+    /// Number of pressure points in the compartment (0 without a pressures file).
     pub points_used: usize,
     /// The pressure points used, (TVDSS m, psi), for the report's plot.
     #[serde(skip)]
@@ -100,19 +113,25 @@ pub struct CompartmentFwl {
 /// The field's saturation-height model.
 #[derive(Debug, Clone, Serialize)]
 pub struct SatHeightModel {
+    /// The capillary-pressure CSV, as resolved from the config.
     pub capillary_file: String,
     /// Reservoir σ (dyn/cm) and θ (degrees), and σ·|cos θ|.
     pub reservoir: FluidProps,
+    /// σ·|cos θ| at reservoir conditions, dyn/cm, used to turn reservoir Pc into J.
     pub sigma_cos_reservoir: f64,
     /// How the J-function form of a class is chosen.
     pub form_criterion: String,
+    /// One J-function per class, class 1 first (index = class − 1).
     pub classes: Vec<ClassJ>,
+    /// Every accepted plug: its class and how the curves fit it.
     pub plugs: Vec<PlugReport>,
     /// Capillary rows and plugs left out, with line and reason.
     pub plugs_rejected: Vec<Rejected>,
+    /// The pressure-points CSV, as resolved; `None` without `[pressures]`.
     pub pressure_file: Option<String>,
     /// Pressure points left out (quality, no compartment), with line and reason.
     pub pressure_points_left_out: Vec<Rejected>,
+    /// Every compartment's FWL and fluid densities.
     pub compartments: Vec<CompartmentFwl>,
     #[serde(skip)]
     depth_unit: DepthUnit,
@@ -125,8 +144,11 @@ pub struct SatHeightModel {
 /// Mean and RMS of SW − SWH over some depths.
 #[derive(Debug, Clone, Default, Serialize, PartialEq, Deserialize)]
 pub struct Residual {
+    /// Number of depths summarised.
     pub samples: usize,
+    /// Mean of SW − SWH, v/v; NaN with no samples.
     pub mean: f64,
+    /// RMS of SW − SWH, v/v; NaN with no samples.
     pub rms: f64,
 }
 
@@ -151,6 +173,7 @@ impl Residual {
 /// The saturation-height result of one well.
 #[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct WellSatHeight {
+    /// Name of the compartment the well is in.
     pub compartment: String,
     /// FWL used, TVDSS project depth unit.
     pub fwl_tvdss: f64,
@@ -182,12 +205,20 @@ pub enum TvdssError {
     #[error(
         "well `{well}` is not among the field's readable LAS wells, so its MD cannot be converted to TVDSS"
     )]
-    UnknownWell { well: String },
+    UnknownWell {
+        /// The well name as the pressure row gives it.
+        well: String,
+    },
     /// The MD is outside the well's log, or the well has no TVDSS.
     #[error(
         "{well}: MD {md} is outside the logged depths or the well has no TVDSS (no datum elevation)"
     )]
-    OutsideLog { well: String, md: f64 },
+    OutsideLog {
+        /// The well name as the pressure row gives it.
+        well: String,
+        /// The measured depth asked for, project depth unit.
+        md: f64,
+    },
 }
 
 /// Why the saturation-height model could not be built; each names the file,
@@ -196,24 +227,38 @@ pub enum TvdssError {
 pub enum SatHeightError {
     /// The class scheme has more classes than a class number holds.
     #[error("scheme {scheme} has too many classes")]
-    TooManyClasses { scheme: String },
+    TooManyClasses {
+        /// The scheme's name.
+        scheme: String,
+    },
     /// A capillary-pressure or pressure-point file cannot be read.
     #[error(transparent)]
     Table(#[from] crate::input::tables::TableError),
     /// `capillary.plug-class` names a sample the file does not have.
     #[error("config key `capillary.plug-class.\"{sample}\"`: no usable sample `{sample}` in {}", .file.display())]
-    UnknownPlug { sample: String, file: PathBuf },
+    UnknownPlug {
+        /// The sample name the config gives.
+        sample: String,
+        /// The capillary-pressure CSV.
+        file: PathBuf,
+    },
     /// A plug falls in no class of the scheme.
     #[error(
         "{}: line {line}: plug {sample} (φ {porosity}, k {perm_md} mD) has no class in scheme {scheme}",
         .file.display()
     )]
     UnclassedPlug {
+        /// The capillary-pressure CSV.
         file: PathBuf,
+        /// File line of the plug's first accepted row (1-based, header = 1).
         line: u64,
+        /// Sample name.
         sample: String,
+        /// Plug porosity, v/v.
         porosity: f64,
+        /// Plug permeability, mD.
         perm_md: f64,
+        /// The scheme's name.
         scheme: String,
     },
     /// `capillary.plug-class` gives a class the scheme does not have.
@@ -221,21 +266,30 @@ pub enum SatHeightError {
         "config key `capillary.plug-class.\"{sample}\"`: class {class} is above the scheme's {class_count} classes"
     )]
     PlugClassTooHigh {
+        /// Sample name.
         sample: String,
+        /// The class the config gives.
         class: u8,
+        /// Number of classes in the scheme.
         class_count: u8,
     },
     /// A class's plugs give no J-function.
     #[error("capillary class {class} (plugs {plugs}): the J-function fit failed")]
     JFit {
+        /// The class number.
         class: u8,
+        /// The class's plug names, comma-separated.
         plugs: String,
+        /// Why the fit failed.
         #[source]
         source: JFitError,
     },
     /// The file has no plug usable for a J-function.
     #[error("{}: no usable capillary-pressure plug, so no class has a J-function", .file.display())]
-    NoPlugs { file: PathBuf },
+    NoPlugs {
+        /// The capillary-pressure CSV.
+        file: PathBuf,
+    },
     /// Neither compartments nor pressure points give a free water level.
     #[error(
         "the saturation-height model needs a free water level: add [compartments.NAME] with fwl-tvdss, or [pressures]"
@@ -243,27 +297,38 @@ pub enum SatHeightError {
     NoFwlSource,
     /// A compartment has no free water level.
     #[error("compartment `{compartment}`: no free water level: set fwl-tvdss")]
-    NoFwl { compartment: String },
+    NoFwl {
+        /// Compartment name.
+        compartment: String,
+    },
     /// A compartment's pressure fit failed and the config gives no FWL.
     #[error(
         "compartment `{compartment}`: no free water level: the pressure fit failed ({reason}); set fwl-tvdss or fix the points"
     )]
     FwlFit {
+        /// Compartment name.
         compartment: String,
+        /// Why the pressure fit failed.
         reason: FwlError,
     },
     /// A compartment has no fluid densities.
     #[error(
         "compartment `{compartment}`: no fluid densities: set rho-water-gcc and rho-hc-gcc, or give pressure points for both legs"
     )]
-    NoDensities { compartment: String },
+    NoDensities {
+        /// Compartment name.
+        compartment: String,
+    },
     /// The water is not denser than the hydrocarbon.
     #[error(
         "compartment `{compartment}`: water density {rho_water:.3} g/cm3 is not above the hydrocarbon's {rho_hc:.3}"
     )]
     Densities {
+        /// Compartment name.
         compartment: String,
+        /// Water density, g/cm3.
         rho_water: f64,
+        /// Hydrocarbon density, g/cm3.
         rho_hc: f64,
     },
 }
@@ -500,6 +565,7 @@ struct PressureRow {
 pub struct PressureObs {
     /// The CSV line it came from (1 = header).
     pub line: u64,
+    /// Well name as written in the file.
     pub well: String,
     /// True vertical depth subsea, m (positive down).
     pub tvdss_m: f64,
@@ -955,17 +1021,27 @@ fn opt(v: Option<f64>) -> String {
 /// What the reservoir model needs, in one JSON file.
 #[derive(Debug, Serialize)]
 pub struct ModelExport<'a> {
+    /// The program and version that wrote the file (`flowzone x.y.z`).
     pub tool: String,
+    /// The review caution ([`CAUTION`]).
     pub caution: &'static str,
+    /// Unit of each exported quantity ([`export_units`]).
     pub units: BTreeMap<&'static str, &'static str>,
+    /// The project's depth unit (FWL, HAFWL).
     pub depth_unit: DepthUnit,
+    /// The class scheme the class numbers refer to.
     pub scheme: &'a SchemeInfo,
+    /// The saturation-height model: J-functions, plugs, compartments.
     pub saturation_height: &'a SatHeightModel,
     /// Archie a, m, n per class: field-level (index 0 = class 1), then the
     /// zones that set their own.
     pub archie_by_class: Vec<crate::petro::saturation::ArchieParams>,
+    /// Archie a, m, n per class (index 0 = class 1) for each zone the config
+    /// gives parameters for.
     pub archie_by_zone_and_class: BTreeMap<String, Vec<crate::petro::saturation::ArchieParams>>,
+    /// The permeability transform in use: FZI or the log-k line.
     pub perm_method: crate::config::PermMethod,
+    /// Permeability models per class.
     pub perm_by_class: &'a [crate::classes::perm::ClassPerm],
 }
 

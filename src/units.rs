@@ -27,13 +27,21 @@ pub const MM_PER_INCH: f64 = 25.4;
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum Quantity {
+    /// Measured or vertical depth; canonical unit is the project's (m or ft).
     Depth,
+    /// Bulk density, g/cm3.
     Density,
+    /// Compressional slowness, us/ft.
     Slowness,
+    /// A volume fraction such as neutron porosity, v/v.
     Fraction,
+    /// Resistivity, ohm.m.
     Resistivity,
+    /// Gamma ray, gAPI.
     GammaRay,
+    /// Caliper or bit size, inches.
     Diameter,
+    /// Spontaneous potential, mV.
     Potential,
 }
 
@@ -61,9 +69,11 @@ pub struct UnknownDepthUnit(pub String);
 /// The depth unit a project works in.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize, serde::Deserialize, Default)]
 pub enum DepthUnit {
+    /// Metres (serialised as `m`).
     #[default]
     #[serde(rename = "m")]
     Metre,
+    /// International feet, 0.3048 m (serialised as `ft`).
     #[serde(rename = "ft")]
     Foot,
 }
@@ -119,10 +129,12 @@ fn normalise(text: &str) -> String {
 /// A linear conversion `canonical = value * factor`.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Conversion {
+    /// Multiplier from the unit as read to the canonical unit (1 when they are the same).
     pub factor: f64,
 }
 
 impl Conversion {
+    /// No conversion (factor 1): the values are already in the canonical unit.
     pub const IDENTITY: Conversion = Conversion { factor: 1.0 };
 
     /// The conversion of `unit` to the canonical unit of `quantity`, or `None`

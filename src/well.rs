@@ -8,7 +8,7 @@
 
 pub mod chain;
 pub mod depth;
-pub mod summary;
+pub(crate) mod summary;
 pub mod zones;
 
 use std::path::{Path, PathBuf};
@@ -30,24 +30,40 @@ use crate::well::zones::Tops;
 /// Why a well failed.
 #[derive(Debug, thiserror::Error)]
 pub enum WellError {
+    /// The LAS file cannot be read.
     #[error(transparent)]
     Las(#[from] LasError),
+    /// A log the well's methods need is missing or in an unknown unit.
     #[error("{}", .path.display())]
     Curve {
+        /// The LAS file.
         path: PathBuf,
+        /// Which curve, and why.
         #[source]
         source: CurveError,
     },
+    /// A zone's parameters do not give what its methods need.
     #[error("{}: zone `{zone}`: {message}", .path.display())]
     Params {
+        /// The LAS file.
         path: PathBuf,
+        /// The zone, as named in the tops table (or the whole well).
         zone: String,
+        /// What is missing or unusable, naming the config key.
         message: String,
     },
+    /// The depth reference cannot be built.
     #[error("{}: {message}", .path.display())]
-    Depth { path: PathBuf, message: String },
+    Depth {
+        /// The LAS file.
+        path: PathBuf,
+        /// What is wrong.
+        message: String,
+    },
+    /// A table the well needs (survey, tops) cannot be read.
     #[error(transparent)]
     Table(#[from] TableError),
+    /// An output of the well cannot be written.
     #[error(transparent)]
     Output(#[from] OutputError),
 }
@@ -57,9 +73,13 @@ pub enum WellError {
 pub struct WellReport {
     /// Elevation of the depth reference above sea level (project depth unit) and where it came from.
     pub elevation: Option<f64>,
+    /// Where the elevation came from (config, LAS header item), or why none.
     pub elevation_source: String,
+    /// Whether a survey gave TVD (otherwise the well is taken as vertical).
     pub deviated: bool,
+    /// Each zone's resolved parameters and gamma-ray picks, in depth order.
     pub zones: Vec<ZoneSetup>,
+    /// What the chain clipped, flagged or left out, in samples.
     pub counts: Counts,
     /// The class-aware saturation, when class-dependent exponents are set.
     pub class_exponents: Option<ClassExponentCounts>,
@@ -79,12 +99,15 @@ pub struct ClassExponentCounts {
 /// A well after the stages, ready to write.
 #[derive(Debug, Clone)]
 pub struct WellOutput {
+    /// The well's name: ~W WELL, or the file stem without one.
     pub name: String,
+    /// The output curves, depth first, with the header items kept.
     pub table: Table,
     /// Warnings from reading and from the stages, as text.
     pub warnings: Vec<String>,
     /// Mnemonic and unit used for each logical curve found.
     pub resolved: Vec<(LogicalCurve, String, String)>,
+    /// What the stages did, for the run summary.
     pub report: WellReport,
     /// Zone index of each depth (into `report.zones`), `None` outside every zone.
     pub zone_of: Vec<Option<u16>>,
@@ -95,7 +118,9 @@ pub struct WellOutput {
 /// What every well of a run shares: the config and the tables it names.
 #[derive(Debug, Clone)]
 pub struct RunContext {
+    /// The project config.
     pub config: Config,
+    /// The zone tops table, when the config names one.
     pub tops: Option<Tops>,
 }
 
@@ -295,22 +320,12 @@ pub fn process_file(
             .map(|r| r.values.as_slice())
     };
 
-    // depth reference
     let (elev, elevation_source) = elevation(file, &names, ctx, &mut warnings);
-    let well_depth = config.depth.for_well(&names);
-    let (tvd, deviated) = match well_depth.and_then(|w| w.survey.as_ref()) {
-        Some(p) => (
-            tvd_at(&md, &read_survey(&config.resolve_path(p), depth_unit)?),
-            true,
-        ),
-        None => (md.clone(), false),
-    };
-    let tvdss: Vec<f64> = match elev {
-        Some(e) => tvd.iter().map(|t| t - e).collect(),
-        None => vec![f64::NAN; md.len()],
-    };
-    let to_m = depth_unit.factor_to(DepthUnit::Metre);
-    let tvd_m: Vec<f64> = tvd.iter().map(|t| t * to_m).collect();
+    let DepthRef {
+        tvdss,
+        tvd_m,
+        deviated,
+    } = depth_reference(&md, elev, &names, ctx)?;
 
     // zones
     let well_tops = match &ctx.tops {
@@ -331,11 +346,6 @@ pub fn process_file(
     let gr = curve(LogicalCurve::GammaRay);
     for (zi, zone) in zone_names.iter().enumerate() {
         let params = config.parameters.for_well_zone(&names, zone).resolve();
-        let perr = |message: String| WellError::Params {
-            path: path.to_path_buf(),
-            zone: zone.clone(),
-            message,
-        };
         let in_zone: Vec<f64> = match gr {
             Some(g) => g
                 .iter()
@@ -345,93 +355,9 @@ pub fn process_file(
                 .collect(),
             None => Vec::new(),
         };
-        let [lo, hi] = params.gr_pick_percentiles;
-        let (clean, shale, picked) = match (params.gr_clean_gapi, params.gr_shale_gapi) {
-            (Some(c), Some(s)) => (c, s, false),
-            (c, s) => (
-                c.unwrap_or_else(|| crate::stats::percentile(&in_zone, lo)),
-                s.unwrap_or_else(|| crate::stats::percentile(&in_zone, hi)),
-                true,
-            ),
-        };
-        if picked && !in_zone.is_empty() && (shale <= clean || shale.is_nan() || clean.is_nan()) {
-            return Err(perr(format!(
-                "gamma-ray picks are not usable (clean {clean}, shale {shale}); set gr-clean-gapi and gr-shale-gapi"
-            )));
-        }
-        if params.rw_ohmm.is_none() {
-            return Err(perr(
-                "rw-ohmm is not set (at any level of [parameters])".into(),
-            ));
-        }
-        let density_method = params.porosity_method.uses_density();
-        let neutron_method = params.porosity_method.uses_neutron();
-        if (density_method || params.neutron_density_shale) && params.rho_shale_gcc.is_none() {
-            return Err(perr(
-                "rho-shale-gcc is needed for the density-based porosity and shale corrections"
-                    .into(),
-            ));
-        }
-        if (neutron_method || params.neutron_density_shale) && params.nphi_shale_vv.is_none() {
-            return Err(perr(
-                "nphi-shale-vv is needed for the neutron-density methods".into(),
-            ));
-        }
-        if !density_method && params.dt_shale_usft.is_none() {
-            return Err(perr(
-                "dt-shale-usft is needed for the sonic porosity methods".into(),
-            ));
-        }
-        if params.saturation_model != SaturationModel::Archie && params.rsh_ohmm.is_none() {
-            return Err(perr(format!(
-                "rsh-ohmm is needed for the {} model",
-                params.saturation_model.name()
-            )));
-        }
-        if density_method || params.neutron_density_shale {
-            needed.push(LogicalCurve::BulkDensity);
-        }
-        if neutron_method || params.neutron_density_shale {
-            needed.push(LogicalCurve::NeutronPorosity);
-        }
-        if !density_method {
-            needed.push(LogicalCurve::CompressionalSlowness);
-        }
-        let gradient = match (params.rw_temperature_c, params.geothermal_gradient_c_per_m) {
-            (None, _) => None,
-            (Some(_), Some(g)) => Some(g),
-            (Some(_), None) => {
-                let bht = header_temperature_c(file, "BHT").ok_or_else(|| {
-                    perr("rw-temperature-c is set, but there is no geothermal-gradient-c-per-m and no BHT (DEGC or DEGF) in the header".into())
-                })?;
-                let td_m = file
-                    .param("TD")
-                    .and_then(|i| {
-                        let v: f64 = i.value.trim().parse().ok()?;
-                        let u = DepthUnit::from_las(if i.unit.is_empty() {
-                            file.index_unit()
-                        } else {
-                            &i.unit
-                        })?;
-                        Some(v * u.factor_to(DepthUnit::Metre))
-                    })
-                    .or_else(|| tvd_m.last().copied())
-                    .unwrap_or(f64::NAN);
-                Some(crate::petro::water::gradient_from_bht(
-                    bht,
-                    params.surface_temperature_c,
-                    td_m,
-                ))
-            }
-        };
-        setups.push(ZoneSetup {
-            name: zone.clone(),
-            params,
-            gr_clean_gapi: clean,
-            gr_shale_gapi: shale,
-            gr_picked: picked,
-            gradient_c_per_m: gradient,
-        });
+        let setup = zone_setup(path, file, zone, params, &in_zone, &tvd_m)?;
+        needed.extend(curves_needed(&setup.params));
+        setups.push(setup);
     }
     needed.sort();
     needed.dedup();
@@ -441,6 +367,7 @@ pub fn process_file(
                 CurveError::Missing { curve, .. } | CurveError::UnknownUnit { curve, .. } => {
                     curve == c
                 }
+                CurveError::UnknownDepthUnit { .. } => false,
             });
             if let Some(e) = e {
                 return Err(curve_err(e.clone()));
@@ -491,32 +418,7 @@ pub fn process_file(
         ));
     }
 
-    let col = |c: Col, values: Vec<f64>| OutColumn::new(c, depth_unit, values);
-    let mut columns = vec![
-        col(Col::Depth, md),
-        col(Col::Tvdss, tvdss),
-        col(Col::Vsh, out.vsh),
-        col(Col::Phit, out.phit),
-        col(Col::Phie, out.phie),
-        col(Col::Sw, out.sw),
-        col(Col::Bvw, out.bvw),
-        col(Col::Flag, out.flag.iter().map(|&f| f64::from(f)).collect())
-            .described(flag_description(FLAG_CLIPPED)),
-    ];
-    let resolved = found
-        .iter()
-        .map(|r| (r.logical, r.mnemonic.clone(), r.source_unit.clone()))
-        .collect();
-    for r in found {
-        let c = Col::Input(r.logical);
-        let description = format!(
-            "{} (FROM {} {})",
-            c.description(),
-            r.mnemonic,
-            r.source_unit
-        );
-        columns.push(OutColumn::new(c, depth_unit, r.values).described(description));
-    }
+    let (columns, resolved) = output_columns(depth_unit, md, tvdss, &mut out, found);
     let keep = [
         "WELL", "UWI", "API", "COMP", "FLD", "LOC", "CTRY", "PROV", "STAT", "SRVC", "DATE",
     ];
@@ -547,6 +449,195 @@ pub fn process_file(
         zone_of,
         rw,
     })
+}
+
+/// The logs stage's output columns: depth, TVDSS, the chain's curves, FLAG,
+/// then every input log found (its mnemonic and unit in the description);
+/// also which mnemonic and unit each logical curve was read from.
+fn output_columns(
+    depth_unit: DepthUnit,
+    md: Vec<f64>,
+    tvdss: Vec<f64>,
+    out: &mut chain::Outputs,
+    found: Vec<ResolvedCurve>,
+) -> (Vec<OutColumn>, Vec<(LogicalCurve, String, String)>) {
+    let col = |c: Col, values: Vec<f64>| OutColumn::new(c, depth_unit, values);
+    let mut columns = vec![
+        col(Col::Depth, md),
+        col(Col::Tvdss, tvdss),
+        col(Col::Vsh, std::mem::take(&mut out.vsh)),
+        col(Col::Phit, std::mem::take(&mut out.phit)),
+        col(Col::Phie, std::mem::take(&mut out.phie)),
+        col(Col::Sw, std::mem::take(&mut out.sw)),
+        col(Col::Bvw, std::mem::take(&mut out.bvw)),
+        col(Col::Flag, out.flag.iter().map(|&f| f64::from(f)).collect())
+            .described(flag_description(FLAG_CLIPPED)),
+    ];
+    let resolved = found
+        .iter()
+        .map(|r| (r.logical, r.mnemonic.clone(), r.source_unit.clone()))
+        .collect();
+    for r in found {
+        let c = Col::Input(r.logical);
+        let description = format!(
+            "{} (FROM {} {})",
+            c.description(),
+            r.mnemonic,
+            r.source_unit
+        );
+        columns.push(OutColumn::new(c, depth_unit, r.values).described(description));
+    }
+    (columns, resolved)
+}
+
+/// TVDSS (project unit, NaN without an elevation) and TVD in metres of each
+/// measured depth, and whether a survey made the well deviated.
+struct DepthRef {
+    tvdss: Vec<f64>,
+    tvd_m: Vec<f64>,
+    deviated: bool,
+}
+
+/// The well's depth reference: TVD from its survey (vertical without one),
+/// TVDSS from its elevation.
+fn depth_reference(
+    md: &[f64],
+    elev: Option<f64>,
+    names: &[&str],
+    ctx: &RunContext,
+) -> Result<DepthRef, WellError> {
+    let config = &ctx.config;
+    let depth_unit = config.project.depth_unit;
+    let (tvd, deviated) = match config.depth.for_well(names).and_then(|w| w.survey.as_ref()) {
+        Some(p) => (
+            tvd_at(md, &read_survey(&config.resolve_path(p), depth_unit)?),
+            true,
+        ),
+        None => (md.to_vec(), false),
+    };
+    let tvdss: Vec<f64> = match elev {
+        Some(e) => tvd.iter().map(|t| t - e).collect(),
+        None => vec![f64::NAN; md.len()],
+    };
+    let to_m = depth_unit.factor_to(DepthUnit::Metre);
+    let tvd_m: Vec<f64> = tvd.iter().map(|t| t * to_m).collect();
+    Ok(DepthRef {
+        tvdss,
+        tvd_m,
+        deviated,
+    })
+}
+
+/// A zone's parameters checked against what its methods need, with the
+/// gamma-ray picks (from the zone's own GR percentiles when not set) and the
+/// geothermal gradient (from the header's BHT and TD when not set).
+fn zone_setup(
+    path: &Path,
+    file: &LasFile,
+    zone: &str,
+    params: crate::config::params::ZoneParams,
+    gr_in_zone: &[f64],
+    tvd_m: &[f64],
+) -> Result<ZoneSetup, WellError> {
+    let perr = |message: String| WellError::Params {
+        path: path.to_path_buf(),
+        zone: zone.to_string(),
+        message,
+    };
+    let [lo, hi] = params.gr_pick_percentiles;
+    let (clean, shale, picked) = match (params.gr_clean_gapi, params.gr_shale_gapi) {
+        (Some(c), Some(s)) => (c, s, false),
+        (c, s) => (
+            c.unwrap_or_else(|| crate::stats::percentile(gr_in_zone, lo)),
+            s.unwrap_or_else(|| crate::stats::percentile(gr_in_zone, hi)),
+            true,
+        ),
+    };
+    if picked && !gr_in_zone.is_empty() && (shale <= clean || shale.is_nan() || clean.is_nan()) {
+        return Err(perr(format!(
+            "gamma-ray picks are not usable (clean {clean}, shale {shale}); set gr-clean-gapi and gr-shale-gapi"
+        )));
+    }
+    if params.rw_ohmm.is_none() {
+        return Err(perr(
+            "rw-ohmm is not set (at any level of [parameters])".into(),
+        ));
+    }
+    let density_method = params.porosity_method.uses_density();
+    let neutron_method = params.porosity_method.uses_neutron();
+    if (density_method || params.neutron_density_shale) && params.rho_shale_gcc.is_none() {
+        return Err(perr(
+            "rho-shale-gcc is needed for the density-based porosity and shale corrections".into(),
+        ));
+    }
+    if (neutron_method || params.neutron_density_shale) && params.nphi_shale_vv.is_none() {
+        return Err(perr(
+            "nphi-shale-vv is needed for the neutron-density methods".into(),
+        ));
+    }
+    if !density_method && params.dt_shale_usft.is_none() {
+        return Err(perr(
+            "dt-shale-usft is needed for the sonic porosity methods".into(),
+        ));
+    }
+    if params.saturation_model != SaturationModel::Archie && params.rsh_ohmm.is_none() {
+        return Err(perr(format!(
+            "rsh-ohmm is needed for the {} model",
+            params.saturation_model.name()
+        )));
+    }
+    let gradient = match (params.rw_temperature_c, params.geothermal_gradient_c_per_m) {
+        (None, _) => None,
+        (Some(_), Some(g)) => Some(g),
+        (Some(_), None) => {
+            let bht = header_temperature_c(file, "BHT").ok_or_else(|| {
+                perr("rw-temperature-c is set, but there is no geothermal-gradient-c-per-m and no BHT (DEGC or DEGF) in the header".into())
+            })?;
+            let td_m = file
+                .param("TD")
+                .and_then(|i| {
+                    let v: f64 = i.value.trim().parse().ok()?;
+                    let u = DepthUnit::from_las(if i.unit.is_empty() {
+                        file.index_unit()
+                    } else {
+                        &i.unit
+                    })?;
+                    Some(v * u.factor_to(DepthUnit::Metre))
+                })
+                .or_else(|| tvd_m.last().copied())
+                .unwrap_or(f64::NAN);
+            Some(crate::petro::water::gradient_from_bht(
+                bht,
+                params.surface_temperature_c,
+                td_m,
+            ))
+        }
+    };
+    Ok(ZoneSetup {
+        name: zone.to_string(),
+        params,
+        gr_clean_gapi: clean,
+        gr_shale_gapi: shale,
+        gr_picked: picked,
+        gradient_c_per_m: gradient,
+    })
+}
+
+/// The logs a zone's methods read beyond GR and deep resistivity.
+fn curves_needed(params: &crate::config::params::ZoneParams) -> Vec<LogicalCurve> {
+    let density_method = params.porosity_method.uses_density();
+    let neutron_method = params.porosity_method.uses_neutron();
+    let mut needed = Vec::new();
+    if density_method || params.neutron_density_shale {
+        needed.push(LogicalCurve::BulkDensity);
+    }
+    if neutron_method || params.neutron_density_shale {
+        needed.push(LogicalCurve::NeutronPorosity);
+    }
+    if !density_method {
+        needed.push(LogicalCurve::CompressionalSlowness);
+    }
+    needed
 }
 
 impl WellOutput {

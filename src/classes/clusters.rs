@@ -77,7 +77,12 @@ pub enum ClusterError {
     #[error(
         "fit_log_fzi: need at least 2 finite, positive FZI values, found {usable} usable out of {supplied} supplied"
     )]
-    TooFewValues { usable: usize, supplied: usize },
+    TooFewValues {
+        /// Finite, positive values found.
+        usable: usize,
+        /// Values given.
+        supplied: usize,
+    },
     /// `max_k` is 0.
     #[error("fit_log_fzi: max_k must be at least 1")]
     NoComponents,
@@ -509,9 +514,6 @@ mod tests {
             data.extend(lognormal_group(m, sd, 150));
         }
         let fit = fit_log_fzi(&data, 6, 20, 0.02).unwrap();
-        println!("test1 bic_by_k = {:?}", fit.bic_by_k);
-        println!("test1 components = {:?}", fit.components);
-        println!("test1 boundaries_um = {:?}", fit.boundaries_um);
         assert_eq!(fit.samples, 450);
         assert_eq!(fit.bic_by_k.len(), 6);
         assert_eq!(fit.components.len(), 3, "bic_by_k = {:?}", fit.bic_by_k);
@@ -544,7 +546,6 @@ mod tests {
     fn one_group_gives_one_component() {
         let data = lognormal_group(2.0f64.log10(), 0.1, 300);
         let fit = fit_log_fzi(&data, 6, 10, 0.02).unwrap();
-        println!("test2 bic_by_k = {:?}", fit.bic_by_k);
         assert_eq!(fit.components.len(), 1, "bic_by_k = {:?}", fit.bic_by_k);
         assert!(fit.boundaries_um.is_empty());
         assert!((fit.components[0].weight - 1.0).abs() < 1e-12);

@@ -17,7 +17,9 @@ use crate::input::core_samples::CoreSample;
 /// One scheme's figures.
 #[derive(Debug, Clone, Serialize)]
 pub struct SchemeComparison {
+    /// The scheme: name, kind, quantity and boundaries.
     pub scheme: SchemeInfo,
+    /// Classes with at least one core sample.
     pub classes_used: usize,
     /// (class, samples).
     pub samples_per_class: Vec<(u8, usize)>,
@@ -33,6 +35,7 @@ pub struct SchemeComparison {
     pub lowo_rms_log10_line: Option<f64>,
     /// Held-out samples predicted, and those whose class the other wells lack.
     pub lowo_samples: usize,
+    /// Held-out samples not predicted because the other wells have no core of their class.
     pub lowo_unpredicted: usize,
     /// Wells held out in turn.
     pub wells: Vec<String>,
@@ -47,6 +50,7 @@ pub struct SchemeBuildError {
     pub scheme: String,
     /// The well left out, in a fold.
     pub without: Option<String>,
+    /// Why the scheme cannot be built.
     #[source]
     pub source: classes::SchemeError,
 }

@@ -42,6 +42,7 @@ pub fn load(config: &Config, core: &CoreConfig) -> Result<CoreData, CoreError> {
 /// A core sample matched to a field well and put on log depth.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct MatchedSample {
+    /// The core sample as read (core depth before the shift, porosity v/v, permeability mD).
     pub sample: CoreSample,
     /// The field well's name (from its LAS file).
     pub well: String,
@@ -54,8 +55,11 @@ pub struct MatchedSample {
 /// The core of a field run.
 #[derive(Debug, Clone, Serialize)]
 pub struct FieldCore {
+    /// The core file, as a path.
     pub file: String,
+    /// How the file's porosity unit was taken (percent or fraction), as text.
     pub porosity_unit: String,
+    /// Samples matched to a field well, shifts applied.
     pub samples: Vec<MatchedSample>,
     /// Rows left out when read, and samples of wells the field does not have.
     pub rejected: Vec<Rejected>,

@@ -10,7 +10,9 @@ pub const RQI_CONSTANT: f64 = 0.0314;
 pub const FZI_PERM_CONSTANT: f64 = 1014.24;
 /// Winland R35 coefficients (log10 form, Ka in mD, φ in percent).
 pub const WINLAND_INTERCEPT: f64 = 0.732;
+/// Winland R35 coefficient of log10 k (k in mD).
 pub const WINLAND_LOG_K: f64 = 0.588;
+/// Winland R35 coefficient of log10 φ (φ in percent), subtracted.
 pub const WINLAND_LOG_PHI: f64 = 0.864;
 
 /// Reservoir quality index RQI = 0.0314·sqrt(k/φ), µm.

@@ -13,7 +13,9 @@ use super::flow_units::{fzi, perm_from_fzi};
 /// Per-class permeability models.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct ClassPerm {
+    /// Class number (1..) of the scheme the core was classed with.
     pub class: u8,
+    /// Core samples of the class the forms were fitted on.
     pub samples: usize,
     /// Geometric mean FZI of the class, µm.
     pub fzi_um: f64,
@@ -22,7 +24,9 @@ pub struct ClassPerm {
     /// log10 k = intercept + slope·φ (φ in v/v); `None` with fewer than 3
     /// samples or no spread in porosity.
     pub intercept: Option<f64>,
+    /// Slope of the line, log10(mD) per v/v of porosity; `None` as for `intercept`.
     pub slope: Option<f64>,
+    /// RMS of log10(k_core) minus the line, `None` without a line.
     pub line_rms_log10: Option<f64>,
 }
 

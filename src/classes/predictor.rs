@@ -65,16 +65,26 @@ impl Feature {
 /// What went wrong fitting or applying a predictor.
 #[derive(Debug, thiserror::Error)]
 pub enum PredictError {
+    /// No training samples, or no features.
     #[error("no training samples")]
     Empty,
+    /// The number of values is not rows × features.
     #[error("training matrix has {values} values, not {rows} rows x {features} features")]
     Shape {
+        /// Number of values given.
         values: usize,
+        /// Number of rows (training samples, or the rows the values make when predicting).
         rows: usize,
+        /// Features per row.
         features: usize,
     },
+    /// A training value is NaN or infinite.
     #[error("training row {row} has a value that is not a number")]
-    NotFinite { row: usize },
+    NotFinite {
+        /// Index (from 0) of the training row holding it.
+        row: usize,
+    },
+    /// smartcore could not fit or apply a tree; its message.
     #[error("random forest: {0}")]
     Forest(String),
 }
@@ -82,9 +92,13 @@ pub enum PredictError {
 /// Settings of the forest.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
 pub struct ForestParams {
+    /// Trees in the forest (`[predictor] trees`).
     pub trees: u16,
+    /// Deepest split of each tree (`[predictor] max-depth`).
     pub max_depth: u16,
+    /// Fewest training samples in a leaf (`[predictor] min-samples-leaf`).
     pub min_samples_leaf: usize,
+    /// Random seed (`[predictor] seed`); tree t uses `seed + t`.
     pub seed: u64,
 }
 
@@ -93,6 +107,7 @@ type Tree = RandomForestClassifier<f64, u32, DenseMatrix<f64>, Vec<u32>>;
 /// A fitted forest.
 #[derive(Debug, Serialize, Deserialize)]
 pub struct Forest {
+    /// Number of features per row the forest was fitted on.
     pub n_features: usize,
     /// Class numbers seen in training, ascending.
     pub classes: Vec<u8>,
@@ -213,6 +228,7 @@ impl Forest {
 /// Samples to train and validate on: features at cored depths and the core class.
 #[derive(Debug, Clone, Default, Serialize)]
 pub struct TrainingSet {
+    /// The features, in the order of each row's values.
     pub features: Vec<Feature>,
     /// Row-major feature values.
     pub x: Vec<f64>,
@@ -225,6 +241,7 @@ pub struct TrainingSet {
 }
 
 impl TrainingSet {
+    /// Number of rows (samples).
     pub fn rows(&self) -> usize {
         self.y.len()
     }
@@ -277,6 +294,7 @@ impl TrainingSet {
 /// Scores of one way of predicting, over held-out wells.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Scores {
+    /// Held-out samples scored.
     pub samples: usize,
     /// Share predicted exactly.
     pub exact: f64,
@@ -335,8 +353,11 @@ fn ratio(a: usize, b: usize) -> f64 {
 /// The forest and the two baselines, each scored leave-one-well-out.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Validation {
+    /// Scores of the random forest.
     pub forest: Scores,
+    /// Scores of the nearest class centroid in standardised features (baseline).
     pub nearest_centroid: Scores,
+    /// Scores of the majority class per porosity bin (baseline).
     pub porosity_bins: Scores,
 }
 

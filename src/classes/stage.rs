@@ -10,6 +10,7 @@
 //! every well ─► CLASS, CLASS_PROB, PERM, FLAG 32 ◄────────┘
 //! ```
 
+use crate::output::messages::note;
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 use std::sync::{Arc, Mutex};
@@ -46,8 +47,11 @@ pub enum Mode {
 /// The model and what it needs to serve every well.
 #[derive(Debug)]
 pub struct ClassSetup {
+    /// The scheme CLASS is in (the model's, as trained).
     pub scheme: SchemeInfo,
+    /// The class model, trained this run or loaded.
     pub model: Arc<ClassModel>,
+    /// The `[predictor]` settings (defaults when the section is absent).
     pub cfg: PredictorConfig,
     /// Training rows, kept to fit models without a feature a well lacks.
     training: Option<TrainingSet>,
@@ -63,14 +67,20 @@ pub struct ClassSummary {
     pub schemes: Vec<SchemeInfo>,
     /// The model file used (loaded or written).
     pub model_file: Option<String>,
+    /// Whether this run trained the model (rather than loading one).
     pub trained: bool,
+    /// The core file read, as shown to the user.
     pub core_file: Option<String>,
+    /// Core samples matched to a well's log depths.
     pub core_samples: usize,
     /// Rows of the core file left out, with line and reason.
     pub core_rejected: Vec<Rejected>,
     /// Core samples not used for training, by well, with line and reason.
     pub training_excluded: BTreeMap<String, Vec<Rejected>>,
+    /// Depth shift added to each well's core depths (`[core.shift]`), project unit.
     pub shifts_applied: BTreeMap<String, f64>,
+    /// The shift that best lines core porosity up with the log, by well;
+    /// `None` when the overlap is too small to tell.
     pub shift_suggestions: BTreeMap<String, Option<ShiftSuggestion>>,
     /// Files written by the class stage.
     pub outputs: Vec<String>,
@@ -79,8 +89,11 @@ pub struct ClassSummary {
 /// The class stage's results.
 #[derive(Debug)]
 pub struct Prepared {
+    /// The model for the wells; `None` when the run has no class model.
     pub setup: Option<ClassSetup>,
+    /// What the stage did, for the run summary.
     pub summary: ClassSummary,
+    /// The core matched to the wells; `None` without `[core]`.
     pub core: Option<FieldCore>,
 }
 
@@ -168,7 +181,7 @@ pub fn prepare(
 
     // pass 1: the stages on every well, keeping the cored wells' tables
     if progress {
-        eprintln!(
+        note!(
             "core: reading {} wells to match {} core samples",
             files.len(),
             data.samples.len()
@@ -259,97 +272,37 @@ pub fn prepare(
             .iter()
             .filter_map(|f| Feature::parse(f))
             .collect();
-        let mut set = TrainingSet {
-            features: features.clone(),
-            ..TrainingSet::default()
-        };
-        for w in core.wells() {
-            let samples: Vec<&core_match::MatchedSample> =
-                core.samples.iter().filter(|s| s.well == w).collect();
-            let Some(table) = tables.get(&w) else {
-                let why = failed
-                    .get(&w)
-                    .cloned()
-                    .unwrap_or_else(|| "not processed".into());
-                summary.training_excluded.insert(
-                    w.clone(),
-                    samples
-                        .iter()
-                        .map(|s| Rejected {
-                            line: s.sample.line,
-                            reason: format!("the well failed: {why}"),
-                        })
-                        .collect(),
-                );
-                continue;
-            };
-            let (rows, excluded) = core_match::training_rows(
-                &samples,
-                table,
-                &features,
-                scheme.as_ref(),
-                &predictor_cfg,
-            );
-            if !excluded.is_empty() {
-                summary.training_excluded.insert(w.clone(), excluded);
-            }
-            for (x, y, phie) in rows {
-                set.x.extend(x);
-                set.y.push(y);
-                set.well.push(w.clone());
-                set.phie.push(phie);
-            }
-        }
+        let set = training_set(
+            &core,
+            &tables,
+            &failed,
+            &features,
+            scheme.as_ref(),
+            &predictor_cfg,
+            &mut summary,
+        );
         // permeability from class and porosity: every matched core sample
         let perm_samples: Vec<(u8, f64, f64)> = phi_k
             .iter()
             .filter_map(|&(p, k)| scheme.classify(p, k).map(|c| (c, p, k)))
             .collect();
         let perm_fit = perm::fit(&perm_samples);
-        let model_dir = out.join("model");
         let model = match loaded {
             Some((model, path)) => {
                 check_scheme(&model.header.scheme, &info, &path)?;
                 summary.model_file = Some(path.display().to_string());
                 model
             }
-            None => {
-                if progress {
-                    eprintln!(
-                        "train: {} samples from {} wells, {} features",
-                        set.rows(),
-                        set.wells().len(),
-                        features.len()
-                    );
-                }
-                let model = train(&set, &info, &predictor_cfg, cl.perm_method, perm_fit)?;
-                if progress {
-                    eprintln!("train: forest fitted in {:.3} s", model.header.fit_seconds);
-                }
-                std::fs::create_dir_all(&model_dir).map_err(|source| Error::Io {
-                    path: model_dir.clone(),
-                    source,
-                })?;
-                let path = model_dir.join("class-model.fzm");
-                model.save(&path)?;
-                summary.model_file = Some(crate::output::shown(out, &path));
-                summary.trained = true;
-                summary.outputs.push(crate::output::shown(out, &path));
-                let json = model_dir.join("training-report.json");
-                write_json(&json, &model.header)?;
-                let text = model_dir.join("training-report.txt");
-                let report = report_text(&model.header, &summary);
-                write_atomic(&text, |w| {
-                    w.write_all(report.as_bytes())
-                        .map_err(|source| OutputError::Io {
-                            path: text.clone(),
-                            source,
-                        })
-                })?;
-                summary.outputs.push(crate::output::shown(out, &json));
-                summary.outputs.push(crate::output::shown(out, &text));
-                model
-            }
+            None => train_and_save(
+                &set,
+                &info,
+                &predictor_cfg,
+                cl.perm_method,
+                perm_fit,
+                out,
+                &mut summary,
+                progress,
+            )?,
         };
         Some(ClassSetup {
             scheme: model.header.scheme.clone(),
@@ -371,6 +324,107 @@ pub fn prepare(
     })
 }
 
+/// The training set: log features at every matched core sample of the wells
+/// that ran; samples left out are recorded by well in `summary`.
+fn training_set(
+    core: &FieldCore,
+    tables: &BTreeMap<String, Table>,
+    failed: &BTreeMap<String, String>,
+    features: &[Feature],
+    scheme: &dyn ClassScheme,
+    predictor_cfg: &PredictorConfig,
+    summary: &mut ClassSummary,
+) -> TrainingSet {
+    let mut set = TrainingSet {
+        features: features.to_vec(),
+        ..TrainingSet::default()
+    };
+    for w in core.wells() {
+        let samples: Vec<&core_match::MatchedSample> =
+            core.samples.iter().filter(|s| s.well == w).collect();
+        let Some(table) = tables.get(&w) else {
+            let why = failed
+                .get(&w)
+                .cloned()
+                .unwrap_or_else(|| "not processed".into());
+            summary.training_excluded.insert(
+                w.clone(),
+                samples
+                    .iter()
+                    .map(|s| Rejected {
+                        line: s.sample.line,
+                        reason: format!("the well failed: {why}"),
+                    })
+                    .collect(),
+            );
+            continue;
+        };
+        let (rows, excluded) =
+            core_match::training_rows(&samples, table, features, scheme, predictor_cfg);
+        if !excluded.is_empty() {
+            summary.training_excluded.insert(w.clone(), excluded);
+        }
+        for (x, y, phie) in rows {
+            set.x.extend(x);
+            set.y.push(y);
+            set.well.push(w.clone());
+            set.phie.push(phie);
+        }
+    }
+    set
+}
+
+/// Train the forest, save it under `model/` with its training report, and
+/// record the files in `summary`.
+#[allow(clippy::too_many_arguments)]
+fn train_and_save(
+    set: &TrainingSet,
+    info: &SchemeInfo,
+    predictor_cfg: &PredictorConfig,
+    perm_method: PermMethod,
+    perm_fit: Vec<perm::ClassPerm>,
+    out: &Path,
+    summary: &mut ClassSummary,
+    progress: bool,
+) -> Result<ClassModel, Error> {
+    let model_dir = out.join("model");
+    if progress {
+        note!(
+            "train: {} samples from {} wells, {} features",
+            set.rows(),
+            set.wells().len(),
+            set.features.len()
+        );
+    }
+    let model = train(set, info, predictor_cfg, perm_method, perm_fit)?;
+    if progress {
+        note!("train: forest fitted in {:.3} s", model.header.fit_seconds);
+    }
+    std::fs::create_dir_all(&model_dir).map_err(|source| Error::Io {
+        path: model_dir.clone(),
+        source,
+    })?;
+    let path = model_dir.join("class-model.fzm");
+    model.save(&path)?;
+    summary.model_file = Some(crate::output::shown(out, &path));
+    summary.trained = true;
+    summary.outputs.push(crate::output::shown(out, &path));
+    let json = model_dir.join("training-report.json");
+    write_json(&json, &model.header)?;
+    let text = model_dir.join("training-report.txt");
+    let report = report_text(&model.header, summary);
+    write_atomic(&text, |w| {
+        w.write_all(report.as_bytes())
+            .map_err(|source| OutputError::Io {
+                path: text.clone(),
+                source,
+            })
+    })?;
+    summary.outputs.push(crate::output::shown(out, &json));
+    summary.outputs.push(crate::output::shown(out, &text));
+    Ok(model)
+}
+
 /// Why the class stage cannot give a model.
 #[derive(Debug, thiserror::Error)]
 pub enum ClassStageError {
@@ -380,8 +434,11 @@ pub enum ClassStageError {
         .model.display()
     )]
     SchemeMismatch {
+        /// The model file.
         model: PathBuf,
+        /// The scheme the model was trained for.
         trained_for: String,
+        /// The scheme the config's `[classes]` gives.
         config_gives: String,
     },
     /// No core sample has log features at its depth.

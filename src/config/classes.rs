@@ -50,9 +50,12 @@ fn default_shift_min_gain() -> f64 {
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, Default)]
 #[serde(rename_all = "kebab-case")]
 pub enum CoreFormat {
+    /// `auto` (the default): CSV for a `.csv` file, SPWLA otherwise.
     #[default]
     Auto,
+    /// `csv`: a CSV with WELL, DEPTH_MD, POROSITY..., PERM_MD columns.
     Csv,
+    /// `spwla`: an SPWLA core-data file.
     Spwla,
 }
 
@@ -77,8 +80,10 @@ pub struct ClassesConfig {
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, Default)]
 #[serde(rename_all = "kebab-case")]
 pub enum PermMethod {
+    /// `fzi` (the default): the class's FZI in the Amaefule relation.
     #[default]
     Fzi,
+    /// `line`: the class's log10 k vs porosity line (the FZI form where a class has none).
     Line,
 }
 
@@ -93,18 +98,23 @@ pub enum PermMethod {
 pub enum SchemeSpec {
     /// FZI boundaries in µm, given (`bounds`) or geometric (`start`, `ratio`, `count`).
     FziLadder {
+        /// `bounds`: FZI boundaries, µm, ascending; give these or the series below.
         #[serde(default)]
         bounds: Option<Vec<f64>>,
+        /// `start`: first boundary of the geometric series, µm of FZI.
         #[serde(default)]
         start: Option<f64>,
+        /// `ratio`: factor between successive boundaries (above 1).
         #[serde(default)]
         ratio: Option<f64>,
+        /// `count`: number of boundaries in the series (1 to 249).
         #[serde(default)]
         count: Option<usize>,
     },
     /// Winland R35 pore-throat classes; `bounds` in µm, default the published
     /// 0.1, 0.5, 2, 10.
     PortSize {
+        /// `bounds`: R35 boundaries, µm, ascending; `None` for the published 0.1, 0.5, 2, 10.
         #[serde(default)]
         bounds: Option<Vec<f64>>,
     },
@@ -112,8 +122,10 @@ pub enum SchemeSpec {
     /// of classes chosen by BIC (at most `max-classes`, default 6; at least
     /// `min-samples-per-class` samples per class on average, default 10).
     FziClusters {
+        /// `max-classes`: most classes the mixture may have (1 to 20). Default 6.
         #[serde(default = "default_max_classes")]
         max_classes: usize,
+        /// `min-samples-per-class`: fewest core samples per class on average (at least 2). Default 10.
         #[serde(default = "default_min_per_class")]
         min_samples_per_class: usize,
     },
@@ -402,23 +414,31 @@ impl SchemeSpec {
     Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize, serde::Deserialize,
 )]
 pub enum Feature {
+    /// `VSH`: shale volume, v/v.
     #[serde(rename = "VSH")]
     Vsh,
+    /// `PHIE`: effective porosity, v/v.
     #[serde(rename = "PHIE")]
     Phie,
+    /// `GR`: gamma ray, gAPI.
     #[serde(rename = "GR")]
     Gr,
+    /// `RHOB`: bulk density, g/cm3.
     #[serde(rename = "RHOB")]
     Rhob,
+    /// `NPHI`: neutron porosity, v/v.
     #[serde(rename = "NPHI")]
     Nphi,
+    /// `DT`: compressional slowness, us/ft.
     #[serde(rename = "DT")]
     Dt,
+    /// `LOG10_RT`: log10 of deep resistivity (ohm.m).
     #[serde(rename = "LOG10_RT")]
     Log10Rt,
 }
 
 impl Feature {
+    /// Every feature, in declaration order.
     pub const ALL: [Feature; 7] = [
         Feature::Vsh,
         Feature::Phie,

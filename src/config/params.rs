@@ -138,6 +138,7 @@ pub struct ParamSet {
 #[derive(Debug, Clone, Default, Deserialize)]
 #[serde(deny_unknown_fields, rename_all = "kebab-case")]
 pub struct Parameters {
+    /// `[parameters.field]`: every well, every zone.
     #[serde(default)]
     pub field: ParamSet,
     /// By zone name.
@@ -213,31 +214,53 @@ fn default_archie() -> ArchieParams {
 /// Parameters of one well and zone with every default filled in.
 #[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct ZoneParams {
+    /// `gr-clean-gapi`: clean-sand gamma ray, gAPI; `None`: picked from the well's GR.
     pub gr_clean_gapi: Option<f64>,
+    /// `gr-shale-gapi`: shale gamma ray, gAPI; `None`: picked from the well's GR.
     pub gr_shale_gapi: Option<f64>,
+    /// `gr-pick-percentiles`: [low, high] percentiles of the automatic GR picks, 0-100. Default [5, 95].
     pub gr_pick_percentiles: [f64; 2],
+    /// `shale-model`: the gamma-ray transform to VSH. Default linear.
     pub shale_model: ShaleModel,
+    /// `neutron-density-shale`: also take VSH from neutron-density separation, keeping the smaller. Default false.
     pub neutron_density_shale: bool,
+    /// `rho-matrix-gcc`: matrix density, g/cm3. Default from the `matrix` preset (sandstone 2.65).
     pub rho_matrix_gcc: f64,
+    /// `rho-fluid-gcc`: pore-fluid density, g/cm3. Default 1.0.
     pub rho_fluid_gcc: f64,
+    /// `rho-shale-gcc`: shale bulk density, g/cm3; `None` when not set (the density methods then fail the well).
     pub rho_shale_gcc: Option<f64>,
+    /// `nphi-shale-vv`: neutron porosity in shale, v/v; `None` when not set (neutron-density methods then fail the well).
     pub nphi_shale_vv: Option<f64>,
+    /// `dt-matrix-usft`: matrix transit time, us/ft. Default from the `matrix` preset (sandstone 55.5).
     pub dt_matrix_usft: f64,
+    /// `dt-fluid-usft`: pore-fluid transit time, us/ft. Default 189.
     pub dt_fluid_usft: f64,
+    /// `dt-shale-usft`: shale transit time, us/ft; `None` when not set (the sonic methods then fail the well).
     pub dt_shale_usft: Option<f64>,
+    /// `porosity-method`. Default density.
     pub porosity_method: PorosityMethod,
+    /// `phi-max-vv`: upper bound of total porosity, v/v. Default 0.5.
     pub phi_max_vv: f64,
+    /// `rw-ohmm`: formation-water resistivity, ohm.m; `None` when set at no level (the well then fails).
     pub rw_ohmm: Option<f64>,
+    /// `rw-temperature-c`: temperature `rw-ohmm` is given at, °C; `None`: Rw is taken as at formation temperature.
     pub rw_temperature_c: Option<f64>,
+    /// `surface-temperature-c`: surface temperature, °C. Default 15.
     pub surface_temperature_c: f64,
+    /// `geothermal-gradient-c-per-m`: °C per metre of TVD; `None`: from the header's BHT and TD when needed.
     pub geothermal_gradient_c_per_m: Option<f64>,
     /// Not in the summary (written with the class table); a merged shard
     /// report gets the default here, never read after the wells are done.
     #[serde(skip, default = "default_archie")]
     pub archie: ArchieParams,
+    /// `saturation-model`. Default archie.
     pub saturation_model: SaturationModel,
+    /// `rsh-ohmm`: shale resistivity, ohm.m; `None` when not set (the shaly-sand models then fail the well).
     pub rsh_ohmm: Option<f64>,
+    /// `bad-hole-in`: bad hole where caliper exceeds bit size by more than this, in. Default 1.0.
     pub bad_hole_in: f64,
+    /// `bit-size-in`: bit size, in, where there is no BS curve; `None` when neither set nor in the ~P section (BS).
     pub bit_size_in: Option<f64>,
 }
 

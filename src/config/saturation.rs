@@ -361,10 +361,15 @@ impl ContactsConfig {
 /// memory). Overridable in the config.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum FluidSystem {
+    /// Mercury-air (lab): σ 480 dyn/cm, θ 140°.
     MercuryAir,
+    /// Air-brine (lab): σ 72 dyn/cm, θ 0°.
     AirBrine,
+    /// Oil-brine in the lab: σ 48 dyn/cm, θ 30°.
     OilBrineLab,
+    /// Oil-brine at reservoir conditions: σ 30 dyn/cm, θ 30°.
     OilBrineReservoir,
+    /// Gas-brine at reservoir conditions: σ 50 dyn/cm, θ 0°.
     GasBrineReservoir,
 }
 

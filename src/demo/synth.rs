@@ -1626,8 +1626,5 @@ mod tests {
         let md = scenario_markdown(&f);
         assert!(md.contains("synthetic") && md.contains("0.60 m deeper"));
         assert!(md.contains("| Tarnby-8 | M |"));
-        let t = std::time::Instant::now();
-        let _ = generate(7);
-        eprintln!("generate took {:?}", t.elapsed());
     }
 }

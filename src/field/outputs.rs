@@ -2,6 +2,7 @@
 //! model and residual comparison (`saturation/`), and the contact audit's
 //! field view (`contacts.csv`, `contacts.json`).
 
+use crate::output::messages::note;
 use std::path::Path;
 
 use crate::config::Config;
@@ -66,7 +67,7 @@ pub(crate) fn saturation_outputs(
         .collect::<Vec<String>>();
     for (well, msg) in marked {
         if progress {
-            eprintln!("saturation-height: {well}: {msg}");
+            note!("saturation-height: {well}: {msg}");
         }
         if let Some(r) = reports
             .iter_mut()
@@ -102,7 +103,7 @@ pub(crate) fn contact_outputs(
     if progress {
         for v in &contact_view {
             if !v.not_lined_up.is_empty() {
-                eprintln!(
+                note!(
                     "contacts: compartment {}: wells not lined up with FWL {:.1}: {}",
                     v.name,
                     v.fwl_tvdss,
@@ -112,7 +113,7 @@ pub(crate) fn contact_outputs(
         }
         let count = |k| steps.iter().filter(|s| s.kind == k).count();
         use crate::contacts::StepKind as K;
-        eprintln!(
+        note!(
             "contacts: {} steps: {} rock-quality, {} fluid-contact, {} unexplained, {} flagged (contacts.csv)",
             steps.len(),
             count(K::RockQuality),

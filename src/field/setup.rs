@@ -2,6 +2,7 @@
 //! tables loaded, the class model trained or loaded, the saturation-height
 //! model built.
 
+use crate::output::messages::note;
 use std::path::{Path, PathBuf};
 
 use crate::config::Config;
@@ -181,7 +182,7 @@ fn report_model(m: &crate::sat_height::SatHeightModel) {
             Some(b) => format!("borrowed from class {b}"),
             None => format!("{} points from {}", c.points, c.plugs.join(", ")),
         };
-        eprintln!(
+        note!(
             "saturation-height: class {} J-function {} (rms Sw {:.3}), {how}",
             c.class,
             c.curve.form_name(),
@@ -190,9 +191,12 @@ fn report_model(m: &crate::sat_height::SatHeightModel) {
     }
     for p in m.plugs.iter().filter(|p| p.suggested_class.is_some()) {
         if let (Some(k), Some((_, r))) = (p.suggested_class, p.best_other) {
-            eprintln!(
+            note!(
                 "saturation-height: plug {} (class {}) fits class {k}'s curve better (rms Sw {r:.3} against {:.3}); to accept: [capillary.plug-class] \"{}\" = {k}",
-                p.sample, p.class, p.rms_own, p.sample
+                p.sample,
+                p.class,
+                p.rms_own,
+                p.sample
             );
         }
     }
@@ -200,21 +204,28 @@ fn report_model(m: &crate::sat_height::SatHeightModel) {
         let sigma = c
             .fwl_sigma
             .map_or_else(String::new, |s| format!(" ± {s:.2}"));
-        eprintln!(
+        note!(
             "saturation-height: compartment {}: FWL {:.2}{sigma} TVDSS ({}), water {:.3} / hydrocarbon {:.3} g/cm3 ({})",
-            c.name, c.fwl_tvdss, c.source, c.rho_water_gcc, c.rho_hc_gcc, c.density_source
+            c.name,
+            c.fwl_tvdss,
+            c.source,
+            c.rho_water_gcc,
+            c.rho_hc_gcc,
+            c.density_source
         );
     }
     for r in &m.plugs_rejected {
-        eprintln!(
+        note!(
             "saturation-height: capillary row or plug left out, line {}: {}",
-            r.line, r.reason
+            r.line,
+            r.reason
         );
     }
     for r in &m.pressure_points_left_out {
-        eprintln!(
+        note!(
             "saturation-height: pressure point left out, line {}: {}",
-            r.line, r.reason
+            r.line,
+            r.reason
         );
     }
 }

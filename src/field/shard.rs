@@ -13,6 +13,7 @@
 //! a single run, so N shards + merge give a single run's files byte for byte
 //! (the manifest aside, which records the shards' times and hosts).
 
+use crate::output::messages::note;
 use std::path::{Component, Path, PathBuf};
 use std::str::FromStr;
 use std::time::SystemTime;
@@ -38,7 +39,9 @@ const STATE_MAGIC: &[u8] = b"flowzone shard state\n";
 /// Which shard to run: K of N, 1-based.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct ShardSpec {
+    /// This shard, 1 to `n`.
     pub k: usize,
+    /// Number of shards.
     pub n: usize,
 }
 
@@ -51,8 +54,11 @@ pub enum ShardSpecError {
     /// K or N is not a whole number.
     #[error("`{spec}`: {what} `{text}` is not a whole number")]
     NotANumber {
+        /// The `--shard` value as given.
         spec: String,
+        /// Which part is wrong: "K" or "N".
         what: &'static str,
+        /// The part as given.
         text: String,
     },
     /// N is 0 or above [`MAX_SHARDS`].
@@ -60,7 +66,12 @@ pub enum ShardSpecError {
     BadN(String),
     /// K is 0 or above N.
     #[error("`{spec}`: K must be 1 to N ({n})")]
-    BadK { spec: String, n: usize },
+    BadK {
+        /// The `--shard` value as given.
+        spec: String,
+        /// N, the number of shards.
+        n: usize,
+    },
 }
 
 impl FromStr for ShardSpec {
@@ -164,8 +175,11 @@ fn config_sha(config: &Config) -> String {
 /// The outcome of one shard run.
 #[derive(Debug)]
 pub struct ShardOutcome {
+    /// What the shard ran: K of N, wells, host, threads, times.
     pub run: ShardRun,
+    /// Reports of the shard's wells.
     pub reports: Vec<WellReport>,
+    /// The state file written for `merge`.
     pub state_file: PathBuf,
     /// Whether the shard trained the class model itself (every shard then
     /// trains the same one: train once and share it instead).
@@ -189,7 +203,7 @@ pub fn run_shard(
         .collect();
     if progress {
         let bytes: u64 = indices.iter().map(|&i| sizes[i]).sum();
-        eprintln!(
+        note!(
             "shard {spec}: {} of {} wells, {:.1} MB",
             indices.len(),
             files.len(),
@@ -483,7 +497,7 @@ pub fn merge(
     }
     runs.sort_by_key(|r| r.shard);
     if progress {
-        eprintln!("merge: {n} shards, {} wells", all.len());
+        note!("merge: {n} shards, {} wells", all.len());
     }
     field::finish(config, out, setup, all, started, runs, progress)
 }

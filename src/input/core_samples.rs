@@ -24,6 +24,8 @@ pub const MAX_CORE_POROSITY: f64 = 0.5;
 /// One core sample.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct CoreSample {
+    /// Well name as given: the trimmed WELL column, or the first word after
+    /// an SPWLA record 10.
     pub well: String,
     /// Measured depth, project depth unit (before any core-to-log shift).
     pub depth: f64,
@@ -31,7 +33,9 @@ pub struct CoreSample {
     pub porosity: f64,
     /// Permeability, mD.
     pub perm_md: f64,
+    /// Grain density, g/cm3; `None` when not given or NaN.
     pub grain_density_gcc: Option<f64>,
+    /// SAMPLE_TYPE of the CSV; `None` when blank or absent, and always for SPWLA.
     pub sample_type: Option<String>,
     /// 1-based line of the sample in its file.
     pub line: u64,
@@ -40,15 +44,20 @@ pub struct CoreSample {
 /// A row that was left out, and why.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Rejected {
+    /// 1-based line of the row (for SPWLA, of the line after the record's code line).
     pub line: u64,
+    /// Why the row was left out.
     pub reason: String,
 }
 
 /// What a core file gave.
 #[derive(Debug, Clone, Serialize)]
 pub struct CoreData {
+    /// The core file read.
     pub file: PathBuf,
+    /// Samples kept, in file order.
     pub samples: Vec<CoreSample>,
+    /// Rows left out, in file order.
     pub rejected: Vec<Rejected>,
     /// How porosity was read: "fraction" or "percent", and why.
     pub porosity_unit: String,
@@ -57,16 +66,26 @@ pub struct CoreData {
 /// An error that stops reading a core file.
 #[derive(Debug, thiserror::Error)]
 pub enum CoreError {
+    /// The core CSV cannot be read, or its header or a row does not parse.
     #[error(transparent)]
     Table(#[from] TableError),
+    /// The SPWLA file cannot be read.
     #[error("cannot read `{}`", .path.display())]
     Io {
+        /// The SPWLA file.
         path: PathBuf,
+        /// The I/O error.
         #[source]
         source: std::io::Error,
     },
+    /// The SPWLA file has no record 15, or a record 15 without a count or cut short.
     #[error("{}: {message}", .path.display())]
-    Format { path: PathBuf, message: String },
+    Format {
+        /// The SPWLA file.
+        path: PathBuf,
+        /// What is wrong, with the line number where there is one.
+        message: String,
+    },
 }
 
 #[derive(serde::Deserialize)]
@@ -227,7 +246,9 @@ pub fn read_core_csv(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreErro
 /// A variable of an SPWLA file's record 15.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct SpwlaVariable {
+    /// The variable's code: the first word of its line.
     pub code: String,
+    /// The text after the last run of three spaces on its line.
     pub description: String,
 }
 

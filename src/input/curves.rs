@@ -20,13 +20,21 @@ use crate::units::{Conversion, DepthUnit, Quantity};
 )]
 #[serde(rename_all = "kebab-case")]
 pub enum LogicalCurve {
+    /// Natural gamma ray; gAPI once resolved.
     GammaRay,
+    /// Bulk density; g/cm3 once resolved.
     BulkDensity,
+    /// Neutron porosity; v/v (fraction) once resolved.
     NeutronPorosity,
+    /// Compressional sonic slowness; us/ft once resolved.
     CompressionalSlowness,
+    /// Deep resistivity, read as true formation resistivity; ohm.m once resolved.
     DeepResistivity,
+    /// Borehole diameter from the caliper; inches once resolved.
     Caliper,
+    /// Spontaneous potential; mV once resolved.
     SpontaneousPotential,
+    /// Bit size (nominal hole diameter); inches once resolved.
     BitSize,
 }
 
@@ -85,6 +93,8 @@ impl LogicalCurve {
         }
     }
 
+    /// The quantity the curve measures, which sets its canonical unit and
+    /// the unit spellings accepted for it.
     pub fn quantity(self) -> Quantity {
         match self {
             LogicalCurve::GammaRay => Quantity::GammaRay,
@@ -151,6 +161,7 @@ impl AliasTable {
 /// A curve found in a file and converted to canonical units.
 #[derive(Debug, Clone)]
 pub struct ResolvedCurve {
+    /// The measurement that was looked for.
     pub logical: LogicalCurve,
     /// The file's (unique) mnemonic.
     pub mnemonic: String,
@@ -163,15 +174,30 @@ pub struct ResolvedCurve {
 /// Why a logical curve could not be resolved.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum CurveError {
+    /// None of the curve's aliases is a mnemonic of the file.
     #[error("no {} curve: tried {}", .curve.key(), .tried.join(", "))]
     Missing {
+        /// The measurement looked for.
         curve: LogicalCurve,
+        /// The aliases tried, in order.
         tried: Vec<String>,
     },
+    /// The curve's unit is not a known spelling for its quantity.
     #[error("{} curve {mnemonic} has unit `{unit}`, which is not a known {} unit", .curve.key(), quantity_name(.curve.quantity()))]
     UnknownUnit {
+        /// The measurement resolved.
         curve: LogicalCurve,
+        /// The file's mnemonic of the curve.
         mnemonic: String,
+        /// The unit as read, or as overridden in `[curves.units]`.
+        unit: String,
+    },
+    /// The index curve's unit is not a depth unit ([`resolve_depth`]).
+    #[error("index curve {mnemonic} has unit `{unit}`, which is not a known depth unit")]
+    UnknownDepthUnit {
+        /// The file's mnemonic of the index curve (empty when the file has no curves).
+        mnemonic: String,
+        /// The unit as read.
         unit: String,
     },
 }
@@ -231,8 +257,7 @@ pub fn resolve(
 pub fn resolve_depth(file: &LasFile, depth: DepthUnit) -> Result<Vec<f64>, CurveError> {
     let unit = file.index_unit().to_string();
     let conversion = Conversion::from_unit(Quantity::Depth, &unit, depth).ok_or_else(|| {
-        CurveError::UnknownUnit {
-            curve: LogicalCurve::GammaRay,
+        CurveError::UnknownDepthUnit {
             mnemonic: file
                 .curves
                 .first()
@@ -260,6 +285,21 @@ mod tests {
             ReadOptions::default(),
         )
         .expect("valid test file")
+    }
+
+    /// An index in an unknown unit is named as the index and its depth
+    /// unit, not as a gamma-ray curve (it used to borrow GammaRay's wording).
+    #[test]
+    fn unknown_index_unit_names_the_index() {
+        let f = file("DEPT.FURLONG :\nGR.GAPI :\n", "100 50");
+        let e = resolve_depth(&f, DepthUnit::Metre).expect_err("furlongs");
+        assert_eq!(
+            e.to_string(),
+            "index curve DEPT has unit `FURLONG`, which is not a known depth unit"
+        );
+        let f = file("DEPT.FT :\nGR.GAPI :\n", "100 50");
+        let d = resolve_depth(&f, DepthUnit::Metre).expect("feet");
+        assert!((d[0] - 30.48).abs() < 1e-9, "{d:?}"); // 100 ft = 30.48 m exactly
     }
 
     #[test]

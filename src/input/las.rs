@@ -51,9 +51,11 @@ pub struct CurveInfo {
     pub mnemonic: String,
     /// The mnemonic as written in the file.
     pub original_mnemonic: String,
+    /// The unit as written (empty when the line gives none).
     pub unit: String,
     /// The data field of the ~C line (an API log code in most files).
     pub api_code: String,
+    /// The description after the colon.
     pub description: String,
     /// 1-based line number of the ~C line.
     pub line: usize,
@@ -62,12 +64,17 @@ pub struct CurveInfo {
 /// A LAS file as read: header sections, curves and data (column per curve).
 #[derive(Debug, Clone, serde::Serialize)]
 pub struct LasFile {
+    /// VERS of ~V: 1.2 or 2.0.
     pub version: Version,
     /// Whether ~A was wrapped in the file.
     pub wrapped: bool,
+    /// The ~V lines.
     pub version_items: Vec<HeaderItem>,
+    /// The ~W lines (LAS 1.2 values moved from the description field).
     pub well_items: Vec<HeaderItem>,
+    /// The ~C curves in file order, the index first.
     pub curves: Vec<CurveInfo>,
+    /// The ~P lines.
     pub params: Vec<HeaderItem>,
     /// ~O text, as written.
     pub other: String,
@@ -78,6 +85,7 @@ pub struct LasFile {
     pub columns: Vec<Vec<f64>>,
     /// True when the file's index decreased and the rows were reversed.
     pub index_reversed: bool,
+    /// What the reader tolerated or patched, by line where it has one.
     pub warnings: Vec<Warning>,
 }
 
@@ -91,6 +99,7 @@ pub struct ReadOptions {
     /// Turn header/data contradictions (STRT, STOP, STEP, a non-monotonic index,
     /// ~A column names) into errors instead of warnings.
     pub strict: bool,
+    /// Size limits that refuse a hostile or runaway file.
     pub limits: Limits,
 }
 
@@ -243,6 +252,20 @@ enum Section {
     Unknown,
 }
 
+/// The header sections as read, before they are checked.
+#[derive(Default)]
+struct HeaderScan {
+    /// Sections met so far: V W C P O A.
+    seen: [bool; 6],
+    version_items: Vec<HeaderItem>,
+    well_items: Vec<HeaderItem>,
+    curve_items: Vec<HeaderItem>,
+    params: Vec<HeaderItem>,
+    other: String,
+    /// Where the data start: byte offset, line, the ~A line's title.
+    data_start: Option<(usize, usize, String)>,
+}
+
 struct Reader<'a> {
     name: &'a Path,
     options: ReadOptions,
@@ -296,217 +319,25 @@ impl Reader<'_> {
         if bytes.iter().all(|b| b.is_ascii_whitespace()) {
             return Err(self.file_err(FileError::Empty));
         }
-
-        let mut section = Section::None;
-        let mut seen = [false; 6]; // V W C P O A
-        let mut version_items = Vec::new();
-        let mut well_items = Vec::new();
-        let mut curve_items: Vec<HeaderItem> = Vec::new();
-        let mut params = Vec::new();
-        let mut other = String::new();
-        let mut non_utf8: Option<(usize, usize)> = None; // first line, count
-        let mut data_start: Option<(usize, usize, String)> = None; // byte offset, line, ~A title
-
-        let mut pos = 0usize;
-        let mut line_no = 0usize;
-        while pos < bytes.len() {
-            line_no += 1;
-            let limits = self.options.limits;
-            if line_no > limits.max_header_lines {
-                return Err(self.line_err(
-                    line_no,
-                    LineError::TooManyHeaderLines {
-                        limit: limits.max_header_lines,
-                    },
-                ));
-            }
-            let end = memchr_newline(bytes, pos);
-            if end - pos > limits.max_header_line_bytes {
-                return Err(self.line_err(
-                    line_no,
-                    LineError::HeaderLineTooLong {
-                        bytes: end - pos,
-                        limit: limits.max_header_line_bytes,
-                    },
-                ));
-            }
-            let raw = &bytes[pos..end];
-            let next = (end + 1).min(bytes.len());
-            let raw = raw.strip_suffix(b"\r").unwrap_or(raw);
-            let text = match std::str::from_utf8(raw) {
-                Ok(t) => std::borrow::Cow::Borrowed(t),
-                Err(_) => {
-                    if let Some(&b) = raw.iter().find(|&&b| b < 0x20 && b != b'\t') {
-                        return Err(self.file_err(FileError::BadText {
-                            line: line_no,
-                            byte: b,
-                        }));
-                    }
-                    non_utf8 = Some(non_utf8.map_or((line_no, 1), |(l, n)| (l, n + 1)));
-                    let (decoded, _, _) = encoding_rs::WINDOWS_1252.decode(raw);
-                    std::borrow::Cow::Owned(decoded.into_owned())
-                }
-            };
-            let trimmed = text.trim();
-            if let Some(title) = trimmed.strip_prefix('~') {
-                let letter = title
-                    .chars()
-                    .next()
-                    .map(|c| c.to_ascii_uppercase())
-                    .unwrap_or(' ');
-                let upper = title.to_ascii_uppercase();
-                if upper.contains("_DEFINITION")
-                    || upper.contains("_DATA")
-                    || upper.contains("_PARAMETER")
-                    || upper.contains('|')
-                {
-                    return Err(self.line_err(line_no, LineError::Las3Section(format!("~{title}"))));
-                }
-                let slot = match letter {
-                    'V' => Some((0, Section::Version)),
-                    'W' => Some((1, Section::Well)),
-                    'C' => Some((2, Section::Curve)),
-                    'P' => Some((3, Section::Param)),
-                    'O' => Some((4, Section::Other)),
-                    'A' => Some((5, Section::None)),
-                    _ => None,
-                };
-                match slot {
-                    Some((i, s)) => {
-                        if seen[i] {
-                            return Err(self.line_err(line_no, LineError::RepeatedSection(letter)));
-                        }
-                        seen[i] = true;
-                        if letter == 'A' {
-                            data_start = Some((next, line_no + 1, title.trim().to_string()));
-                            break;
-                        }
-                        section = s;
-                        if section == Section::Version {
-                            // the version section's title may carry text (a producer banner)
-                        }
-                    }
-                    None => {
-                        self.warn(
-                            Some(line_no),
-                            format!(
-                                "section `~{title}` is not a LAS 2.0 section; its lines are skipped"
-                            ),
-                        );
-                        section = Section::Unknown;
-                    }
-                }
-                pos = next;
-                continue;
-            }
-            match section {
-                Section::Other => {
-                    other.push_str(&text);
-                    other.push('\n');
-                }
-                _ if trimmed.is_empty() => {}
-                _ if trimmed.starts_with('#') => {}
-                Section::None => {
-                    self.warn(Some(line_no), "text before the first section is skipped");
-                }
-                Section::Unknown => {}
-                Section::Curve => {
-                    let clean = text.replace('\t', " ");
-                    let (item, note) = header::parse_curve_line(&clean, line_no)
-                        .map_err(|e| self.line_err(line_no, e))?;
-                    if note == header::SplitNote::UnitWithSpace {
-                        self.warn(
-                            Some(line_no),
-                            format!(
-                                "unit of {} read as `{}` (a unit written with a space)",
-                                item.mnemonic, item.unit
-                            ),
-                        );
-                    }
-                    if curve_items.len() >= self.options.limits.max_curves {
-                        return Err(self.line_err(
-                            line_no,
-                            LineError::TooManyCurves {
-                                limit: self.options.limits.max_curves,
-                            },
-                        ));
-                    }
-                    curve_items.push(item);
-                }
-                Section::Version | Section::Well | Section::Param => {
-                    let clean = text.replace('\t', " ");
-                    match header::split_header_line(&clean) {
-                        Some(split) if !split.mnemonic.is_empty() => {
-                            let item = header::to_item(&split, line_no);
-                            match section {
-                                Section::Version => version_items.push(item),
-                                Section::Well => well_items.push(item),
-                                _ => params.push(item),
-                            }
-                        }
-                        _ if section == Section::Version => {
-                            return Err(self.line_err(line_no, LineError::VersionLineNoDot));
-                        }
-                        _ => self.warn(
-                            Some(line_no),
-                            format!("header line `{trimmed}` has no `MNEM.` part; skipped"),
-                        ),
-                    }
-                }
-            }
-            pos = next;
-        }
-
-        if let Some((line, count)) = non_utf8 {
-            self.warn(
-                Some(line),
-                format!("{count} header line(s) are not UTF-8; read as Windows-1252"),
-            );
-        }
-
-        // ~V: version and wrap
-        if !seen[0] {
-            return Err(self.file_err(FileError::MissingSection('V')));
-        }
-        let vers = version_items
-            .iter()
-            .find(|i| i.mnemonic.eq_ignore_ascii_case("VERS"))
-            .ok_or_else(|| self.file_err(FileError::MissingVersion))?;
-        let version = match vers.value.parse::<f64>() {
-            Ok(v) if (v - 1.2).abs() < 1e-9 => Version::V1_2,
-            Ok(v) if (v - 2.0).abs() < 1e-9 => Version::V2_0,
-            _ => {
-                return Err(
-                    self.line_err(vers.line, LineError::UnsupportedVersion(vers.value.clone()))
-                );
-            }
-        };
-        let wrap = version_items
-            .iter()
-            .find(|i| i.mnemonic.eq_ignore_ascii_case("WRAP"))
-            .ok_or_else(|| self.file_err(FileError::MissingWrap))?;
-        let wrapped = match wrap.value.to_ascii_uppercase().as_str() {
-            "YES" => true,
-            "NO" => false,
-            _ => return Err(self.line_err(wrap.line, LineError::BadWrap(wrap.value.clone()))),
-        };
-        if !seen[1] {
+        let mut head = self.scan_header(bytes)?;
+        let (version, wrapped) = self.version_and_wrap(&head)?;
+        if !head.seen[1] {
             return Err(self.file_err(FileError::MissingSection('W')));
         }
-        if !seen[2] {
+        if !head.seen[2] {
             return Err(self.file_err(FileError::MissingSection('C')));
         }
-        if curve_items.is_empty() {
+        if head.curve_items.is_empty() {
             return Err(self.file_err(FileError::NoCurves));
         }
-        let Some((data_pos, data_line, a_title)) = data_start else {
+        let Some((data_pos, data_line, a_title)) = head.data_start.take() else {
             return Err(self.file_err(FileError::MissingSection('A')));
         };
 
         // LAS 1.2 keeps the ~W value in the description field (except the index
         // and NULL lines): move it to the value.
         if version == Version::V1_2 {
-            for item in &mut well_items {
+            for item in &mut head.well_items {
                 let keep = ["STRT", "STOP", "STEP", "NULL"]
                     .iter()
                     .any(|m| item.mnemonic.eq_ignore_ascii_case(m));
@@ -515,56 +346,8 @@ impl Reader<'_> {
                 }
             }
         }
-
-        let null_value = match well_items
-            .iter()
-            .find(|i| i.mnemonic.eq_ignore_ascii_case("NULL"))
-        {
-            Some(item) if !item.value.is_empty() => Some(
-                item.value
-                    .parse::<f64>()
-                    .ok()
-                    .filter(|v| v.is_finite())
-                    .ok_or_else(|| {
-                        self.line_err(
-                            item.line,
-                            LineError::BadHeaderNumber {
-                                mnemonic: "NULL".into(),
-                                text: item.value.clone(),
-                            },
-                        )
-                    })?,
-            ),
-            _ => {
-                self.warn(
-                    None,
-                    "~W declares no NULL value; only NaN is read as missing",
-                );
-                None
-            }
-        };
-
-        if let (Some(v), Some(item)) = (
-            null_value,
-            well_items
-                .iter()
-                .find(|i| i.mnemonic.eq_ignore_ascii_case("NULL")),
-        ) {
-            // a NULL that real logs take (0 for SP or porosity, 1 for a
-            // ratio) turns true readings into gaps; the usual values are
-            // -999.25, -9999 and the like (common practice)
-            if v.is_finite() && v.abs() < PLAUSIBLE_NULL_MIN_ABS {
-                let line = item.line;
-                self.warn(
-                    Some(line),
-                    format!(
-                        "NULL is {v}, a value real logs take: every sample equal to it is read as missing; check the file's NULL"
-                    ),
-                );
-            }
-        }
-
-        let curves = self.unique_curves(curve_items);
+        let null_value = self.null_value(&head.well_items)?;
+        let curves = self.unique_curves(std::mem::take(&mut head.curve_items));
 
         // ~A: the data, up to the next section line (LAS 2.0 puts ~A last)
         let rest = &bytes[data_pos.min(bytes.len())..];
@@ -576,7 +359,7 @@ impl Reader<'_> {
                 "a section follows ~A; LAS 2.0 puts ~A last, so the rest of the file is skipped",
             );
         }
-        let hint = rows_hint(&well_items, data_bytes.len(), curves.len(), wrapped);
+        let hint = rows_hint(&head.well_items, data_bytes.len(), curves.len(), wrapped);
         let parsed = data::parse_data(
             data_bytes,
             data_line,
@@ -619,11 +402,11 @@ impl Reader<'_> {
         let mut file = LasFile {
             version,
             wrapped,
-            version_items,
-            well_items,
+            version_items: head.version_items,
+            well_items: head.well_items,
             curves,
-            params,
-            other,
+            params: head.params,
+            other: head.other,
             null_value,
             columns,
             index_reversed,
@@ -632,6 +415,265 @@ impl Reader<'_> {
         self.check_range(&file, parsed.scan.first_break.is_none())?;
         file.warnings = self.warnings;
         Ok(file)
+    }
+
+    /// Read the header sections line by line up to `~A`, within the limits:
+    /// items by section, the ~O text, and where the data start.
+    fn scan_header(&mut self, bytes: &[u8]) -> Result<HeaderScan, LasError> {
+        let mut head = HeaderScan::default();
+        let mut section = Section::None;
+        let mut non_utf8: Option<(usize, usize)> = None; // first line, count
+        let mut pos = 0usize;
+        let mut line_no = 0usize;
+        while pos < bytes.len() {
+            line_no += 1;
+            let limits = self.options.limits;
+            if line_no > limits.max_header_lines {
+                return Err(self.line_err(
+                    line_no,
+                    LineError::TooManyHeaderLines {
+                        limit: limits.max_header_lines,
+                    },
+                ));
+            }
+            let end = memchr_newline(bytes, pos);
+            if end - pos > limits.max_header_line_bytes {
+                return Err(self.line_err(
+                    line_no,
+                    LineError::HeaderLineTooLong {
+                        bytes: end - pos,
+                        limit: limits.max_header_line_bytes,
+                    },
+                ));
+            }
+            let raw = &bytes[pos..end];
+            let next = (end + 1).min(bytes.len());
+            let raw = raw.strip_suffix(b"\r").unwrap_or(raw);
+            let text = match std::str::from_utf8(raw) {
+                Ok(t) => std::borrow::Cow::Borrowed(t),
+                Err(_) => {
+                    if let Some(&b) = raw.iter().find(|&&b| b < 0x20 && b != b'\t') {
+                        return Err(self.file_err(FileError::BadText {
+                            line: line_no,
+                            byte: b,
+                        }));
+                    }
+                    non_utf8 = Some(non_utf8.map_or((line_no, 1), |(l, n)| (l, n + 1)));
+                    let (decoded, _, _) = encoding_rs::WINDOWS_1252.decode(raw);
+                    std::borrow::Cow::Owned(decoded.into_owned())
+                }
+            };
+            let trimmed = text.trim();
+            if let Some(title) = trimmed.strip_prefix('~') {
+                match self.section_title(title, line_no, &mut head.seen)? {
+                    None => {
+                        head.data_start = Some((next, line_no + 1, title.trim().to_string()));
+                        break;
+                    }
+                    Some(s) => section = s,
+                }
+            } else {
+                self.header_line(section, &text, line_no, &mut head)?;
+            }
+            pos = next;
+        }
+        if let Some((line, count)) = non_utf8 {
+            self.warn(
+                Some(line),
+                format!("{count} header line(s) are not UTF-8; read as Windows-1252"),
+            );
+        }
+        Ok(head)
+    }
+
+    /// A `~` line: the section it opens, or `None` for `~A` (the data follow).
+    /// A repeated section or a LAS 3.0 section title is an error; an unknown
+    /// section is skipped with a warning.
+    fn section_title(
+        &mut self,
+        title: &str,
+        line_no: usize,
+        seen: &mut [bool; 6],
+    ) -> Result<Option<Section>, LasError> {
+        let letter = title
+            .chars()
+            .next()
+            .map(|c| c.to_ascii_uppercase())
+            .unwrap_or(' ');
+        let upper = title.to_ascii_uppercase();
+        if upper.contains("_DEFINITION")
+            || upper.contains("_DATA")
+            || upper.contains("_PARAMETER")
+            || upper.contains('|')
+        {
+            return Err(self.line_err(line_no, LineError::Las3Section(format!("~{title}"))));
+        }
+        let slot = match letter {
+            'V' => Some((0, Section::Version)),
+            'W' => Some((1, Section::Well)),
+            'C' => Some((2, Section::Curve)),
+            'P' => Some((3, Section::Param)),
+            'O' => Some((4, Section::Other)),
+            'A' => Some((5, Section::None)),
+            _ => None,
+        };
+        match slot {
+            Some((i, s)) => {
+                if seen[i] {
+                    return Err(self.line_err(line_no, LineError::RepeatedSection(letter)));
+                }
+                seen[i] = true;
+                // the version section's title may carry text (a producer banner)
+                Ok((letter != 'A').then_some(s))
+            }
+            None => {
+                self.warn(
+                    Some(line_no),
+                    format!("section `~{title}` is not a LAS 2.0 section; its lines are skipped"),
+                );
+                Ok(Some(Section::Unknown))
+            }
+        }
+    }
+
+    /// One line inside a header section, into `head`.
+    fn header_line(
+        &mut self,
+        section: Section,
+        text: &str,
+        line_no: usize,
+        head: &mut HeaderScan,
+    ) -> Result<(), LasError> {
+        let trimmed = text.trim();
+        match section {
+            Section::Other => {
+                head.other.push_str(text);
+                head.other.push('\n');
+            }
+            _ if trimmed.is_empty() => {}
+            _ if trimmed.starts_with('#') => {}
+            Section::None => {
+                self.warn(Some(line_no), "text before the first section is skipped");
+            }
+            Section::Unknown => {}
+            Section::Curve => {
+                let clean = text.replace('\t', " ");
+                let (item, note) = header::parse_curve_line(&clean, line_no)
+                    .map_err(|e| self.line_err(line_no, e))?;
+                if note == header::SplitNote::UnitWithSpace {
+                    self.warn(
+                        Some(line_no),
+                        format!(
+                            "unit of {} read as `{}` (a unit written with a space)",
+                            item.mnemonic, item.unit
+                        ),
+                    );
+                }
+                if head.curve_items.len() >= self.options.limits.max_curves {
+                    return Err(self.line_err(
+                        line_no,
+                        LineError::TooManyCurves {
+                            limit: self.options.limits.max_curves,
+                        },
+                    ));
+                }
+                head.curve_items.push(item);
+            }
+            Section::Version | Section::Well | Section::Param => {
+                let clean = text.replace('\t', " ");
+                match header::split_header_line(&clean) {
+                    Some(split) if !split.mnemonic.is_empty() => {
+                        let item = header::to_item(&split, line_no);
+                        match section {
+                            Section::Version => head.version_items.push(item),
+                            Section::Well => head.well_items.push(item),
+                            _ => head.params.push(item),
+                        }
+                    }
+                    _ if section == Section::Version => {
+                        return Err(self.line_err(line_no, LineError::VersionLineNoDot));
+                    }
+                    _ => self.warn(
+                        Some(line_no),
+                        format!("header line `{trimmed}` has no `MNEM.` part; skipped"),
+                    ),
+                }
+            }
+        }
+        Ok(())
+    }
+
+    /// ~V: the version (1.2 or 2.0) and whether the data are wrapped.
+    fn version_and_wrap(&self, head: &HeaderScan) -> Result<(Version, bool), LasError> {
+        if !head.seen[0] {
+            return Err(self.file_err(FileError::MissingSection('V')));
+        }
+        let vers = head
+            .version_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("VERS"))
+            .ok_or_else(|| self.file_err(FileError::MissingVersion))?;
+        let version = match vers.value.parse::<f64>() {
+            Ok(v) if (v - 1.2).abs() < 1e-9 => Version::V1_2,
+            Ok(v) if (v - 2.0).abs() < 1e-9 => Version::V2_0,
+            _ => {
+                return Err(
+                    self.line_err(vers.line, LineError::UnsupportedVersion(vers.value.clone()))
+                );
+            }
+        };
+        let wrap = head
+            .version_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("WRAP"))
+            .ok_or_else(|| self.file_err(FileError::MissingWrap))?;
+        let wrapped = match wrap.value.to_ascii_uppercase().as_str() {
+            "YES" => true,
+            "NO" => false,
+            _ => return Err(self.line_err(wrap.line, LineError::BadWrap(wrap.value.clone()))),
+        };
+        Ok((version, wrapped))
+    }
+
+    /// ~W NULL: the missing-value marker, `None` (with a warning) when the
+    /// file declares none; a warning too when real logs could take it.
+    fn null_value(&mut self, well_items: &[HeaderItem]) -> Result<Option<f64>, LasError> {
+        let item = well_items
+            .iter()
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("NULL"));
+        let Some(item) = item.filter(|i| !i.value.is_empty()) else {
+            self.warn(
+                None,
+                "~W declares no NULL value; only NaN is read as missing",
+            );
+            return Ok(None);
+        };
+        let v = item
+            .value
+            .parse::<f64>()
+            .ok()
+            .filter(|v| v.is_finite())
+            .ok_or_else(|| {
+                self.line_err(
+                    item.line,
+                    LineError::BadHeaderNumber {
+                        mnemonic: "NULL".into(),
+                        text: item.value.clone(),
+                    },
+                )
+            })?;
+        // a NULL that real logs take (0 for SP or porosity, 1 for a ratio)
+        // turns true readings into gaps; the usual values are -999.25, -9999
+        // and the like (common practice)
+        if v.abs() < PLAUSIBLE_NULL_MIN_ABS {
+            self.warn(
+                Some(item.line),
+                format!(
+                    "NULL is {v}, a value real logs take: every sample equal to it is read as missing; check the file's NULL"
+                ),
+            );
+        }
+        Ok(Some(v))
     }
 
     /// Make mnemonics unique: the first keeps its name, repeats get `_2`, `_3`...

@@ -9,16 +9,23 @@ use serde::de::DeserializeOwned;
 /// An error reading a CSV input.
 #[derive(Debug, thiserror::Error)]
 pub enum TableError {
+    /// The file cannot be opened.
     #[error("cannot read `{}`", .path.display())]
     Io {
+        /// The CSV file.
         path: PathBuf,
+        /// The I/O error.
         #[source]
         source: std::io::Error,
     },
+    /// The header or a row cannot be read, or a row holds a missing or bad value.
     #[error("{}:{line}: {message}", .path.display())]
     Row {
+        /// The CSV file.
         path: PathBuf,
+        /// 1-based line of the row (1 for the header; 0 when the reader gives no position).
         line: u64,
+        /// What is wrong, naming the 1-based column where known.
         message: String,
     },
 }

@@ -110,10 +110,14 @@ pub struct LasParts<'a> {
     /// ~W items (STRT, STOP, STEP, NULL among them are skipped: the writer
     /// takes those from the data).
     pub well_items: &'a [HeaderItem],
+    /// ~P items, written in order (no ~P section when empty).
     pub params: &'a [HeaderItem],
     /// ~O text.
     pub other: &'a str,
+    /// ~C lines, one per column, index first.
     pub curves: &'a [CurveInfo],
+    /// The data, one slice per curve in the same order; rows are those of the
+    /// index, and a non-finite or absent value is written as the NULL value.
     pub columns: &'a [&'a [f64]],
     /// Unit of the index (STRT, STOP, STEP).
     pub index_unit: &'a str,

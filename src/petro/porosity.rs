@@ -16,7 +16,9 @@ pub const RHO_FLUID_FRESH: f64 = 1.0;
 /// Matrix transit times, us/ft: sandstone, limestone, dolomite (Wyllie et al.
 /// 1956, values as quoted in formulas.md §2.3).
 pub const DT_MA_SANDSTONE: f64 = 55.5;
+/// Matrix transit time of limestone (calcite), us/ft.
 pub const DT_MA_LIMESTONE: f64 = 47.6;
+/// Matrix transit time of dolomite, us/ft.
 pub const DT_MA_DOLOMITE: f64 = 43.5;
 /// Fresh-filtrate transit time, us/ft (formulas.md §2.3, from memory).
 pub const DT_FLUID_FRESH: f64 = 189.0;
@@ -25,8 +27,11 @@ pub const DT_FLUID_FRESH: f64 = 189.0;
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Deserialize, serde::Serialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum Matrix {
+    /// Quartz sandstone ([`RHO_MA_SANDSTONE`], [`DT_MA_SANDSTONE`]).
     Sandstone,
+    /// Limestone, calcite ([`RHO_MA_LIMESTONE`], [`DT_MA_LIMESTONE`]).
     Limestone,
+    /// Dolomite ([`RHO_MA_DOLOMITE`], [`DT_MA_DOLOMITE`]).
     Dolomite,
 }
 

@@ -186,10 +186,14 @@ pub fn bulk_volume_water(phi: f64, sw: f64) -> f64 {
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Deserialize, serde::Serialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum SaturationModel {
+    /// Clean-formation Archie ([`archie`]); VSH and Rsh are not used.
     Archie,
+    /// Modified Simandoux ([`simandoux_modified`]); needs Rsh.
     SimandouxModified,
+    /// Original Simandoux 1963 ([`simandoux_1963`]); needs Rsh.
     #[serde(rename = "simandoux-1963")]
     Simandoux1963,
+    /// Indonesia, Poupon & Leveaux 1971 ([`indonesia`]); needs Rsh.
     Indonesia,
 }
 
@@ -205,6 +209,7 @@ impl SaturationModel {
         }
     }
 
+    /// The model's name as written in the config (kebab-case).
     pub fn name(self) -> &'static str {
         match self {
             SaturationModel::Archie => "archie",

@@ -10,13 +10,17 @@
 
 /// Larionov (1969), Tertiary rocks: VSH = A·(2^(B·IGR) − 1).
 pub const LARIONOV_TERTIARY_A: f64 = 0.083;
+/// Exponent factor B of the Tertiary Larionov curve (dimensionless).
 pub const LARIONOV_TERTIARY_B: f64 = 3.7;
 /// Larionov (1969), older (consolidated) rocks: VSH = A·(2^(B·IGR) − 1).
 pub const LARIONOV_OLDER_A: f64 = 0.33;
+/// Exponent factor B of the older-rock Larionov curve (dimensionless).
 pub const LARIONOV_OLDER_B: f64 = 2.0;
 /// Clavier, Hoyle & Meunier (1971): VSH = C1 − sqrt(C2 − (IGR + C3)²).
 pub const CLAVIER_C1: f64 = 1.7;
+/// Constant C2 of the Clavier curve (dimensionless).
 pub const CLAVIER_C2: f64 = 3.38;
+/// Constant C3 of the Clavier curve (dimensionless).
 pub const CLAVIER_C3: f64 = 0.7;
 
 /// Gamma-ray index IGR = (GR − GRclean)/(GRshale − GRclean), not clipped.

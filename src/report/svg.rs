@@ -182,10 +182,6 @@ impl Svg {
         self.width
     }
 
-    pub fn height(&self) -> f64 {
-        self.height
-    }
-
     /// A filled rectangle, optionally outlined.
     pub fn rect(&mut self, x: f64, y: f64, w: f64, h: f64, fill: &str, stroke: Option<Stroke>) {
         let (x, w) = if w < 0.0 { (x + w, -w) } else { (x, w) };
@@ -262,24 +258,6 @@ impl Svg {
         }
         flush(&mut run, &mut self.body);
         pieces
-    }
-
-    /// A closed, filled polygon (no outline).
-    pub fn polygon(&mut self, points: &[(f64, f64)], fill: &str, opacity: f64) {
-        if points.len() < 3 || points.iter().any(|(x, y)| !x.is_finite() || !y.is_finite()) {
-            return;
-        }
-        let pts: Vec<String> = points
-            .iter()
-            .map(|(x, y)| format!("{},{}", num(*x), num(*y)))
-            .collect();
-        let _ = write!(
-            self.body,
-            "<polygon fill=\"{}\" fill-opacity=\"{}\" points=\"{}\"/>",
-            escape(fill),
-            num(opacity),
-            pts.join(" ")
-        );
     }
 
     pub fn circle(&mut self, cx: f64, cy: f64, r: f64, fill: &str, stroke: Option<Stroke>) {

@@ -20,15 +20,20 @@ pub const PSI_PER_M_PER_GCC: f64 = 0.4335 / 0.3048;
 /// A least-squares line P = gradient·D + intercept.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Line {
+    /// Slope dP/dD of the line, psi/m.
     pub gradient_psi_per_m: f64,
+    /// Pressure the line gives at TVDSS 0, psi.
     pub intercept_psi: f64,
+    /// Number of points fitted.
     pub points: usize,
     /// RMS of the pressure residuals, psi.
     pub rms_psi: f64,
     /// Standard errors of gradient and intercept and their covariance
     /// (NaN with two points: no residual degrees of freedom).
     pub se_gradient: f64,
+    /// Standard error of the intercept, psi.
     pub se_intercept: f64,
+    /// Covariance of gradient and intercept, psi²/m.
     pub cov_gi: f64,
     /// Sum of squared residuals, psi².
     pub sse: f64,
@@ -72,7 +77,9 @@ pub struct FwlFit {
     pub lower: Line,
     /// Points in the upper leg (depth-sorted order: the first `split`).
     pub split: usize,
+    /// Depth where the two lines cross: the FWL, TVDSS m.
     pub fwl_tvdss_m: f64,
+    /// Pressure where the two lines cross, psi.
     pub fwl_pressure_psi: f64,
     /// One standard error of the FWL depth, m.
     pub fwl_sigma_m: f64,
@@ -94,9 +101,13 @@ pub enum FwlError {
         "the two legs are parallel: gradients {upper_psi_per_m:.4} and {lower_psi_per_m:.4} psi/m ({upper_gcc:.3} and {lower_gcc:.3} g/cm3) differ by less than {MIN_DENSITY_CONTRAST_GCC} g/cm3, so the points show one fluid and no free water level"
     )]
     Parallel {
+        /// Gradient of the upper leg, psi/m.
         upper_psi_per_m: f64,
+        /// Gradient of the lower leg, psi/m.
         lower_psi_per_m: f64,
+        /// Density the upper gradient implies, g/cm3.
         upper_gcc: f64,
+        /// Density the lower gradient implies, g/cm3.
         lower_gcc: f64,
     },
     /// The upper leg is the denser fluid.
@@ -104,25 +115,49 @@ pub enum FwlError {
         "the upper leg's gradient ({upper_psi_per_m:.4} psi/m, {upper_gcc:.3} g/cm3) is not lighter than the lower leg's ({lower_psi_per_m:.4} psi/m, {lower_gcc:.3} g/cm3): a denser fluid cannot sit above a lighter one"
     )]
     Inverted {
+        /// Gradient of the upper leg, psi/m.
         upper_psi_per_m: f64,
+        /// Gradient of the lower leg, psi/m.
         lower_psi_per_m: f64,
+        /// Density the upper gradient implies, g/cm3.
         upper_gcc: f64,
+        /// Density the lower gradient implies, g/cm3.
         lower_gcc: f64,
     },
     /// The crossing overflows.
     #[error(
         "the legs cross at no finite depth and pressure (TVDSS {tvdss_m} m, {psi} psi): check the points' units"
     )]
-    NoCrossing { tvdss_m: f64, psi: f64 },
+    NoCrossing {
+        /// Crossing depth as computed, TVDSS m (may be infinite or NaN).
+        tvdss_m: f64,
+        /// Crossing pressure as computed, psi (may be infinite or NaN).
+        psi: f64,
+    },
     /// A point's depth or pressure is NaN or infinite.
     #[error("pressure point ({tvdss_m}, {psi}) is not a number")]
-    NotANumber { tvdss_m: f64, psi: f64 },
+    NotANumber {
+        /// The point's depth, TVDSS m.
+        tvdss_m: f64,
+        /// The point's pressure, psi.
+        psi: f64,
+    },
     /// Fewer points than two legs need.
     #[error("{count} pressure points: two legs need at least {need}")]
-    TooFewPoints { count: usize, need: usize },
+    TooFewPoints {
+        /// Points given.
+        count: usize,
+        /// Points two legs need (twice the least per leg).
+        need: usize,
+    },
     /// Fewer usable points (after exclusions) than two legs need.
     #[error("{count} usable pressure points: two legs need at least {need}")]
-    TooFewUsable { count: usize, need: usize },
+    TooFewUsable {
+        /// Usable points.
+        count: usize,
+        /// Points two legs need (twice the least per leg).
+        need: usize,
+    },
     /// No automatic split gives two fitted lines.
     #[error(
         "no split gives two legs with a depth spread (or the values are too large to fit: check the points' units)"
@@ -132,7 +167,10 @@ pub enum FwlError {
     #[error(
         "fewer than two points {side} the split (or no depth spread, or values too large to fit)"
     )]
-    BadLeg { side: &'static str },
+    BadLeg {
+        /// Which leg fails: `above` or `below` the split.
+        side: &'static str,
+    },
 }
 
 fn intersect(upper: Line, lower: Line, split: usize) -> Result<FwlFit, FwlError> {

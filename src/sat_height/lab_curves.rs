@@ -81,10 +81,15 @@ struct Row {
 /// One lab curve.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct CapSample {
+    /// Sample name (SAMPLE).
     pub sample: String,
+    /// Well name as written (WELL).
     pub well: String,
+    /// DEPTH_MD as written in the file, not converted.
     pub depth: f64,
+    /// Plug porosity, v/v (POROSITY_FRAC).
     pub porosity: f64,
+    /// Plug permeability, mD (PERM_MD).
     pub perm_md: f64,
     /// The lab fluid system.
     #[serde(skip)]
@@ -276,11 +281,15 @@ fn rms_of(pts: &[(f64, f64)], curve: impl Fn(f64) -> f64) -> f64 {
 /// A Brooks-Corey curve in J: Sw = Swirr + (1 − Swirr)·(Jd/J)^λ above Jd.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct BrooksCoreyJ {
+    /// Entry J (dimensionless): Sw is 1 at or below it.
     pub jd: f64,
+    /// Pore-size distribution index λ (dimensionless).
     pub lambda: f64,
+    /// Irreducible wetting saturation Swirr, v/v.
     pub swirr: f64,
     /// RMS of Sw residuals, v/v.
     pub rms_sw: f64,
+    /// Number of (J, Sw) points fitted.
     pub points: usize,
 }
 
@@ -410,11 +419,15 @@ fn falls_with_j(below: &[(f64, f64)]) -> bool {
 /// G is the same number in both spaces.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct ThomeerJ {
+    /// Entry J (dimensionless): Sw is 1 at or below it.
     pub jd: f64,
+    /// Thomeer's pore geometrical factor G (dimensionless).
     pub g: f64,
+    /// Non-wetting saturation at infinite J, v/v of pore volume.
     pub snw_inf: f64,
     /// RMS of Sw residuals, v/v.
     pub rms_sw: f64,
+    /// Number of (J, Sw) points fitted.
     pub points: usize,
 }
 
@@ -581,7 +594,9 @@ fn nelder_mead(f: impl Fn(&[f64; 3]) -> f64, x0: [f64; 3], step: [f64; 3]) -> ([
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(tag = "form", rename_all = "kebab-case")]
 pub enum JCurve {
+    /// Brooks-Corey in J ([`BrooksCoreyJ`]).
     BrooksCorey(BrooksCoreyJ),
+    /// Thomeer in J ([`ThomeerJ`]).
     Thomeer(ThomeerJ),
 }
 
@@ -641,8 +656,11 @@ pub const J_FORM_CRITERION: &str = "least RMS of Sw (v/v) over all points, plate
 /// Both fits of a set of (J, Sw) points and the chosen one.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct JFit {
+    /// The form with the smaller RMS of Sw (Brooks-Corey on a tie).
     pub chosen: JCurve,
+    /// The Brooks-Corey fit, polished; `None` when it cannot be fitted.
     pub brooks_corey: Option<BrooksCoreyJ>,
+    /// The Thomeer fit; `None` when it cannot be fitted.
     pub thomeer: Option<ThomeerJ>,
 }
 
@@ -651,18 +669,30 @@ pub struct JFit {
 pub enum JFitError {
     /// Fewer than [`MIN_J_POINTS`] usable points.
     #[error("{count} usable (J, Sw) points: a J-function needs at least {MIN_J_POINTS}")]
-    TooFewPoints { count: usize },
+    TooFewPoints {
+        /// Usable points.
+        count: usize,
+    },
     /// Fewer than [`MIN_J_POINTS_BELOW_PLATEAU`] points below the plateau.
     #[error(
         "{count} points below the entry plateau (Sw < {PLATEAU_SW}): a J-function needs at least {MIN_J_POINTS_BELOW_PLATEAU}"
     )]
-    TooFewBelowPlateau { count: usize },
+    TooFewBelowPlateau {
+        /// Points below the plateau.
+        count: usize,
+    },
     /// Sw does not fall as J rises below the plateau.
     #[error("Sw does not fall as J rises over the {count} points below the entry plateau")]
-    NotFalling { count: usize },
+    NotFalling {
+        /// Points below the plateau.
+        count: usize,
+    },
     /// Neither curve form could be fitted.
     #[error("neither Brooks-Corey nor Thomeer fits the {count} points")]
-    NoForm { count: usize },
+    NoForm {
+        /// Usable points.
+        count: usize,
+    },
 }
 
 /// Fit Brooks-Corey ([`fit_brooks_corey`], then polished to the least RMS as

@@ -30,20 +30,31 @@ use crate::output::schema::{
 /// Physical ranges of input curves (common practice: values outside cannot be
 /// measurements of rock and usually mark tool or depth-matching problems).
 pub const RANGE_GR_GAPI: (f64, f64) = (0.0, 1000.0);
+/// Physical range of bulk density RHOB, g/cm3.
 pub const RANGE_RHOB_GCC: (f64, f64) = (1.0, 3.2);
+/// Physical range of neutron porosity NPHI, v/v.
 pub const RANGE_NPHI_VV: (f64, f64) = (-0.15, 1.0);
+/// Physical range of compressional slowness DT, us/ft.
 pub const RANGE_DT_USFT: (f64, f64) = (40.0, 250.0);
+/// Physical range of deep resistivity RT, ohm.m.
 pub const RANGE_RT_OHMM: (f64, f64) = (0.01, 100_000.0);
 
 /// The input curves of one well, canonical units; absent curves are `None`.
 #[derive(Debug, Clone, Copy, Default)]
 pub struct Inputs<'a> {
+    /// Gamma ray, gAPI.
     pub gr: Option<&'a [f64]>,
+    /// Bulk density, g/cm3.
     pub rhob: Option<&'a [f64]>,
+    /// Neutron porosity, v/v.
     pub nphi: Option<&'a [f64]>,
+    /// Compressional slowness, us/ft.
     pub dt: Option<&'a [f64]>,
+    /// Deep (true) resistivity, ohm.m.
     pub rt: Option<&'a [f64]>,
+    /// Caliper hole diameter, in (for the bad-hole flag).
     pub cali: Option<&'a [f64]>,
+    /// Bit size, in; when `None` the zone's `bit_size_in` parameter is used.
     pub bs: Option<&'a [f64]>,
     /// True vertical depth below the surface, m (for temperature).
     pub tvd_m: &'a [f64],
@@ -52,10 +63,13 @@ pub struct Inputs<'a> {
 /// One zone as the chain sees it: resolved parameters and the gamma-ray picks.
 #[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct ZoneSetup {
+    /// Zone name, as in the tops.
     pub name: String,
+    /// The zone's resolved parameters.
     pub params: ZoneParams,
     /// Clean and shale gamma ray used, gAPI.
     pub gr_clean_gapi: f64,
+    /// Shale gamma ray used, gAPI.
     pub gr_shale_gapi: f64,
     /// Whether the values above were picked from the well's GR (percentiles).
     pub gr_picked: bool,
@@ -66,14 +80,23 @@ pub struct ZoneSetup {
 /// What the chain clipped, flagged and could not define.
 #[derive(Debug, Clone, Default, PartialEq, Eq, Serialize, Deserialize)]
 pub struct Counts {
+    /// Depth samples in the well.
     pub samples: usize,
+    /// Depths whose VSH was clipped to [0, 1].
     pub vsh_clipped: usize,
+    /// Depths whose PHIT was clipped to [0, the zone's `phi_max_vv`].
     pub phit_clipped: usize,
+    /// Depths whose PHIE was clipped to [0, PHIT].
     pub phie_clipped: usize,
+    /// Depths whose SW was clipped to [0, 1].
     pub sw_clipped: usize,
+    /// Depths flagged bad hole (caliper over bit size by more than `bad_hole_in`).
     pub bad_hole: usize,
+    /// Depths with an input curve outside its physical range (not interpreted).
     pub out_of_range: usize,
+    /// Depths missing an input curve the zone's methods need.
     pub missing_input: usize,
+    /// Depths outside every zone (kept, not interpreted).
     pub outside_zone: usize,
     /// SW undefined by the method (zero effective porosity), not missing in the file.
     pub sw_undefined: usize,
@@ -82,15 +105,22 @@ pub struct Counts {
 /// The chain's output curves.
 #[derive(Debug, Clone, Default)]
 pub struct Outputs {
+    /// Shale volume, v/v; NaN where not interpreted.
     pub vsh: Vec<f64>,
+    /// Total porosity, v/v; NaN where not interpreted.
     pub phit: Vec<f64>,
+    /// Effective (shale-corrected) porosity, v/v; NaN where not interpreted.
     pub phie: Vec<f64>,
+    /// Water saturation with the zone's exponents, v/v; NaN where not interpreted or not computable (no Rw, PHIE 0).
     pub sw: Vec<f64>,
+    /// Bulk volume water PHIE·SW, v/v.
     pub bvw: Vec<f64>,
+    /// Quality flag bits at each depth (`FLAG_*` in `crate::output::schema`).
     pub flag: Vec<u32>,
     /// Formation-water resistivity used at each depth, ohm.m (kept for the
     /// class-aware saturation, which reuses it).
     pub rw: Vec<f64>,
+    /// What was clipped, flagged and undefined.
     pub counts: Counts,
 }
 
@@ -325,11 +355,15 @@ pub fn run(inputs: &Inputs<'_>, zone_of: &[Option<u16>], zones: &[ZoneSetup]) ->
 /// The depth-wise inputs of the class-aware saturation, canonical units.
 #[derive(Debug, Clone, Copy)]
 pub struct ClassSwInputs<'a> {
+    /// Zone index of each depth (into the zones), `None` outside every zone.
     pub zone_of: &'a [Option<u16>],
     /// Rw at each depth, ohm.m ([`Outputs::rw`]).
     pub rw: &'a [f64],
+    /// Deep resistivity at each depth, ohm.m.
     pub rt: &'a [f64],
+    /// Shale volume at each depth, v/v.
     pub vsh: &'a [f64],
+    /// Effective porosity at each depth, v/v.
     pub phie: &'a [f64],
     /// SW with the zone's own exponents (the chain's SW), v/v.
     pub sw_fixed: &'a [f64],
@@ -340,7 +374,9 @@ pub struct ClassSwInputs<'a> {
 /// What the class-aware saturation wrote and counted.
 #[derive(Debug, Clone, Default)]
 pub struct ClassSw {
+    /// Class-aware water saturation, v/v; NaN where the chain's SW is.
     pub sw: Vec<f64>,
+    /// Bulk volume water PHIE·SW with the class-aware SW, v/v.
     pub bvw: Vec<f64>,
     /// Interpreted depths without a class (zone exponents used, FLAG 64).
     pub no_class: usize,

@@ -15,8 +15,11 @@ const SMALL_DOGLEG: f64 = 1e-6;
 /// azimuth (degrees).
 #[derive(Debug, Clone, PartialEq)]
 pub struct Survey {
+    /// Measured depth of each station, project depth unit.
     pub md: Vec<f64>,
+    /// Inclination at each station, degrees from vertical.
     pub inc_deg: Vec<f64>,
+    /// Azimuth at each station, degrees.
     pub azi_deg: Vec<f64>,
 }
 

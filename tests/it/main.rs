@@ -1,4 +1,5 @@
 //! flowzone integration tests: one binary, one module per area.
+#![allow(clippy::print_stdout, clippy::print_stderr)] // tests print the figures they measure
 
 /// The binary: --help, inspect, export and run, exit codes.
 mod capillary_demo;

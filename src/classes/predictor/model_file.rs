@@ -36,8 +36,11 @@ pub struct SchemeInfo {
     pub name: String,
     /// The scheme type (fzi-ladder, port-size-r35, fzi-clusters).
     pub kind: String,
+    /// The quantity the boundaries are in, with its unit (`FZI (um)`, `R35 (um)`).
     pub quantity: String,
+    /// Class boundaries, ascending, in `quantity`.
     pub boundaries: Vec<f64>,
+    /// Number of classes (boundaries + 1).
     pub class_count: usize,
 }
 
@@ -58,22 +61,32 @@ impl SchemeInfo {
 /// A feature with its unit, as recorded in the model.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct FeatureInfo {
+    /// The feature.
     pub name: Feature,
+    /// The unit of its values ([`Feature::unit`]).
     pub unit: String,
 }
 
 /// Everything about a model except the forest itself.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct ModelHeader {
+    /// The flowzone version that trained the model.
     pub flowzone_version: String,
+    /// The smartcore version the forest was serialised with; loading requires [`SMARTCORE_VERSION`].
     pub smartcore_version: String,
+    /// The class scheme whose classes the model predicts.
     pub scheme: SchemeInfo,
+    /// The features, in the order the forest reads them.
     pub features: Vec<FeatureInfo>,
+    /// The forest settings it was trained with.
     pub params: ForestParams,
+    /// Names of the wells trained on, sorted.
     pub training_wells: Vec<String>,
+    /// Number of training samples (cored depths with features and a class).
     pub training_samples: usize,
     /// (class, training samples).
     pub samples_per_class: Vec<(u8, usize)>,
+    /// How permeability is computed from class and porosity (`[classes] perm-method`).
     pub perm_method: PermMethod,
     /// Permeability from class and porosity, fitted on the training core.
     pub perm: Vec<ClassPerm>,
@@ -96,33 +109,60 @@ impl ModelHeader {
 /// A model: header and forest.
 #[derive(Debug)]
 pub struct ClassModel {
+    /// Everything but the forest.
     pub header: ModelHeader,
+    /// The fitted forest.
     pub forest: Forest,
 }
 
 /// An error saving or loading a model.
 #[derive(Debug, thiserror::Error)]
 pub enum ModelFileError {
+    /// The file cannot be read.
     #[error("cannot read model `{}`", .path.display())]
     Io {
+        /// The model file.
         path: PathBuf,
+        /// The read error.
         #[source]
         source: std::io::Error,
     },
+    /// The file does not start with [`MAGIC`].
     #[error("`{}` is not a flowzone class model (it does not start with `{MAGIC}`)", .path.display())]
-    NotAModel { path: PathBuf },
+    NotAModel {
+        /// The model file.
+        path: PathBuf,
+    },
+    /// The envelope version is not [`FORMAT_VERSION`].
     #[error(
         "model `{}` has envelope version {found}; this flowzone reads version {FORMAT_VERSION}: train it again with `flowzone train`",
         .path.display()
     )]
-    Version { path: PathBuf, found: String },
+    Version {
+        /// The model file.
+        path: PathBuf,
+        /// The envelope version on the file's first line.
+        found: String,
+    },
+    /// The forest was saved with a smartcore version other than [`SMARTCORE_VERSION`].
     #[error(
         "model `{}` was saved with smartcore {found}; this flowzone {} uses smartcore {SMARTCORE_VERSION}, whose forests may differ: train it again with `flowzone train`",
         .path.display(), env!("CARGO_PKG_VERSION")
     )]
-    Smartcore { path: PathBuf, found: String },
+    Smartcore {
+        /// The model file.
+        path: PathBuf,
+        /// The smartcore version recorded in the file's header.
+        found: String,
+    },
+    /// The header or the forest cannot be parsed, or they disagree.
     #[error("model `{}`: {message}", .path.display())]
-    Corrupt { path: PathBuf, message: String },
+    Corrupt {
+        /// The model file.
+        path: PathBuf,
+        /// What is wrong.
+        message: String,
+    },
 }
 
 impl ClassModel {

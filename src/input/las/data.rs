@@ -35,6 +35,7 @@ pub struct IndexScan {
 pub struct Data {
     /// One vector per curve, in ~C order; all the same length.
     pub columns: Vec<Vec<f64>>,
+    /// What parsing saw of the index column and of skipped lines.
     pub scan: IndexScan,
 }
 

@@ -10,9 +10,13 @@ use super::error::LineError;
 /// One parsed header line. Fields are trimmed.
 #[derive(Debug, Clone, PartialEq, Eq, serde::Serialize)]
 pub struct HeaderItem {
+    /// The mnemonic: the text before the first dot.
     pub mnemonic: String,
+    /// The unit, empty when the line gives none (in ~C it may hold a space, as `1000 LBF`).
     pub unit: String,
+    /// The data field between the unit and the last colon; may be empty.
     pub value: String,
+    /// The text after the last colon; empty when the line has no colon.
     pub description: String,
     /// 1-based line number in the file.
     pub line: usize,
@@ -33,10 +37,15 @@ pub enum SplitNote {
 /// The parts of a header line before trimming into a [`HeaderItem`].
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct SplitLine<'a> {
+    /// The text before the first dot.
     pub mnemonic: &'a str,
+    /// The text from the dot to the first space or tab after it; empty when none.
     pub unit: &'a str,
+    /// The data field between the unit and the last colon.
     pub value: &'a str,
+    /// The text after the last colon; empty when the line has no colon.
     pub description: &'a str,
+    /// Whether the line had a colon ([`SplitNote::Plain`]) or not ([`SplitNote::NoColon`]).
     pub note: SplitNote,
 }
 
