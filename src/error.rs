@@ -1,19 +1,6 @@
 //! The error a command ends with, and how errors are printed.
 
-/// Join an error with its `source()` chain using ": ".
-pub fn chain(error: &dyn std::error::Error) -> String {
-    let mut text = error.to_string();
-    let mut cause = error.source();
-    while let Some(c) = cause {
-        let s = c.to_string();
-        if !s.is_empty() {
-            text.push_str(": ");
-            text.push_str(&s);
-        }
-        cause = c.source();
-    }
-    text
-}
+pub use crate::output::messages::chain;
 
 /// An error that stops a command. Each stage's own error is wrapped as it
 /// is, so the printed chain names the file, line, well, class or config key.
@@ -38,11 +25,7 @@ pub enum Error {
     #[error(transparent)]
     ClassModel(#[from] crate::classes::stage::ClassStageError),
     /// A class model cannot be saved or loaded.
-    #[error(transparent)]
-    ModelFile(#[from] crate::classes::predictor::model_file::ModelFileError),
     /// The class predictor cannot be fitted or applied.
-    #[error(transparent)]
-    Predict(#[from] crate::classes::predictor::PredictError),
     /// The saturation-height model cannot be built.
     #[error(transparent)]
     SatHeight(#[from] crate::sat_height::SatHeightError),

@@ -21,7 +21,6 @@
 //! - [`stats`]: the shared statistics; [`error`]: the error a command ends with.
 //! - [`cli`]: the command line and the `inspect` and `export` commands.
 //! - `demo`: the synthetic forward model behind the invented demo field.
-//! - `testutil`: test helpers, compiled for tests only.
 //!
 //! Results are interpretations: they must be reviewed by a qualified
 //! petrophysicist before they inform reserves, well or investment decisions,
@@ -43,6 +42,3 @@ pub mod sat_height;
 pub mod stats;
 pub mod units;
 pub mod well;
-
-#[cfg(test)]
-mod testutil;

@@ -1195,13 +1195,13 @@ use std::io::Write as _;
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     fn model(curves: Vec<JCurve>) -> SatHeightModel {
         SatHeightModel::new_for_audit(curves, 26.0, Vec::new(), DepthUnit::Foot)
     }
 
-    use crate::testutil::brooks_corey_j as bc;
+    use crate::sat_height::lab_curves::brooks_corey_j as bc;
 
     /// Each way of giving a point's depth, and each reason to leave one out.
     /// 1 ft = 0.3048 m exactly (international foot, 1959); MD points go

@@ -212,6 +212,17 @@ pub fn correlation(pairs: &[(f64, f64)]) -> f64 {
     sxy / (sxx * syy).sqrt()
 }
 
+/// Assert `actual` is within `tol` of `expected`, printing both (a test
+/// helper for every module's reference checks).
+#[cfg(test)]
+#[track_caller]
+pub(crate) fn assert_close(actual: f64, expected: f64, tol: f64) {
+    assert!(
+        (actual - expected).abs() <= tol,
+        "expected {expected} ± {tol}, got {actual}"
+    );
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

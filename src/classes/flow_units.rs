@@ -67,7 +67,7 @@ pub fn winland_r35(k_md: f64, phi: f64) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     /// Source: formulas.md §5 computed table (relative 1e-4 suggested there).
     #[test]

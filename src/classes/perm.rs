@@ -110,7 +110,7 @@ pub fn fit(samples: &[(u8, f64, f64)]) -> Vec<ClassPerm> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     /// Constructed: samples that lie exactly on one FZI (2.0 µm) give that FZI
     /// back and zero residual; samples on an exact line log10 k = −1 + 15φ give

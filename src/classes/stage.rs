@@ -26,8 +26,8 @@ use crate::classes::predictor::model_file::{
 use crate::classes::predictor::{self, Feature, Forest, ForestParams, TrainingSet};
 use crate::classes::{self, ClassScheme, perm};
 use crate::config::{PermMethod, PredictorConfig};
-use crate::error::{Error, chain};
 use crate::input::core_samples::{Rejected, ShiftSuggestion};
+use crate::output::messages::chain;
 use crate::output::schema::{Col, FLAG_LOW_CLASS_PROBABILITY, flag_description};
 use crate::output::{OutColumn, OutputError, Table, write_atomic, write_json};
 use crate::well::{self, RunContext};
@@ -123,7 +123,7 @@ pub fn prepare(
     out: &Path,
     mode: Mode,
     progress: bool,
-) -> Result<Prepared, Error> {
+) -> Result<Prepared, ClassStageError> {
     let config = &ctx.config;
     let mut summary = ClassSummary {
         scheme: None,
@@ -150,7 +150,7 @@ pub fn prepare(
     };
     let Some(core_cfg) = &config.core else {
         if mode != Mode::Run {
-            return Err(Error::Usage("the config has no [core] section".into()));
+            return Err(ClassStageError::NoCore);
         }
         // a saved model can run without core (no reduced-feature models then)
         let setup = loaded.map(|(model, path)| {
@@ -242,7 +242,7 @@ pub fn prepare(
         }
     }
     let core_dir = out.join("core");
-    std::fs::create_dir_all(&core_dir).map_err(|source| Error::Io {
+    std::fs::create_dir_all(&core_dir).map_err(|source| OutputError::Io {
         path: core_dir.clone(),
         source,
     })?;
@@ -386,7 +386,7 @@ fn train_and_save(
     out: &Path,
     summary: &mut ClassSummary,
     progress: bool,
-) -> Result<ClassModel, Error> {
+) -> Result<ClassModel, ClassStageError> {
     let model_dir = out.join("model");
     if progress {
         note!(
@@ -400,7 +400,7 @@ fn train_and_save(
     if progress {
         note!("train: forest fitted in {:.3} s", model.header.fit_seconds);
     }
-    std::fs::create_dir_all(&model_dir).map_err(|source| Error::Io {
+    std::fs::create_dir_all(&model_dir).map_err(|source| OutputError::Io {
         path: model_dir.clone(),
         source,
     })?;
@@ -446,10 +446,32 @@ pub enum ClassStageError {
         "no core sample could be paired with log features (see core/core-report.json: training_excluded)"
     )]
     NoTrainingSamples,
+    /// `classes core` or `train` without a `[core]` section.
+    #[error("the config has no [core] section")]
+    NoCore,
+    /// The core file cannot be read.
+    #[error(transparent)]
+    Core(#[from] crate::input::core_samples::CoreError),
+    /// A configured scheme cannot be built on the core.
+    #[error(transparent)]
+    Scheme(#[from] crate::classes::compare::SchemeBuildError),
+    /// A saved model cannot be loaded.
+    #[error(transparent)]
+    ModelFile(#[from] crate::classes::predictor::model_file::ModelFileError),
+    /// The forest cannot be fitted or scored.
+    #[error(transparent)]
+    Predict(#[from] crate::classes::predictor::PredictError),
+    /// A class-stage output cannot be written.
+    #[error(transparent)]
+    Output(#[from] OutputError),
 }
 
 /// A loaded model must have been trained for the scheme the config uses.
-fn check_scheme(model: &SchemeInfo, config: &SchemeInfo, path: &Path) -> Result<(), Error> {
+fn check_scheme(
+    model: &SchemeInfo,
+    config: &SchemeInfo,
+    path: &Path,
+) -> Result<(), ClassStageError> {
     let same_bounds = model.boundaries.len() == config.boundaries.len()
         && model
             .boundaries
@@ -461,8 +483,7 @@ fn check_scheme(model: &SchemeInfo, config: &SchemeInfo, path: &Path) -> Result<
             model: path.to_path_buf(),
             trained_for: model.describe(),
             config_gives: config.describe(),
-        }
-        .into());
+        });
     }
     Ok(())
 }
@@ -475,9 +496,9 @@ pub fn train(
     cfg: &PredictorConfig,
     perm_method: PermMethod,
     perm: Vec<perm::ClassPerm>,
-) -> Result<ClassModel, Error> {
+) -> Result<ClassModel, ClassStageError> {
     if set.rows() == 0 {
-        return Err(ClassStageError::NoTrainingSamples.into());
+        return Err(ClassStageError::NoTrainingSamples);
     }
     let params = ForestParams {
         trees: cfg.trees,

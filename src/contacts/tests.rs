@@ -2,7 +2,7 @@
 
 use super::*;
 use crate::sat_height::lab_curves::JCurve;
-use crate::testutil::assert_close;
+use crate::stats::assert_close;
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use rand_distr::{Distribution, Normal};
@@ -14,7 +14,7 @@ const FWL: f64 = 2085.0;
 /// Vertical well: MD = TVDSS + this.
 const KB: f64 = 30.0;
 
-use crate::testutil::brooks_corey_j as bc;
+use crate::sat_height::lab_curves::brooks_corey_j as bc;
 
 fn comp(fwl: f64, rho_water: f64, rho_hc: f64) -> CompartmentFwl {
     CompartmentFwl {

@@ -145,7 +145,7 @@ pub fn shale_corrected_porosity(phi: f64, vsh: f64, phi_shale: f64) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     /// Source: formulas.md §2.1 computed table for ρb = 2.40.
     #[test]

@@ -223,7 +223,7 @@ impl SaturationModel {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     const AM2: ArchieParams = ArchieParams::DEFAULT;
 

@@ -121,7 +121,7 @@ pub fn shale_volume_neutron_density(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     /// Source: computed check values of formulas.md §1 (python3, double
     /// precision, printed to 4-5 significant figures; tolerance 1e-5).

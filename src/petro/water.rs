@@ -63,7 +63,7 @@ pub fn gradient_from_bht(bht_c: f64, t_surface_c: f64, td_m: f64) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     fn f_to_c(f: f64) -> f64 {
         (f - 32.0) * 5.0 / 9.0

@@ -142,7 +142,7 @@ impl FluidSystem {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     /// Source: formulas.md §8.1, constant computed from the unit definitions:
     /// 0.216601; the published 0.21645 (Ahmed) lies 0.07 % below.

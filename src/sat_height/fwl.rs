@@ -277,7 +277,7 @@ pub fn fit_fwl_split_at(points: &[(f64, f64)], split_tvdss_m: f64) -> Result<Fwl
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     const FT: f64 = 0.3048;
 

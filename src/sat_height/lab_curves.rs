@@ -743,10 +743,23 @@ pub fn plug_rms(sample: &CapSample, curve: &JCurve) -> f64 {
     rms_of(&pts, |j| curve.sw(j))
 }
 
+/// A Brooks-Corey J-curve (entry J, pore-size index λ, irreducible Sw) with
+/// no fit statistics, for tests that build saturation-height models by hand.
+#[cfg(test)]
+pub(crate) fn brooks_corey_j(jd: f64, lambda: f64, swirr: f64) -> JCurve {
+    JCurve::BrooksCorey(BrooksCoreyJ {
+        jd,
+        lambda,
+        swirr,
+        rms_sw: 0.0,
+        points: 0,
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     /// Points on an exact Brooks-Corey curve (Jd 0.05, λ 1.6, Swirr 0.15, on
     /// the search grid) give the curve back (constructed case).

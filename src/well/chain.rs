@@ -450,7 +450,7 @@ pub fn saturation_by_class(
 mod tests {
     use super::*;
     use crate::config::params::ParamSet;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     fn zone(p: ParamSet) -> ZoneSetup {
         ZoneSetup {

@@ -107,7 +107,7 @@ mod tests {
     }
 
     use super::*;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     /// Closed form: a straight hole at constant inclination I has TVD = MD·cos I.
     #[test]

@@ -1093,7 +1093,7 @@ mod tests {
     use super::super::{GradientLine, PressurePoint};
     use super::*;
     use crate::classes::flow_units::winland_r35;
-    use crate::testutil::assert_close;
+    use crate::stats::assert_close;
 
     /// The bodies of every `<g class="{class}">` group (nesting respected).
     fn groups(doc: &str, class: &str) -> Vec<String> {
