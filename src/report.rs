@@ -169,14 +169,8 @@ pub fn pickett_points(t: &Table, max: usize) -> Vec<PickettPoint> {
     all.into_iter().step_by(stride).collect()
 }
 
-/// Write a well's page (and its PNG log plot when asked); returns the files
-/// written, relative to `out`.
-pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, OutputError> {
-    let dir = out.join(REPORT_DIR).join("wells");
-    std::fs::create_dir_all(&dir).map_err(|source| OutputError::Io {
-        path: dir.clone(),
-        source,
-    })?;
+/// The curves, zones, steps and FWL the log plot draws, from a well page.
+fn log_plot_curves<'a>(p: &'a WellPage<'a>) -> WellCurves<'a> {
     let t = p.table;
     let md = t.get(Col::Depth).unwrap_or(&[]);
     let mut curves = std::collections::BTreeMap::new();
@@ -199,7 +193,7 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
             curves.insert(col, c);
         }
     }
-    let curves_in = WellCurves {
+    WellCurves {
         well: p.well,
         depth_unit: p.depth_unit,
         md,
@@ -217,21 +211,11 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
             .collect(),
         fwl_tvdss: p.fwl_tvdss,
         class_count: p.class_count,
-    };
-    let mut h = page_start(&format!("{} — flowzone", p.well), p.well);
-    let _ = writeln!(
-        h,
-        "<p><a href=\"../index.html\">Field page</a> · file <code>{}</code> · {} depths</p>",
-        escape(p.file),
-        md.len()
-    );
-    if !p.warnings.is_empty() {
-        h.push_str("<h2>Warnings</h2><ul class=\"warnings\">");
-        for w in p.warnings {
-            let _ = write!(h, "<li>{}</li>", escape(w));
-        }
-        h.push_str("</ul>\n");
     }
+}
+
+/// A well page's zone table.
+fn well_zones_section(h: &mut String, p: &WellPage<'_>) {
     h.push_str("<h2>Zones</h2>\n");
     let rows: Vec<Vec<Cell>> = p
         .zones
@@ -253,7 +237,7 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
         .collect();
     let u = p.depth_unit;
     table(
-        &mut h,
+        h,
         "zones",
         &[
             "zone",
@@ -269,7 +253,12 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
         ],
         &rows,
     );
+}
+
+/// A well page's audited saturation steps and implied FWL.
+fn well_steps_section(h: &mut String, p: &WellPage<'_>) {
     h.push_str("<h2>Saturation steps</h2>\n");
+    let u = p.depth_unit;
     if let Some(f) = p.implied_fwl {
         let _ = writeln!(h, "<p>{}</p>", escape(&f.note));
     }
@@ -292,7 +281,7 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
             })
             .collect();
         table(
-            &mut h,
+            h,
             "steps",
             &[
                 &format!("MD {u}"),
@@ -306,6 +295,35 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
             &rows,
         );
     }
+}
+
+/// Write a well's page (and its PNG log plot when asked); returns the files
+/// written, relative to `out`.
+pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, OutputError> {
+    let dir = out.join(REPORT_DIR).join("wells");
+    std::fs::create_dir_all(&dir).map_err(|source| OutputError::Io {
+        path: dir.clone(),
+        source,
+    })?;
+    let t = p.table;
+    let md = t.get(Col::Depth).unwrap_or(&[]);
+    let curves_in = log_plot_curves(p);
+    let mut h = page_start(&format!("{} — flowzone", p.well), p.well);
+    let _ = writeln!(
+        h,
+        "<p><a href=\"../index.html\">Field page</a> · file <code>{}</code> · {} depths</p>",
+        escape(p.file),
+        md.len()
+    );
+    if !p.warnings.is_empty() {
+        h.push_str("<h2>Warnings</h2><ul class=\"warnings\">");
+        for w in p.warnings {
+            let _ = write!(h, "<li>{}</li>", escape(w));
+        }
+        h.push_str("</ul>\n");
+    }
+    well_zones_section(&mut h, p);
+    well_steps_section(&mut h, p);
     let log_svg = plots::logplot::log_plot(&curves_in);
     let mut written = Vec::new();
     h.push_str("<h2>Log plot</h2>\n");

@@ -378,87 +378,11 @@ pub fn prepare(
             });
         }
     }
-    let mut plug_class: Vec<(u8, String)> = Vec::with_capacity(samples.len());
-    for s in &samples {
-        let (c, src) = match cap.plug_class.get(&s.sample) {
-            Some(&c) => (c, "config".to_string()),
-            None => match scheme.classify(s.porosity, s.perm_md) {
-                Some(c) => (c, "scheme".to_string()),
-                None => {
-                    return Err(SatHeightError::UnclassedPlug {
-                        file: cap_path,
-                        line: s.line,
-                        sample: s.sample.clone(),
-                        porosity: s.porosity,
-                        perm_md: s.perm_md,
-                        scheme: scheme.name.clone(),
-                    });
-                }
-            },
-        };
-        if c > class_count {
-            return Err(SatHeightError::PlugClassTooHigh {
-                sample: s.sample.clone(),
-                class: c,
-                class_count,
-            });
-        }
-        plug_class.push((c, src));
-    }
+    let plug_class = plug_classes(cap, &samples, scheme, class_count, &cap_path)?;
 
-    // a J-function per class that has plugs
-    let mut own: BTreeMap<u8, (JFit, Vec<String>, usize)> = BTreeMap::new();
-    let mut j_points = Vec::new();
-    for c in 1..=class_count {
-        let members: Vec<&CapSample> = samples
-            .iter()
-            .zip(&plug_class)
-            .filter(|(_, (pc, _))| *pc == c)
-            .map(|(s, _)| s)
-            .collect();
-        if members.is_empty() {
-            continue;
-        }
-        let pts: Vec<(f64, f64)> = members
-            .iter()
-            .flat_map(|s| s.j.iter().zip(&s.steps).map(|(j, st)| (*j, st.1)))
-            .collect();
-        let names: Vec<String> = members.iter().map(|s| s.sample.clone()).collect();
-        j_points.extend(pts.iter().map(|&(j, sw)| (c, sw, j)));
-        let fit = lab_curves::fit_j_curve(&pts).map_err(|source| SatHeightError::JFit {
-            class: c,
-            plugs: names.join(", "),
-            source,
-        })?;
-        own.insert(c, (fit, names, pts.len()));
-    }
-    if own.is_empty() {
-        return Err(SatHeightError::NoPlugs { file: cap_path });
-    }
-    let classes: Vec<ClassJ> = (1..=class_count)
-        .map(|c| match own.get(&c) {
-            Some((fit, plugs, points)) => ClassJ {
-                class: c,
-                fit: Some(fit.clone()),
-                curve: fit.chosen.clone(),
-                borrowed_from: None,
-                plugs: plugs.clone(),
-                points: *points,
-            },
-            None => {
-                let lender = nearest_with_data(c, &own.keys().copied().collect::<Vec<_>>());
-                let (fit, plugs, points) = &own[&lender];
-                ClassJ {
-                    class: c,
-                    fit: None,
-                    curve: fit.chosen.clone(),
-                    borrowed_from: Some(lender),
-                    plugs: plugs.clone(),
-                    points: *points,
-                }
-            }
-        })
-        .collect();
+    // a J-function per class that has plugs, borrowed from the nearest
+    // class with plugs where a class has none
+    let (classes, j_points) = class_curves(&samples, &plug_class, class_count, &cap_path)?;
 
     // how each plug sits against the fitted curves
     let plugs: Vec<PlugReport> = samples
@@ -509,6 +433,114 @@ pub fn prepare(
         depth_unit: config.project.depth_unit,
         j_points,
     }))
+}
+
+/// Each plug's class and where it came from (`config` for
+/// `capillary.plug-class`, else `scheme`); a plug the scheme cannot class,
+/// or a configured class above the scheme's, is an error.
+fn plug_classes(
+    cap: &crate::config::CapillaryConfig,
+    samples: &[CapSample],
+    scheme: &SchemeInfo,
+    class_count: u8,
+    cap_path: &Path,
+) -> Result<Vec<(u8, String)>, SatHeightError> {
+    let mut plug_class: Vec<(u8, String)> = Vec::with_capacity(samples.len());
+    for s in samples {
+        let (c, src) = match cap.plug_class.get(&s.sample) {
+            Some(&c) => (c, "config".to_string()),
+            None => match scheme.classify(s.porosity, s.perm_md) {
+                Some(c) => (c, "scheme".to_string()),
+                None => {
+                    return Err(SatHeightError::UnclassedPlug {
+                        file: cap_path.to_path_buf(),
+                        line: s.line,
+                        sample: s.sample.clone(),
+                        porosity: s.porosity,
+                        perm_md: s.perm_md,
+                        scheme: scheme.name.clone(),
+                    });
+                }
+            },
+        };
+        if c > class_count {
+            return Err(SatHeightError::PlugClassTooHigh {
+                sample: s.sample.clone(),
+                class: c,
+                class_count,
+            });
+        }
+        plug_class.push((c, src));
+    }
+    Ok(plug_class)
+}
+
+/// The points of each class's J (class, Sw, J) for the plots.
+type JPoints = Vec<(u8, f64, f64)>;
+
+/// A J-function fitted to each class's plugs; a class without plugs
+/// borrows the curve of the nearest class that has them.
+fn class_curves(
+    samples: &[CapSample],
+    plug_class: &[(u8, String)],
+    class_count: u8,
+    cap_path: &Path,
+) -> Result<(Vec<ClassJ>, JPoints), SatHeightError> {
+    let mut own: BTreeMap<u8, (JFit, Vec<String>, usize)> = BTreeMap::new();
+    let mut j_points = Vec::new();
+    for c in 1..=class_count {
+        let members: Vec<&CapSample> = samples
+            .iter()
+            .zip(plug_class)
+            .filter(|(_, (pc, _))| *pc == c)
+            .map(|(s, _)| s)
+            .collect();
+        if members.is_empty() {
+            continue;
+        }
+        let pts: Vec<(f64, f64)> = members
+            .iter()
+            .flat_map(|s| s.j.iter().zip(&s.steps).map(|(j, st)| (*j, st.1)))
+            .collect();
+        let names: Vec<String> = members.iter().map(|s| s.sample.clone()).collect();
+        j_points.extend(pts.iter().map(|&(j, sw)| (c, sw, j)));
+        let fit = lab_curves::fit_j_curve(&pts).map_err(|source| SatHeightError::JFit {
+            class: c,
+            plugs: names.join(", "),
+            source,
+        })?;
+        own.insert(c, (fit, names, pts.len()));
+    }
+    if own.is_empty() {
+        return Err(SatHeightError::NoPlugs {
+            file: cap_path.to_path_buf(),
+        });
+    }
+    let classes: Vec<ClassJ> = (1..=class_count)
+        .map(|c| match own.get(&c) {
+            Some((fit, plugs, points)) => ClassJ {
+                class: c,
+                fit: Some(fit.clone()),
+                curve: fit.chosen.clone(),
+                borrowed_from: None,
+                plugs: plugs.clone(),
+                points: *points,
+            },
+            None => {
+                let lender = nearest_with_data(c, &own.keys().copied().collect::<Vec<_>>());
+                let (fit, plugs, points) = &own[&lender];
+                ClassJ {
+                    class: c,
+                    fit: None,
+                    curve: fit.chosen.clone(),
+                    borrowed_from: Some(lender),
+                    plugs: plugs.clone(),
+                    points: *points,
+                }
+            }
+        })
+        .collect();
+    Ok((classes, j_points))
 }
 
 /// The configured σ and θ of a lab system, if overridden.

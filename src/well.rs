@@ -304,15 +304,12 @@ pub fn process_file(
         .map_or_else(|| stem.clone(), str::to_string);
     let names: Vec<&str> = vec![name.as_str(), stem.as_str()];
 
-    let mut found: Vec<ResolvedCurve> = Vec::new();
-    let mut missing: Vec<CurveError> = Vec::new();
-    for curve in LogicalCurve::ALL {
-        match curves::resolve(file, curve, &aliases, depth_unit) {
-            Ok(r) => found.push(r),
-            Err(e @ CurveError::Missing { .. }) => missing.push(e),
-            Err(e) => missing.push(e),
-        }
-    }
+    let (found, missing): (Vec<_>, Vec<_>) = LogicalCurve::ALL
+        .into_iter()
+        .map(|c| curves::resolve(file, c, &aliases, depth_unit))
+        .partition(Result::is_ok);
+    let found: Vec<ResolvedCurve> = found.into_iter().filter_map(Result::ok).collect();
+    let missing: Vec<CurveError> = missing.into_iter().filter_map(Result::err).collect();
     let curve = |c: LogicalCurve| {
         found
             .iter()
@@ -361,26 +358,7 @@ pub fn process_file(
     }
     needed.sort();
     needed.dedup();
-    for c in &needed {
-        if curve(*c).is_none() {
-            let e = missing.iter().find(|e| match e {
-                CurveError::Missing { curve, .. } | CurveError::UnknownUnit { curve, .. } => {
-                    curve == c
-                }
-                CurveError::UnknownDepthUnit { .. } => false,
-            });
-            if let Some(e) = e {
-                return Err(curve_err(e.clone()));
-            }
-        }
-    }
-    for e in &missing {
-        if let CurveError::UnknownUnit { curve, .. } = e {
-            if !needed.contains(curve) {
-                warnings.push(format!("{e}; curve not used"));
-            }
-        }
-    }
+    check_needed(&needed, &found, &missing, &mut warnings).map_err(curve_err)?;
 
     let inputs = Inputs {
         gr: curve(LogicalCurve::GammaRay),
@@ -392,22 +370,8 @@ pub fn process_file(
         bs: curve(LogicalCurve::BitSize),
         tvd_m: &tvd_m,
     };
-    // bit size from the header when there is no curve
     if inputs.bs.is_none() {
-        if let Some(bs) = file.param("BS").and_then(|i| {
-            i.value
-                .trim()
-                .parse::<f64>()
-                .ok()
-                .map(|v| (v, i.unit.clone()))
-        }) {
-            let conv = crate::units::Conversion::from_unit(Quantity::Diameter, &bs.1, depth_unit);
-            for s in &mut setups {
-                if s.params.bit_size_in.is_none() {
-                    s.params.bit_size_in = conv.map(|c| bs.0 * c.factor);
-                }
-            }
-        }
+        bit_size_from_header(file, depth_unit, &mut setups);
     }
     let mut out = chain::run(&inputs, &zone_of, &setups);
     let rw = std::mem::take(&mut out.rw);
@@ -449,6 +413,57 @@ pub fn process_file(
         zone_of,
         rw,
     })
+}
+
+/// Every curve in `needed` must have been found: the first that was not is
+/// the error (missing, or in an unknown unit). A curve in an unknown unit
+/// that no method needs is only a warning.
+fn check_needed(
+    needed: &[LogicalCurve],
+    found: &[ResolvedCurve],
+    missing: &[CurveError],
+    warnings: &mut Vec<String>,
+) -> Result<(), CurveError> {
+    for c in needed {
+        if found.iter().any(|r| r.logical == *c) {
+            continue;
+        }
+        let e = missing.iter().find(|e| match e {
+            CurveError::Missing { curve, .. } | CurveError::UnknownUnit { curve, .. } => curve == c,
+            CurveError::UnknownDepthUnit { .. } => false,
+        });
+        if let Some(e) = e {
+            return Err(e.clone());
+        }
+    }
+    for e in missing {
+        if let CurveError::UnknownUnit { curve, .. } = e {
+            if !needed.contains(curve) {
+                warnings.push(format!("{e}; curve not used"));
+            }
+        }
+    }
+    Ok(())
+}
+
+/// Bit size from the header's ~P BS when the file has no bit-size curve:
+/// set in every zone that does not give `bit-size-in` itself.
+fn bit_size_from_header(file: &LasFile, depth_unit: DepthUnit, setups: &mut [ZoneSetup]) {
+    let Some(bs) = file.param("BS").and_then(|i| {
+        i.value
+            .trim()
+            .parse::<f64>()
+            .ok()
+            .map(|v| (v, i.unit.clone()))
+    }) else {
+        return;
+    };
+    let conv = crate::units::Conversion::from_unit(Quantity::Diameter, &bs.1, depth_unit);
+    for s in setups {
+        if s.params.bit_size_in.is_none() {
+            s.params.bit_size_in = conv.map(|c| bs.0 * c.factor);
+        }
+    }
 }
 
 /// The logs stage's output columns: depth, TVDSS, the chain's curves, FLAG,

@@ -59,7 +59,7 @@ pub struct ClassSetup {
 }
 
 /// What the class stage did before the wells, for the run summary.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Default, Serialize)]
 pub struct ClassSummary {
     /// The scheme of CLASS.
     pub scheme: Option<SchemeInfo>,
@@ -125,19 +125,7 @@ pub fn prepare(
     progress: bool,
 ) -> Result<Prepared, ClassStageError> {
     let config = &ctx.config;
-    let mut summary = ClassSummary {
-        scheme: None,
-        schemes: Vec::new(),
-        model_file: None,
-        trained: false,
-        core_file: None,
-        core_samples: 0,
-        core_rejected: Vec::new(),
-        training_excluded: BTreeMap::new(),
-        shifts_applied: BTreeMap::new(),
-        shift_suggestions: BTreeMap::new(),
-        outputs: Vec::new(),
-    };
+    let mut summary = ClassSummary::default();
     let predictor_cfg = config.predictor.clone().unwrap_or_default();
     let wants_model =
         config.classes.is_some() && (config.predictor.is_some() || config.core.is_some());
@@ -187,21 +175,7 @@ pub fn prepare(
             data.samples.len()
         );
     }
-    let pass: Vec<(String, String, Result<Option<Table>, well::WellError>)> = files
-        .par_iter()
-        .map(|f| {
-            let stem = well::stem_of(f);
-            match well::process(f, ctx) {
-                Ok(o) => {
-                    let cored = core_wells
-                        .iter()
-                        .any(|w| w.eq_ignore_ascii_case(&o.name) || w.eq_ignore_ascii_case(&stem));
-                    (o.name, stem, Ok(cored.then_some(o.table)))
-                }
-                Err(e) => (stem.clone(), stem, Err(e)),
-            }
-        })
-        .collect();
+    let pass = read_wells(files, ctx, &core_wells);
     let names: Vec<(String, String)> = pass
         .iter()
         .map(|(n, s, _)| (n.clone(), s.clone()))
@@ -210,37 +184,12 @@ pub fn prepare(
     summary.core_samples = core.samples.len();
     summary.core_rejected = core.rejected.clone();
     summary.shifts_applied = core.shifts.clone();
-    let mut tables: BTreeMap<String, Table> = BTreeMap::new();
-    let mut failed: BTreeMap<String, String> = BTreeMap::new();
-    for (name, _, r) in pass {
-        match r {
-            Ok(Some(t)) => {
-                tables.insert(name, t);
-            }
-            Ok(None) => {}
-            Err(e) => {
-                failed.insert(name, chain(&e));
-            }
-        }
-    }
+    let (tables, failed) = cored_tables(pass);
     summary.shift_suggestions = core_match::suggest_shifts(&core, &tables, core_cfg);
 
     // schemes: every configured one for the core table, the used one for the model
     let phi_k = core.phi_k();
-    let mut schemes: Vec<(String, Box<dyn ClassScheme>)> = Vec::new();
-    if let Some(cl) = &config.classes {
-        for (name, spec) in &cl.scheme {
-            let s = classes::build(spec, &phi_k).map_err(|source| {
-                crate::classes::compare::SchemeBuildError {
-                    scheme: name.clone(),
-                    without: None,
-                    source,
-                }
-            })?;
-            summary.schemes.push(classes::info(name, s.as_ref()));
-            schemes.push((name.clone(), s));
-        }
-    }
+    let schemes = build_schemes(config, &phi_k, &mut summary)?;
     let core_dir = out.join("core");
     std::fs::create_dir_all(&core_dir).map_err(|source| OutputError::Io {
         path: core_dir.clone(),
@@ -322,6 +271,75 @@ pub fn prepare(
         summary,
         core: Some(core),
     })
+}
+
+/// One well's pass through the logs stages: (name, file stem, its table when
+/// the well is cored, or why it failed).
+type WellPass = (String, String, Result<Option<Table>, well::WellError>);
+
+/// Pass 1 of the class stage: the logs stages on every well (in parallel),
+/// keeping the tables of the wells in `core_wells` (lower case).
+fn read_wells(files: &[PathBuf], ctx: &RunContext, core_wells: &[String]) -> Vec<WellPass> {
+    files
+        .par_iter()
+        .map(|f| {
+            let stem = well::stem_of(f);
+            match well::process(f, ctx) {
+                Ok(o) => {
+                    let cored = core_wells
+                        .iter()
+                        .any(|w| w.eq_ignore_ascii_case(&o.name) || w.eq_ignore_ascii_case(&stem));
+                    (o.name, stem, Ok(cored.then_some(o.table)))
+                }
+                Err(e) => (stem.clone(), stem, Err(e)),
+            }
+        })
+        .collect()
+}
+
+/// The cored wells' tables by well name, and the wells that failed with why.
+fn cored_tables(pass: Vec<WellPass>) -> (BTreeMap<String, Table>, BTreeMap<String, String>) {
+    let mut tables: BTreeMap<String, Table> = BTreeMap::new();
+    let mut failed: BTreeMap<String, String> = BTreeMap::new();
+    for (name, _, r) in pass {
+        match r {
+            Ok(Some(t)) => {
+                tables.insert(name, t);
+            }
+            Ok(None) => {}
+            Err(e) => {
+                failed.insert(name, chain(&e));
+            }
+        }
+    }
+    (tables, failed)
+}
+
+/// Schemes by their `[classes.scheme]` name, in config order.
+type NamedSchemes = Vec<(String, Box<dyn ClassScheme>)>;
+
+/// Every scheme of `[classes.scheme]`, built (data-driven ones fitted to the
+/// core's φ-k pairs) and recorded in `summary`.
+fn build_schemes(
+    config: &crate::config::Config,
+    phi_k: &[(f64, f64)],
+    summary: &mut ClassSummary,
+) -> Result<NamedSchemes, ClassStageError> {
+    let mut schemes: Vec<(String, Box<dyn ClassScheme>)> = Vec::new();
+    if let Some(cl) = &config.classes {
+        for (name, spec) in &cl.scheme {
+            let s = classes::build(spec, phi_k).map_err(|source| {
+                crate::classes::compare::SchemeBuildError {
+                    scheme: name.clone(),
+                    without: None,
+                    source,
+                }
+            })?;
+            summary.schemes.push(classes::info(name, s.as_ref()));
+            schemes.push((name.clone(), s));
+        }
+    }
+    Ok(schemes)
 }
 
 /// The training set: log features at every matched core sample of the wells
