@@ -10,7 +10,10 @@
 
 pub mod compare;
 pub mod core_match;
+pub mod features;
+pub mod posterior;
 pub mod predictor;
+pub mod sequence;
 pub mod stage;
 
 pub mod clusters;

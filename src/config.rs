@@ -19,7 +19,8 @@ use crate::units::DepthUnit;
 mod classes;
 mod saturation;
 pub use classes::{
-    ClassesConfig, CoreConfig, CoreFormat, Feature, PermMethod, PredictorConfig, SchemeSpec,
+    ClassesConfig, CoreConfig, CoreFormat, EvidenceMode, Feature, PermMethod, PredictorConfig,
+    SchemeSpec,
 };
 pub use saturation::{
     CapillaryConfig, CompartmentConfig, ContactsConfig, FluidProps, FluidSystem, PressuresConfig,

@@ -148,7 +148,7 @@ pub fn is_reservoir(vsh: Option<f64>, max_vsh: f64) -> bool {
 }
 
 /// One training row: features, class, log PHIE.
-pub type TrainingRow = (Vec<f64>, u8, f64);
+pub type TrainingRow = (Vec<f64>, u8, f64, usize);
 
 /// Pair a well's core samples with the log features at their log depth. Each
 /// sample left out is returned with its line and reason.
@@ -173,10 +173,9 @@ pub fn training_rows(
         }
         return (rows, out);
     };
-    let cols: Vec<(Feature, Option<&[f64]>)> = features
-        .iter()
-        .map(|f| (*f, table.get(f.column())))
-        .collect();
+    let scales = cfg.context_scales();
+    let w = crate::classes::features::width(features.len(), scales.len());
+    let all = crate::classes::features::rows(table, features, scales);
     for s in samples {
         let line = s.sample.line;
         let Some(class) = scheme.classify(s.sample.porosity, s.sample.perm_md) else {
@@ -208,21 +207,13 @@ pub fn training_rows(
             );
             continue;
         }
-        let mut x = Vec::with_capacity(cols.len());
-        let mut missing = None;
-        for (feat, col) in &cols {
-            let v = col.map_or(f64::NAN, |c| feat.transform(c[i]));
-            if !v.is_finite() {
-                missing = Some(feat.name());
-                break;
-            }
-            x.push(v);
-        }
-        if let Some(name) = missing {
+        let x = &all[i * w..(i + 1) * w];
+        if let Some(j) = x.iter().position(|v| !v.is_finite()) {
+            let name = crate::classes::features::column_name(features, scales, j);
             skip(line, format!("no {name} at depth {:.3}", depth[i]));
             continue;
         }
-        rows.push((x, class, phie[i]));
+        rows.push((x.to_vec(), class, phie[i], i));
     }
     (rows, out)
 }

@@ -53,6 +53,51 @@ impl ClassPerm {
     }
 }
 
+impl ClassPerm {
+    /// RMS scatter of log10 k about the relation `method` uses.
+    pub fn scatter_log10(&self, method: crate::config::PermMethod) -> f64 {
+        match (method, self.line_rms_log10) {
+            (crate::config::PermMethod::Line, Some(r)) => r,
+            _ => self.fzi_rms_log10,
+        }
+    }
+}
+
+/// Permeability from class probabilities: the mean and standard deviation of
+/// log10 k over the classes, each class's k from its relation at porosity
+/// `phi`, weighted by `probs` (class 1 first; classes without a relation in
+/// `by_class` are left out and the rest re-weighted). The variance is the
+/// law of total variance: the spread of the class means plus the mean of each
+/// class's own scatter squared. `None` when no class with a relation has
+/// probability.
+pub fn from_probabilities(
+    probs: &[f64],
+    by_class: &std::collections::BTreeMap<u8, &ClassPerm>,
+    method: crate::config::PermMethod,
+    phi: f64,
+) -> Option<(f64, f64)> {
+    let terms: Vec<(f64, f64, f64)> = probs
+        .iter()
+        .enumerate()
+        .filter_map(|(i, &p)| {
+            let c = by_class.get(&u8::try_from(i + 1).ok()?)?;
+            let k = c.perm(method, phi);
+            (p > 0.0 && k > 0.0 && k.is_finite()).then(|| (p, k.log10(), c.scatter_log10(method)))
+        })
+        .collect();
+    let w: f64 = terms.iter().map(|t| t.0).sum();
+    if w <= 0.0 {
+        return None;
+    }
+    let mean = terms.iter().map(|(p, m, _)| p * m).sum::<f64>() / w;
+    let var = terms
+        .iter()
+        .map(|(p, m, s)| p * ((m - mean).powi(2) + s.powi(2)))
+        .sum::<f64>()
+        / w;
+    Some((mean, var.sqrt()))
+}
+
 fn rms(v: impl Iterator<Item = f64>) -> f64 {
     let (mut s, mut n) = (0.0, 0usize);
     for x in v {
@@ -110,7 +155,44 @@ pub fn fit(samples: &[(u8, f64, f64)]) -> Vec<ClassPerm> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::config::PermMethod;
     use crate::stats::assert_close;
+
+    /// Two classes 100× apart in k (log10 2 apart), each with scatter
+    /// 0.1, at probabilities 0.75/0.25: mean 0.25·2 = 0.5 above class 1,
+    /// variance 0.75·0.25·2² + 0.1² = 0.76 (law of total variance, by hand); all on one class
+    /// gives that class and its own scatter.
+    #[test]
+    fn posterior_permeability() {
+        let class = |c: u8, fzi: f64| ClassPerm {
+            class: c,
+            samples: 10,
+            fzi_um: fzi,
+            fzi_rms_log10: 0.1,
+            intercept: None,
+            slope: None,
+            line_rms_log10: None,
+        };
+        let phi = 0.2;
+        let a = class(1, 1.0);
+        let b0 = class(2, 1.0);
+        let ka = a.perm_fzi(phi);
+        // class 2's FZI chosen so that its k is 100 × class 1's
+        let b = ClassPerm { fzi_um: 10.0, ..b0 };
+        assert_close(b.perm_fzi(phi) / ka, 100.0, 1e-9);
+        let map: std::collections::BTreeMap<u8, &ClassPerm> =
+            [(1, &a), (2, &b)].into_iter().collect();
+        let (m, sd) = from_probabilities(&[0.75, 0.25], &map, PermMethod::Fzi, phi).unwrap();
+        assert_close(m, ka.log10() + 0.5, 1e-9);
+        assert_close(sd, 0.76f64.sqrt(), 1e-9);
+        let (m1, sd1) = from_probabilities(&[1.0, 0.0], &map, PermMethod::Fzi, phi).unwrap();
+        assert_close(m1, ka.log10(), 1e-12);
+        assert_close(sd1, 0.1, 1e-12);
+        assert_eq!(
+            from_probabilities(&[0.0, 0.0, 1.0], &map, PermMethod::Fzi, phi),
+            None
+        );
+    }
 
     /// Constructed: samples that lie exactly on one FZI (2.0 µm) give that FZI
     /// back and zero residual; samples on an exact line log10 k = −1 + 15φ give

@@ -171,6 +171,35 @@ impl Forest {
     /// Class and vote share of each row of row-major `x`. Rows with a value
     /// that is not a number get `None`. Ties go to the lower class.
     pub fn predict(&self, x: &[f64]) -> Result<Vec<Option<(u8, f64)>>, PredictError> {
+        let k = self.class_slots();
+        let shares = self.vote_shares(x)?;
+        Ok(shares
+            .chunks_exact(k)
+            .map(|v| {
+                if v[0].is_nan() {
+                    return None;
+                }
+                let (best, share) =
+                    v.iter().enumerate().fold(
+                        (0, 0.0),
+                        |acc, (c, &s)| {
+                            if s > acc.1 { (c, s) } else { acc }
+                        },
+                    );
+                Some((best as u8, share))
+            })
+            .collect())
+    }
+
+    /// Slots per row of [`Forest::vote_shares`]: class numbers 0 to the highest.
+    pub fn class_slots(&self) -> usize {
+        usize::from(self.classes.last().copied().unwrap_or(0)) + 1
+    }
+
+    /// Share of the trees voting for each class number (slot 0 unused by
+    /// schemes, whose classes start at 1), [`Forest::class_slots`] per row of
+    /// row-major `x`; NaN throughout for a row with a value that is not a number.
+    pub fn vote_shares(&self, x: &[f64]) -> Result<Vec<f64>, PredictError> {
         let nf = self.n_features;
         if x.len() % nf != 0 {
             return Err(PredictError::Shape {
@@ -180,17 +209,17 @@ impl Forest {
             });
         }
         let rows = x.len() / nf;
-        let mut out = vec![None; rows];
+        let n_classes = self.class_slots();
+        let mut out = vec![f64::NAN; rows * n_classes];
         let ok: Vec<usize> = (0..rows)
             .filter(|&r| x[r * nf..(r + 1) * nf].iter().all(|v| v.is_finite()))
             .collect();
-        let n_classes = usize::from(self.classes.last().copied().unwrap_or(0)) + 1;
         let total = f64::from(self.trees.len() as u32);
         // blocks in parallel (each block's votes are its own, so the result is
         // the same on any thread count)
-        let blocks: Vec<Vec<(u8, f64)>> = ok
+        let blocks: Vec<Vec<u16>> = ok
             .par_chunks(PREDICT_BLOCK_ROWS)
-            .map(|block| -> Result<Vec<(u8, f64)>, PredictError> {
+            .map(|block| -> Result<Vec<u16>, PredictError> {
                 let mut values = Vec::with_capacity(block.len() * nf);
                 for &r in block {
                     values.extend_from_slice(&x[r * nf..(r + 1) * nf]);
@@ -205,20 +234,14 @@ impl Forest {
                         votes[i * n_classes + *c as usize] += 1;
                     }
                 }
-                Ok(votes
-                    .chunks_exact(n_classes)
-                    .map(|v| {
-                        let (best, count) = v.iter().enumerate().fold((0, 0u16), |acc, (c, &n)| {
-                            if n > acc.1 { (c, n) } else { acc }
-                        });
-                        (best as u8, f64::from(count) / total)
-                    })
-                    .collect())
+                Ok(votes)
             })
             .collect::<Result<_, _>>()?;
-        for (block, res) in ok.chunks(PREDICT_BLOCK_ROWS).zip(blocks) {
-            for (&r, p) in block.iter().zip(res) {
-                out[r] = Some(p);
+        for (block, votes) in ok.chunks(PREDICT_BLOCK_ROWS).zip(blocks) {
+            for (&r, v) in block.iter().zip(votes.chunks_exact(n_classes)) {
+                for (slot, &n) in out[r * n_classes..(r + 1) * n_classes].iter_mut().zip(v) {
+                    *slot = f64::from(n) / total;
+                }
             }
         }
         Ok(out)
@@ -228,9 +251,13 @@ impl Forest {
 /// Samples to train and validate on: features at cored depths and the core class.
 #[derive(Debug, Clone, Default, Serialize)]
 pub struct TrainingSet {
-    /// The features, in the order of each row's values.
+    /// The features, in the order of each row's blocks.
     pub features: Vec<Feature>,
-    /// Row-major feature values.
+    /// Context window half-widths, m; empty for point features only. Each
+    /// feature's block is its point value then mean, slope and spread per
+    /// window ([`crate::classes::features`]).
+    pub context_scales_m: Vec<f64>,
+    /// Row-major feature values, [`TrainingSet::width`] per row.
     pub x: Vec<f64>,
     /// Core class of each row.
     pub y: Vec<u8>,
@@ -238,6 +265,8 @@ pub struct TrainingSet {
     pub well: Vec<String>,
     /// Log effective porosity of each row, v/v (for the porosity-bin baseline).
     pub phie: Vec<f64>,
+    /// Row of the well's log table each sample was read at.
+    pub row: Vec<usize>,
 }
 
 impl TrainingSet {
@@ -246,25 +275,40 @@ impl TrainingSet {
         self.y.len()
     }
 
-    /// The same rows with only `keep` features (in the order of `keep`).
-    pub fn select(&self, keep: &[Feature]) -> TrainingSet {
-        let nf = self.features.len();
+    /// Values per row.
+    pub fn width(&self) -> usize {
+        crate::classes::features::width(self.features.len(), self.context_scales_m.len())
+    }
+
+    /// The same rows with only `keep` features (in the order of `keep`), and
+    /// their context when `context` (else point values only).
+    pub fn select(&self, keep: &[Feature], context: bool) -> TrainingSet {
+        let w = self.width();
+        let per = 1 + crate::classes::features::STATS_PER_WINDOW * self.context_scales_m.len();
+        let take = if context { per } else { 1 };
         let idx: Vec<usize> = keep
             .iter()
             .filter_map(|f| self.features.iter().position(|g| g == f))
             .collect();
-        let mut x = Vec::with_capacity(self.rows() * idx.len());
+        let mut x = Vec::with_capacity(self.rows() * idx.len() * take);
         for r in 0..self.rows() {
             for &j in &idx {
-                x.push(self.x[r * nf + j]);
+                let at = r * w + j * per;
+                x.extend_from_slice(&self.x[at..at + take]);
             }
         }
         TrainingSet {
             features: idx.iter().map(|&j| self.features[j]).collect(),
+            context_scales_m: if context {
+                self.context_scales_m.clone()
+            } else {
+                Vec::new()
+            },
             x,
             y: self.y.clone(),
             well: self.well.clone(),
             phie: self.phie.clone(),
+            row: self.row.clone(),
         }
     }
 
@@ -276,10 +320,17 @@ impl TrainingSet {
         w
     }
 
+    /// The rows of every well but `well`.
+    pub fn without_well(&self, well: &str) -> TrainingSet {
+        let rows: Vec<usize> = (0..self.rows()).filter(|&r| self.well[r] != well).collect();
+        self.subset(&rows)
+    }
+
     fn subset(&self, rows: &[usize]) -> TrainingSet {
-        let nf = self.features.len();
+        let nf = self.width();
         TrainingSet {
             features: self.features.clone(),
+            context_scales_m: self.context_scales_m.clone(),
             x: rows
                 .iter()
                 .flat_map(|&r| self.x[r * nf..(r + 1) * nf].iter().copied())
@@ -287,6 +338,7 @@ impl TrainingSet {
             y: rows.iter().map(|&r| self.y[r]).collect(),
             well: rows.iter().map(|&r| self.well[r].clone()).collect(),
             phie: rows.iter().map(|&r| self.phie[r]).collect(),
+            row: rows.iter().map(|&r| self.row[r]).collect(),
         }
     }
 }
@@ -372,7 +424,7 @@ pub fn leave_one_well_out(
     if wells.len() < 2 {
         return Ok(None);
     }
-    let nf = set.features.len();
+    let nf = set.width();
     type Fold = (
         Vec<(u8, u8, usize)>,
         Vec<(u8, u8, usize)>,
@@ -425,7 +477,7 @@ struct NearestCentroid {
 
 impl NearestCentroid {
     fn fit(set: &TrainingSet) -> NearestCentroid {
-        let nf = set.features.len();
+        let nf = set.width();
         let n = set.rows().max(1) as f64;
         let mut mean = vec![0.0; nf];
         for row in set.x.chunks_exact(nf) {

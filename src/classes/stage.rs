@@ -19,13 +19,14 @@ use std::time::Instant;
 use rayon::prelude::*;
 use serde::{Deserialize, Serialize};
 
-use crate::classes::core_match::{self, FieldCore, NO_CLASS_FLAGS};
+use crate::classes::core_match::{self, FieldCore};
+use crate::classes::posterior;
 use crate::classes::predictor::model_file::{
-    ClassModel, FeatureInfo, ModelHeader, SMARTCORE_VERSION, SchemeInfo,
+    AblationRow, ClassModel, FeatureInfo, ModelHeader, SMARTCORE_VERSION, SchemeInfo,
 };
 use crate::classes::predictor::{self, Feature, Forest, ForestParams, TrainingSet};
 use crate::classes::{self, ClassScheme, perm};
-use crate::config::{PermMethod, PredictorConfig};
+use crate::config::{EvidenceMode, PermMethod, PredictorConfig};
 use crate::input::core_samples::{Rejected, ShiftSuggestion};
 use crate::output::messages::chain;
 use crate::output::schema::{Col, FLAG_LOW_CLASS_PROBABILITY, flag_description};
@@ -248,6 +249,7 @@ pub fn prepare(
                 &predictor_cfg,
                 cl.perm_method,
                 perm_fit,
+                &tables,
                 out,
                 &mut summary,
                 progress,
@@ -355,6 +357,7 @@ fn training_set(
 ) -> TrainingSet {
     let mut set = TrainingSet {
         features: features.to_vec(),
+        context_scales_m: predictor_cfg.context_scales().to_vec(),
         ..TrainingSet::default()
     };
     for w in core.wells() {
@@ -382,11 +385,12 @@ fn training_set(
         if !excluded.is_empty() {
             summary.training_excluded.insert(w.clone(), excluded);
         }
-        for (x, y, phie) in rows {
+        for (x, y, phie, row) in rows {
             set.x.extend(x);
             set.y.push(y);
             set.well.push(w.clone());
             set.phie.push(phie);
+            set.row.push(row);
         }
     }
     set
@@ -401,6 +405,7 @@ fn train_and_save(
     predictor_cfg: &PredictorConfig,
     perm_method: PermMethod,
     perm_fit: Vec<perm::ClassPerm>,
+    logs: &BTreeMap<String, Table>,
     out: &Path,
     summary: &mut ClassSummary,
     progress: bool,
@@ -414,7 +419,7 @@ fn train_and_save(
             set.features.len()
         );
     }
-    let model = train(set, info, predictor_cfg, perm_method, perm_fit)?;
+    let model = train(set, info, predictor_cfg, perm_method, perm_fit, Some(logs))?;
     if progress {
         note!("train: forest fitted in {:.3} s", model.header.fit_seconds);
     }
@@ -507,13 +512,18 @@ fn check_scheme(
 }
 
 /// Fit the forest on the training set, score it leave-one-well-out, and wrap
-/// it with its header.
+/// it with its header. With `predictor.context = "auto"` and two or more
+/// cored wells, the forest is scored on point features and on point plus
+/// depth context, and the better leave-one-well-out exact score is kept
+/// (point features on a tie: the simpler model); every variant scored is a
+/// line of the header's ablation table.
 pub fn train(
     set: &TrainingSet,
     scheme: &SchemeInfo,
     cfg: &PredictorConfig,
     perm_method: PermMethod,
     perm: Vec<perm::ClassPerm>,
+    logs: Option<&BTreeMap<String, Table>>,
 ) -> Result<ClassModel, ClassStageError> {
     if set.rows() == 0 {
         return Err(ClassStageError::NoTrainingSamples);
@@ -524,15 +534,79 @@ pub fn train(
         min_samples_leaf: cfg.min_samples_leaf,
         seed: cfg.seed,
     };
-    let nf = set.features.len();
+    let has_context = !set.context_scales_m.is_empty();
+    let mut variants: Vec<(&str, TrainingSet)> = Vec::new();
+    if cfg.context != EvidenceMode::On || !has_context {
+        variants.push(("point features", set.select(&set.features, false)));
+    }
+    if cfg.context != EvidenceMode::Off && has_context {
+        variants.push(("+ depth context", set.clone()));
+    }
+    let mut scored = Vec::with_capacity(variants.len());
+    for (name, v) in variants {
+        let validation = predictor::leave_one_well_out(&v, &params, scheme.class_count)?;
+        scored.push((name, v, validation));
+    }
+    // the first (simplest) variant wins unless a later one scores higher
+    let best = (0..scored.len())
+        .max_by(|&i, &j| {
+            let e = |k: usize| {
+                scored[k]
+                    .2
+                    .as_ref()
+                    .map_or(f64::NEG_INFINITY, |v| v.forest.exact)
+            };
+            e(i).total_cmp(&e(j)).then(j.cmp(&i))
+        })
+        .unwrap_or(0);
+    let mut ablation: Vec<AblationRow> = scored
+        .iter()
+        .enumerate()
+        .filter_map(|(k, (name, _, v))| {
+            v.as_ref().map(|v| AblationRow {
+                evidence: (*name).to_string(),
+                exact: v.forest.exact,
+                within_one: v.forest.within_one,
+                chosen: k == best,
+            })
+        })
+        .collect();
+    let (_, chosen, validation) = scored.swap_remove(best);
+    // the bed sequence, scored on the cored wells' whole logs
+    let k = scheme.class_count;
+    let mut sequence = None;
+    if let (Some(logs), true) = (logs, cfg.sequence != EvidenceMode::Off) {
+        let scores = posterior::sequence_scores(&chosen, logs, &params, k, cfg.max_vsh)?;
+        let model = posterior::sequence_from(&chosen, logs, k);
+        if let (Some(((e0, w0), (e1, w1))), Some(model)) = (scores, model) {
+            let use_it = cfg.sequence == EvidenceMode::On || e1 > e0;
+            for r in &mut ablation {
+                r.chosen = r.chosen && !use_it;
+            }
+            ablation.push(AblationRow {
+                evidence: "same, on the cored logs".into(),
+                exact: e0,
+                within_one: w0,
+                chosen: false,
+            });
+            ablation.push(AblationRow {
+                evidence: "+ bed sequence (logs)".into(),
+                exact: e1,
+                within_one: w1,
+                chosen: use_it,
+            });
+            sequence = use_it.then_some(model);
+        } else if cfg.sequence == EvidenceMode::On {
+            sequence = posterior::sequence_from(&chosen, logs, k);
+        }
+    }
     let start = Instant::now();
-    let forest = Forest::fit(&set.x, nf, &set.y, &params)?;
+    let forest = Forest::fit(&chosen.x, chosen.width(), &chosen.y, &params)?;
     let fit_seconds = start.elapsed().as_secs_f64();
-    let validation = predictor::leave_one_well_out(set, &params, scheme.class_count)?;
     let samples_per_class = (1..=scheme.class_count)
         .filter_map(|c| {
             let c = u8::try_from(c).ok()?;
-            let n = set.y.iter().filter(|&&y| y == c).count();
+            let n = chosen.y.iter().filter(|&&y| y == c).count();
             (n > 0).then_some((c, n))
         })
         .collect();
@@ -540,7 +614,7 @@ pub fn train(
         flowzone_version: env!("CARGO_PKG_VERSION").into(),
         smartcore_version: SMARTCORE_VERSION.into(),
         scheme: scheme.clone(),
-        features: set
+        features: chosen
             .features
             .iter()
             .map(|f| FeatureInfo {
@@ -548,9 +622,12 @@ pub fn train(
                 unit: f.unit().into(),
             })
             .collect(),
+        context_scales_m: chosen.context_scales_m.clone(),
+        ablation,
+        sequence,
         params,
-        training_wells: set.wells(),
-        training_samples: set.rows(),
+        training_wells: chosen.wells(),
+        training_samples: chosen.rows(),
         samples_per_class,
         perm_method,
         perm,
@@ -580,6 +657,33 @@ pub fn report_text(h: &ModelHeader, summary: &ClassSummary) -> String {
         .map(|f| format!("{} ({})", f.name.name(), f.unit))
         .collect();
     let _ = writeln!(s, "features: {}", feats.join(", "));
+    if h.context_scales_m.is_empty() {
+        let _ = writeln!(s, "depth context: none (point values only)");
+    } else {
+        let w: Vec<String> = h
+            .context_scales_m
+            .iter()
+            .map(|w| format!("±{w} m"))
+            .collect();
+        let _ = writeln!(
+            s,
+            "depth context: mean, slope and spread of each feature over {} ({} values per depth)",
+            w.join(" and "),
+            h.width()
+        );
+    }
+    match &h.sequence {
+        None => {
+            let _ = writeln!(s, "bed sequence: none (each depth classed on its own)");
+        }
+        Some(q) => {
+            let _ = writeln!(
+                s,
+                "bed sequence: hidden Markov model along depth, mean bed {:.2} m from the cored wells' plugs (Rabiner 1989)",
+                q.bed_thickness_m
+            );
+        }
+    }
     let _ = writeln!(
         s,
         "forest: {} trees, max depth {}, min leaf {}, seed {}",
@@ -600,6 +704,34 @@ pub fn report_text(h: &ModelHeader, summary: &ClassSummary) -> String {
             s,
             "core samples not used for training: {excluded} (reasons in core/core-report.json)"
         );
+    }
+    if !h.ablation.is_empty() {
+        let _ = writeln!(
+            s,
+            "\nwhat each piece of evidence adds (leave-one-well-out on the cored wells; gain over point features, % points)"
+        );
+        let _ = writeln!(
+            s,
+            "  {:<28} {:>8} {:>11} {:>8}",
+            "evidence", "exact", "within one", "gain"
+        );
+        let first = h.ablation.first().map_or(0.0, |r| r.exact);
+        for (i, r) in h.ablation.iter().enumerate() {
+            let gain = if i == 0 {
+                "-".to_string()
+            } else {
+                format!("{:+.1}", 100.0 * (r.exact - first))
+            };
+            let _ = writeln!(
+                s,
+                "  {:<28} {:>8} {:>11} {:>8}{}",
+                r.evidence,
+                pct(r.exact),
+                pct(r.within_one),
+                gain,
+                if r.chosen { "   <- used" } else { "" }
+            );
+        }
     }
     match &h.validation {
         None => {
@@ -699,15 +831,30 @@ impl ClassSetup {
             .entry(keep.clone())
             .or_insert_with(|| {
                 let h = &self.model.header;
+                let context = !h.context_scales_m.is_empty();
+                let cfg = PredictorConfig {
+                    context: if context {
+                        EvidenceMode::On
+                    } else {
+                        EvidenceMode::Off
+                    },
+                    sequence: EvidenceMode::Off,
+                    ..self.cfg.clone()
+                };
                 train(
-                    &training.select(&keep),
+                    &training.select(&keep, context),
                     &h.scheme,
-                    &self.cfg,
+                    &cfg,
                     h.perm_method,
                     h.perm.clone(),
+                    None,
                 )
                 .ok()
-                .map(Arc::new)
+                .map(|mut m| {
+                    // the same bed sequence as the full model
+                    m.header.sequence = h.sequence.clone();
+                    Arc::new(m)
+                })
             })
             .clone()
     }
@@ -746,6 +893,7 @@ impl ClassSetup {
         let mut class = vec![f64::NAN; n];
         let mut prob = vec![f64::NAN; n];
         let mut permv = vec![f64::NAN; n];
+        let mut perm_sd = vec![f64::NAN; n];
         let mut counts = ClassCounts {
             per_class: vec![0; self.scheme.class_count],
             ..ClassCounts::default()
@@ -756,41 +904,31 @@ impl ClassSetup {
         if let Some(model) = &model {
             let feats = model.header.feature_list();
             counts.features = feats.clone();
-            let cols: Vec<(Feature, &[f64])> = feats
-                .iter()
-                .filter_map(|f| table.get(f.column()).map(|c| (*f, c)))
-                .collect();
-            let vsh = table.get(Col::Vsh).unwrap_or(&[]);
+            let inputs = posterior::well_inputs(
+                table,
+                &feats,
+                &model.header.context_scales_m,
+                self.cfg.max_vsh,
+            );
+            counts.flagged = inputs.flagged;
+            counts.shale = inputs.shale;
+            counts.missing_feature = inputs.missing_feature;
             let phie = table.get(Col::Phie).unwrap_or(&[]);
-            let nf = cols.len();
-            let mut rows = Vec::new();
-            let mut x = Vec::new();
-            for i in 0..n {
-                if (flag[i] as u32) & NO_CLASS_FLAGS != 0 {
-                    counts.flagged += 1;
-                    continue;
-                }
-                if !crate::classes::core_match::is_reservoir(vsh.get(i).copied(), self.cfg.max_vsh)
-                {
-                    counts.shale += 1;
-                    continue;
-                }
-                let start = x.len();
-                x.extend(cols.iter().map(|(f, c)| f.transform(c[i])));
-                if x[start..].iter().any(|v| !v.is_finite()) {
-                    x.truncate(start);
-                    counts.missing_feature += 1;
-                    continue;
-                }
-                rows.push(i);
-            }
-            debug_assert_eq!(x.len(), rows.len() * nf);
-            match model.forest.predict(&x) {
-                Ok(pred) => {
+            let k = self.scheme.class_count;
+            match posterior::class_probabilities(
+                &model.forest,
+                &inputs,
+                k,
+                model.header.sequence.as_ref(),
+                posterior::step_m(table),
+            ) {
+                Ok(probs) => {
                     let perm_by_class: BTreeMap<u8, &perm::ClassPerm> =
                         model.header.perm.iter().map(|p| (p.class, p)).collect();
-                    for (r, p) in rows.iter().zip(pred) {
-                        let Some((c, share)) = p else { continue };
+                    for (r, p) in inputs.rows.iter().zip(probs.chunks_exact(k)) {
+                        let Some((c, share)) = posterior::most_probable(p) else {
+                            continue;
+                        };
                         class[*r] = f64::from(c);
                         prob[*r] = share;
                         counts.classified += 1;
@@ -802,9 +940,13 @@ impl ClassSetup {
                             counts.low_probability += 1;
                             flag[*r] = f64::from((flag[*r] as u32) | FLAG_LOW_CLASS_PROBABILITY);
                         }
-                        if let (Some(cp), Some(&ph)) = (perm_by_class.get(&c), phie.get(*r)) {
-                            if ph > 0.0 {
-                                permv[*r] = cp.perm(model.header.perm_method, ph);
+                        if let Some(&ph) = phie.get(*r).filter(|ph| **ph > 0.0) {
+                            let method = model.header.perm_method;
+                            if let Some((m, sd)) =
+                                perm::from_probabilities(p, &perm_by_class, method, ph)
+                            {
+                                permv[*r] = 10f64.powf(m);
+                                perm_sd[*r] = sd;
                             }
                         }
                     }
@@ -825,12 +967,13 @@ impl ClassSetup {
                 .described(format!("{} ({describe})", Col::Class.description())),
             OutColumn::new(Col::ClassProb, du, prob),
             OutColumn::new(Col::Perm, du, permv).described(format!(
-                "PERMEABILITY FROM CLASS AND PHIE ({})",
+                "PERMEABILITY FROM CLASS PROBABILITIES AND PHIE ({})",
                 match self.model.header.perm_method {
                     PermMethod::Fzi => "CLASS FZI",
                     PermMethod::Line => "CLASS LOG-K LINE",
                 }
             )),
+            OutColumn::new(Col::PermSd, du, perm_sd),
         ];
         for (k, c) in new.into_iter().enumerate() {
             table.columns.insert(at + k, c);

@@ -177,6 +177,52 @@ pub struct PredictorConfig {
     /// used for its features, project depth unit. Default 0.25.
     #[serde(default = "default_max_core_distance")]
     pub max_core_distance: f64,
+    /// Depth context (`context`): `auto` trains the forest on point features
+    /// and on point plus context features and keeps the one with the better
+    /// leave-one-well-out exact score on the cored wells; `on` or `off` force
+    /// one. Default `auto`.
+    #[serde(default)]
+    pub context: EvidenceMode,
+    /// Bed sequence (`sequence`): `auto` runs the class probabilities through
+    /// a hidden Markov model along depth when that scores better leave one
+    /// well out on the cored wells' logs; `on` or `off` force it. Default `auto`.
+    #[serde(default)]
+    pub sequence: EvidenceMode,
+    /// Half-widths of the context windows, m (`context-scales-m`): for every
+    /// feature, the mean, slope and spread of the log over each window around
+    /// the depth. Default [0.5, 1.5], about one and three times a density or
+    /// neutron tool's vertical resolution (common practice, from memory).
+    #[serde(default = "default_context_scales")]
+    pub context_scales_m: Vec<f64>,
+}
+
+/// Whether a piece of class evidence is used: chosen by score, or forced.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Deserialize, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum EvidenceMode {
+    /// Chosen by leave-one-well-out score on the cored wells.
+    #[default]
+    Auto,
+    /// Always used.
+    On,
+    /// Never used.
+    Off,
+}
+
+impl PredictorConfig {
+    /// The context windows the training set is built with: none when
+    /// `context = "off"`.
+    pub fn context_scales(&self) -> &[f64] {
+        if self.context == EvidenceMode::Off {
+            &[]
+        } else {
+            &self.context_scales_m
+        }
+    }
+}
+
+fn default_context_scales() -> Vec<f64> {
+    vec![0.5, 1.5]
 }
 
 fn default_features() -> Vec<String> {
@@ -223,6 +269,9 @@ impl Default for PredictorConfig {
             max_vsh: default_max_vsh(),
             allow_reduced_features: true,
             max_core_distance: default_max_core_distance(),
+            context: EvidenceMode::Auto,
+            sequence: EvidenceMode::Auto,
+            context_scales_m: default_context_scales(),
         }
     }
 }
@@ -283,6 +332,25 @@ pub fn validate(
         }
         if p.features.is_empty() {
             return Err(("predictor.features".into(), "the list is empty".into()));
+        }
+        if p.context_scales_m.len() > 4
+            || p.context_scales_m
+                .iter()
+                .any(|w| !(w.is_finite() && *w > 0.0 && *w <= 20.0))
+        {
+            return Err((
+                "predictor.context-scales-m".into(),
+                format!(
+                    "{:?}: give up to 4 half-widths, each above 0 and at most 20 m",
+                    p.context_scales_m
+                ),
+            ));
+        }
+        if p.context == EvidenceMode::On && p.context_scales_m.is_empty() {
+            return Err((
+                "predictor.context".into(),
+                "`on` needs at least one context-scales-m".into(),
+            ));
         }
         for f in &p.features {
             if Feature::parse(f).is_none() {

@@ -106,6 +106,7 @@ impl Well {
             sw: &self.sw,
             swh: &self.swh,
             class: &self.class,
+            class_prob: &[],
             perm: &self.perm,
             phie: &self.phie,
             flag: &self.flag,

@@ -32,10 +32,16 @@ pub enum Col {
     Flag,
     /// Hydraulic class, 1 the poorest rock.
     Class,
-    /// Share of the predictor's trees voting for the class, v/v.
+    /// Probability of the class at the depth (the bed sequence's posterior,
+    /// or the share of trees voting for it without one), v/v.
     ClassProb,
-    /// Permeability from class and porosity, mD.
+    /// Permeability from class and porosity, mD: 10 to the expected log10 k
+    /// over the class probabilities.
     Perm,
+    /// Standard deviation of log10 PERM: the spread between the classes'
+    /// permeabilities weighted by their probabilities, and each class's own
+    /// scatter about its porosity relation.
+    PermSd,
     /// Height above the free water level, the project's depth unit.
     Hafwl,
     /// Water saturation from height (the class's J-function), v/v.
@@ -64,6 +70,7 @@ impl Col {
             Col::Class => "CLASS",
             Col::ClassProb => "CLASS_PROB",
             Col::Perm => "PERM",
+            Col::PermSd => "PERM_LOG10_SD",
             Col::Hafwl => "HAFWL",
             Col::Swh => "SWH",
             Col::SwResid => "SW_RESID",
@@ -88,6 +95,7 @@ impl Col {
             | Col::Swh
             | Col::SwResid => "V/V",
             Col::Perm => "MD",
+            Col::PermSd => "LOG10(MD)",
             Col::Flag | Col::Class | Col::Contact => "",
             Col::Input(c) => c.quantity().canonical_unit(depth_unit),
         }
@@ -106,8 +114,9 @@ impl Col {
             Col::Bvw => "BULK VOLUME WATER",
             Col::Flag => "QUALITY FLAG BITS",
             Col::Class => "HYDRAULIC CLASS 1 POOREST",
-            Col::ClassProb => "SHARE OF TREES VOTING FOR CLASS",
+            Col::ClassProb => "PROBABILITY OF THE CLASS",
             Col::Perm => "PERMEABILITY",
+            Col::PermSd => "STANDARD DEVIATION OF LOG10 PERM",
             Col::Hafwl => "HEIGHT ABOVE FREE WATER LEVEL",
             Col::Swh => "WATER SATURATION FROM HEIGHT, CLASS J-FUNCTION",
             Col::SwResid => "SW MINUS SWH",
@@ -202,6 +211,7 @@ mod tests {
             Col::Class,
             Col::ClassProb,
             Col::Perm,
+            Col::PermSd,
             Col::Hafwl,
             Col::Swh,
             Col::SwResid,

@@ -78,6 +78,19 @@ pub struct ModelHeader {
     pub scheme: SchemeInfo,
     /// The features, in the order the forest reads them.
     pub features: Vec<FeatureInfo>,
+    /// Context window half-widths, m, of every feature; empty when the forest
+    /// reads point values only. A model file from before depth context has
+    /// none and loads as point features.
+    #[serde(default)]
+    pub context_scales_m: Vec<f64>,
+    /// What each kind of evidence scored leave-one-well-out on the cored
+    /// wells, in the order it was added; the chosen one is marked.
+    #[serde(default)]
+    pub ablation: Vec<AblationRow>,
+    /// The bed sequence the class probabilities go through; `None` when the
+    /// forest's own probabilities are used.
+    #[serde(default)]
+    pub sequence: Option<crate::classes::sequence::SequenceModel>,
     /// The forest settings it was trained with.
     pub params: ForestParams,
     /// Names of the wells trained on, sorted.
@@ -99,7 +112,25 @@ pub struct ModelHeader {
     pub fit_seconds: f64,
 }
 
+/// One line of the training report's ablation table.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct AblationRow {
+    /// The evidence the forest read: `point features`, `+ depth context`...
+    pub evidence: String,
+    /// Leave-one-well-out share of held-out plugs classed exactly.
+    pub exact: f64,
+    /// The same within one class.
+    pub within_one: f64,
+    /// Whether the model uses this evidence.
+    pub chosen: bool,
+}
+
 impl ModelHeader {
+    /// Values per row the forest reads.
+    pub fn width(&self) -> usize {
+        crate::classes::features::width(self.features.len(), self.context_scales_m.len())
+    }
+
     /// The features in model order.
     pub fn feature_list(&self) -> Vec<Feature> {
         self.features.iter().map(|f| f.name).collect()
@@ -242,11 +273,11 @@ impl ClassModel {
             .map_err(|e| corrupt(format!("header: {e}")))?;
         let forest: Forest = postcard::from_bytes(&rest[header_end + 1..])
             .map_err(|e| corrupt(format!("forest: {e}")))?;
-        if forest.n_features != header.features.len() {
+        if forest.n_features != header.width() {
             return Err(corrupt(format!(
                 "the forest has {} features, the header lists {}",
                 forest.n_features,
-                header.features.len()
+                header.width()
             )));
         }
         Ok(ClassModel { header, forest })

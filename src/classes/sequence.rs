@@ -1,0 +1,218 @@
+//! Bed sequence: a hidden Markov model along depth that turns each depth's
+//! class probabilities into posteriors that know their neighbours.
+//!
+//! Classes are bed properties and beds span many samples, so the class at a
+//! depth is not independent of the class just above it. The hidden state is
+//! the class; the chain stays in its class from one sample to the next with
+//! probability `stay` = 1 − step / L (L the mean bed thickness) and otherwise
+//! moves to another class in proportion to that class's prior. Each depth
+//! emits the predictor's class probabilities divided by the class priors
+//! (a scaled likelihood, the usual way a classifier's posterior enters an
+//! HMM). The forward-backward recursions give each depth's posterior; the
+//! class is the most probable one at that depth.
+//!
+//! # Source
+//! Rabiner, L. R. (1989), A tutorial on hidden Markov models and selected
+//! applications in speech recognition, Proc. IEEE 77(2), 257-286: the
+//! forward-backward procedure with scaling (from memory). Scaled likelihoods
+//! from a classifier's posteriors: Bourlard & Morgan (1994), Connectionist
+//! Speech Recognition (from memory).
+
+/// Share of every probability spread evenly over the classes before the
+/// chain reads it, so a class no tree voted for stays possible (our choice:
+/// a forest of 100 trees cannot say less than 1 %).
+pub const PROBABILITY_FLOOR: f64 = 0.02;
+
+/// The chain's settings.
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
+pub struct SequenceModel {
+    /// Mean bed thickness, m, that sets how often the class changes.
+    pub bed_thickness_m: f64,
+    /// Prior of each class, class 1 first (the training core's shares).
+    pub prior: Vec<f64>,
+}
+
+impl SequenceModel {
+    /// Probability that the class stays the same over `step_m` of depth.
+    pub fn stay(&self, step_m: f64) -> f64 {
+        (1.0 - step_m / self.bed_thickness_m.max(step_m)).clamp(0.0, 1.0 - 1e-9)
+    }
+
+    /// Posteriors along one run of consecutive depths, in place:
+    /// `probs` holds `k` class probabilities (class 1 first) per depth, and
+    /// is replaced by each depth's posterior. `step_m` is the sample step.
+    pub fn smooth(&self, probs: &mut [f64], step_m: f64) {
+        let k = self.prior.len();
+        if k < 2 || probs.len() < k {
+            return;
+        }
+        let n = probs.len() / k;
+        let stay = self.stay(step_m);
+        let prior: Vec<f64> = self.prior.iter().map(|p| p.max(1e-6)).collect();
+        // emissions: floored probabilities over priors
+        let emit: Vec<f64> = probs
+            .chunks_exact(k)
+            .flat_map(|row| {
+                let sum: f64 = row.iter().filter(|v| v.is_finite()).sum();
+                row.iter()
+                    .zip(&prior)
+                    .map(move |(v, p)| {
+                        let v = if v.is_finite() && sum > 0.0 {
+                            v / sum
+                        } else {
+                            1.0 / k as f64
+                        };
+                        ((1.0 - PROBABILITY_FLOOR) * v + PROBABILITY_FLOOR / k as f64) / p
+                    })
+                    .collect::<Vec<_>>()
+            })
+            .collect();
+        // leave class i for class j in proportion to j's prior among the others
+        let trans = |i: usize, j: usize| -> f64 {
+            if i == j {
+                stay
+            } else {
+                (1.0 - stay) * prior[j] / (1.0 - prior[i]).max(1e-9)
+            }
+        };
+        let t: Vec<f64> = (0..k * k).map(|ij| trans(ij / k, ij % k)).collect();
+        let mut alpha = vec![0.0; n * k];
+        for j in 0..k {
+            alpha[j] = prior[j] * emit[j];
+        }
+        normalise(&mut alpha[..k]);
+        for i in 1..n {
+            let (done, rest) = alpha.split_at_mut(i * k);
+            let prev = &done[(i - 1) * k..];
+            for j in 0..k {
+                let into: f64 = (0..k).map(|a| prev[a] * t[a * k + j]).sum();
+                rest[j] = into * emit[i * k + j];
+            }
+            normalise(&mut rest[..k]);
+        }
+        let mut beta = vec![1.0; k];
+        let mut next = vec![0.0; k];
+        for i in (0..n).rev() {
+            let post = &mut probs[i * k..(i + 1) * k];
+            for j in 0..k {
+                post[j] = alpha[i * k + j] * beta[j];
+            }
+            normalise(post);
+            if i > 0 {
+                for a in 0..k {
+                    next[a] = (0..k)
+                        .map(|b| t[a * k + b] * emit[i * k + b] * beta[b])
+                        .sum();
+                }
+                normalise(&mut next);
+                beta.copy_from_slice(&next);
+            }
+        }
+    }
+}
+
+fn normalise(v: &mut [f64]) {
+    let s: f64 = v.iter().sum();
+    if s > 0.0 && s.is_finite() {
+        for x in v.iter_mut() {
+            *x /= s;
+        }
+    } else {
+        let u = 1.0 / v.len() as f64;
+        v.iter_mut().for_each(|x| *x = u);
+    }
+}
+
+/// Mean bed thickness, m, from the cored wells: along each well's plugs in
+/// depth order, the cored length over the number of class runs. `None` with
+/// no well holding two plugs.
+pub fn bed_thickness_from_core(wells: &[Vec<(f64, u8)>]) -> Option<f64> {
+    let (mut length, mut runs) = (0.0, 0usize);
+    for w in wells {
+        let mut v = w.clone();
+        v.sort_by(|a, b| a.0.total_cmp(&b.0));
+        if v.len() < 2 {
+            continue;
+        }
+        length += v[v.len() - 1].0 - v[0].0;
+        runs += 1 + v.windows(2).filter(|p| p[0].1 != p[1].1).count();
+    }
+    (runs > 0 && length > 0.0).then(|| length / runs as f64)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::stats::assert_close;
+
+    fn model(l: f64) -> SequenceModel {
+        SequenceModel {
+            bed_thickness_m: l,
+            prior: vec![0.5, 0.5],
+        }
+    }
+
+    /// A single depth has no neighbours: its posterior is its (floored)
+    /// probability, since the priors are equal (computed by hand: 0.98·0.8 +
+    /// 0.01 = 0.794).
+    #[test]
+    fn one_depth_keeps_its_probability() {
+        let mut p = vec![0.8, 0.2];
+        model(1.0).smooth(&mut p, 0.1524);
+        assert_close(p[0], 0.794, 1e-12);
+    }
+
+    /// A lone dissenting depth inside a thick bed is outvoted by its
+    /// neighbours; with beds as thin as one sample it keeps its own class.
+    #[test]
+    fn a_lone_outlier_follows_its_bed() {
+        let mut p: Vec<f64> = (0..21)
+            .flat_map(|i| if i == 10 { [0.3, 0.7] } else { [0.8, 0.2] })
+            .collect();
+        let raw = p.clone();
+        model(3.0).smooth(&mut p, 0.1524);
+        assert!(p[20] > 0.5, "thick beds: {:?}", &p[20..22]);
+        let mut q = raw;
+        model(0.1524).smooth(&mut q, 0.1524);
+        assert!(q[21] > 0.5, "one-sample beds: {:?}", &q[20..22]);
+    }
+
+    /// Two clear beds keep their boundary: the posterior switches between the
+    /// same two samples as the probabilities do.
+    #[test]
+    fn a_clear_boundary_stays_put() {
+        let mut p: Vec<f64> = (0..30)
+            .flat_map(|i| if i < 15 { [0.9, 0.1] } else { [0.1, 0.9] })
+            .collect();
+        model(2.0).smooth(&mut p, 0.1524);
+        assert!(p[14 * 2] > 0.5 && p[15 * 2] < 0.5);
+    }
+
+    /// Posteriors are probabilities whatever the input, NaN rows included.
+    #[test]
+    fn posteriors_sum_to_one() {
+        let mut p = vec![0.0, 0.0, f64::NAN, 1.0, 0.3, 0.7, 1.0, 0.0];
+        let m = SequenceModel {
+            bed_thickness_m: 0.5,
+            prior: vec![0.9, 0.1],
+        };
+        m.smooth(&mut p, 0.1524);
+        for r in p.chunks(2) {
+            assert_close(r[0] + r[1], 1.0, 1e-12);
+            assert!(r.iter().all(|v| (0.0..=1.0).contains(v)));
+        }
+    }
+
+    /// Bed thickness from plug classes: 3 m cored with classes 1 1 2 2 2 1 is
+    /// three runs, 1 m each (constructed case).
+    #[test]
+    fn bed_thickness_counts_runs() {
+        let w: Vec<(f64, u8)> = [1, 1, 2, 2, 2, 1]
+            .iter()
+            .enumerate()
+            .map(|(i, &c)| (100.0 + 0.6 * i as f64, c))
+            .collect();
+        assert_close(bed_thickness_from_core(&[w]).unwrap(), 1.0, 1e-12);
+        assert_eq!(bed_thickness_from_core(&[vec![(1.0, 1)]]), None);
+    }
+}
