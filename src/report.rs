@@ -390,6 +390,8 @@ pub struct FieldPage<'a> {
     pub pressures: Vec<plots::PressureCompartment>,
     /// The class predictor's leave-one-well-out confusion matrix.
     pub confusion: Option<Vec<Vec<usize>>>,
+    /// What each piece of class evidence scored leave one well out.
+    pub ablation: Vec<crate::classes::predictor::model_file::AblationRow>,
     pub zones: &'a [crate::well::summary::ZoneSummary],
     /// A sample of every well's depths, and the field's Archie lines by class.
     pub pickett: Vec<PickettPoint>,
@@ -428,6 +430,7 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
 
     wells_section(&mut h, p);
     crossplots_section(&mut h, p);
+    evidence_section(&mut h, p);
     steps_section(&mut h, p);
     zone_section(&mut h, p);
     page_end(&mut h);
@@ -503,6 +506,42 @@ fn wells_section(h: &mut String, p: &FieldPage<'_>) {
         &rows,
     );
     h.push_str(&wells_html);
+}
+
+/// The field page's class-evidence table: each piece of evidence the class
+/// predictor can use, its leave-one-well-out scores on the cored wells, and
+/// which the run used.
+fn evidence_section(h: &mut String, p: &FieldPage<'_>) {
+    if p.ablation.is_empty() {
+        return;
+    }
+    h.push_str("<h2>Class evidence</h2>\n");
+    let first = p.ablation[0].exact;
+    let rows: Vec<Vec<Cell>> = p
+        .ablation
+        .iter()
+        .enumerate()
+        .map(|(i, r)| {
+            vec![
+                text(&r.evidence),
+                fmt(100.0 * r.exact, 1),
+                fmt(100.0 * r.within_one, 1),
+                if i == 0 {
+                    text("-")
+                } else {
+                    text(format!("{:+.1}", 100.0 * (r.exact - first)))
+                },
+                text(if r.chosen { "used" } else { "" }),
+            ]
+        })
+        .collect();
+    table(
+        h,
+        "evidence",
+        &["evidence", "exact %", "within one %", "gain (points)", ""],
+        &rows,
+    );
+    h.push_str("<p class=\"note\">Each cored well held out in turn and classed by a model trained on the others; the run uses the evidence marked, chosen by this score (model/training-report.txt).</p>\n");
 }
 
 /// The field page's crossplots: core φ-k, J-functions, pressures, the predictor's confusion matrix, Pickett.

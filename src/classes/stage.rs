@@ -115,6 +115,10 @@ pub struct ClassCounts {
     pub per_class: Vec<usize>,
     /// The features of the model used; empty when none could be used.
     pub features: Vec<Feature>,
+    /// The evidence the well's classes came from, in words: log features,
+    /// depth context, bed sequence; empty when the well has no classes.
+    #[serde(default)]
+    pub evidence: Vec<String>,
 }
 
 /// Run the class stage before the wells: core, schemes, model.
@@ -910,6 +914,32 @@ impl ClassSetup {
                 &model.header.context_scales_m,
                 self.cfg.max_vsh,
             );
+            counts.evidence.push(format!(
+                "log features ({})",
+                feats
+                    .iter()
+                    .map(|f| f.name())
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ));
+            if !model.header.context_scales_m.is_empty() {
+                counts.evidence.push(format!(
+                    "depth context (±{} m)",
+                    model
+                        .header
+                        .context_scales_m
+                        .iter()
+                        .map(|w| w.to_string())
+                        .collect::<Vec<_>>()
+                        .join(", ±")
+                ));
+            }
+            if let Some(q) = &model.header.sequence {
+                counts.evidence.push(format!(
+                    "bed sequence (mean bed {:.2} m)",
+                    q.bed_thickness_m
+                ));
+            }
             counts.flagged = inputs.flagged;
             counts.shale = inputs.shale;
             counts.missing_feature = inputs.missing_feature;

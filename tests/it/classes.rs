@@ -82,6 +82,44 @@ fn demo_predictor_beats_the_baselines() {
     let text = std::fs::read_to_string(out.path().join("model/training-report.txt")).expect("text");
     assert!(text.contains("baseline: nearest centroid"), "{text}");
     assert!(text.contains("qualified petrophysicist"), "{text}");
+
+    // the ablation: point features first, then depth context and the bed
+    // sequence, exactly one row used; the used evidence is what each well lists
+    let ab = report["ablation"].as_array().expect("ablation");
+    let names: Vec<&str> = ab
+        .iter()
+        .map(|r| r["evidence"].as_str().expect("name"))
+        .collect();
+    assert_eq!(names[0], "point features", "{names:?}");
+    assert!(names.contains(&"+ depth context") && names.contains(&"+ bed sequence (logs)"));
+    assert_eq!(
+        ab.iter().filter(|r| r["chosen"] == true).count(),
+        1,
+        "{ab:?}"
+    );
+    for r in ab {
+        let e = r["exact"].as_f64().expect("exact");
+        assert!((0.0..=1.0).contains(&e) && r["within_one"].as_f64().expect("w") >= e);
+    }
+    assert!(text.contains("what each piece of evidence adds"), "{text}");
+    let uses_sequence = report["sequence"].is_object();
+    let chosen = ab.iter().find(|r| r["chosen"] == true).expect("chosen");
+    assert_eq!(uses_sequence, chosen["evidence"] == "+ bed sequence (logs)");
+    for w in summary["wells"].as_array().expect("wells") {
+        let ev: Vec<&str> = w["classes"]["evidence"]
+            .as_array()
+            .expect("evidence")
+            .iter()
+            .map(|e| e.as_str().expect("text"))
+            .collect();
+        assert!(ev[0].starts_with("log features"), "{ev:?}");
+        assert_eq!(
+            ev.iter().any(|e| e.starts_with("bed sequence")),
+            uses_sequence
+        );
+    }
+    let page = std::fs::read_to_string(out.path().join("report/index.html")).expect("page");
+    assert!(page.contains("<h2>Class evidence</h2>"));
 }
 
 /// Predicted CLASS against the model's truth class at every classified depth
