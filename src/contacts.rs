@@ -317,6 +317,37 @@ fn swh_audit(p: &Profile<'_>, i: usize) -> f64 {
     }
 }
 
+/// `v` seen through a Gaussian of full width at half maximum `fwhm` samples
+/// (the model at the logs' resolution): each value the weighted mean of the
+/// finite values within three standard deviations; NaN stays NaN. `fwhm`
+/// below one sample returns `v` unchanged.
+fn blur(v: &[f64], fwhm: f64) -> Vec<f64> {
+    if fwhm.is_nan() || fwhm < 1.0 {
+        return v.to_vec();
+    }
+    let sigma = fwhm / (8.0 * std::f64::consts::LN_2).sqrt();
+    let half = (3.0 * sigma).ceil() as usize;
+    let w: Vec<f64> = (0..=half)
+        .map(|d| (-0.5 * (d as f64 / sigma).powi(2)).exp())
+        .collect();
+    (0..v.len())
+        .map(|i| {
+            if !v[i].is_finite() {
+                return f64::NAN;
+            }
+            let (mut s, mut ws) = (0.0, 0.0);
+            for j in i.saturating_sub(half)..(i + half + 1).min(v.len()) {
+                if v[j].is_finite() {
+                    let wj = w[i.abs_diff(j)];
+                    s += wj * v[j];
+                    ws += wj;
+                }
+            }
+            s / ws
+        })
+        .collect()
+}
+
 /// Audit one well: steps and implied FWL. `step_m` is the sample spacing in
 /// m (for the minimum bed in samples).
 pub fn audit(
@@ -342,6 +373,10 @@ pub fn audit(
         2
     };
     let drho = comp.rho_water_gcc - comp.rho_hc_gcc;
+    let swh_seen = blur(
+        &(0..n).map(|k| swh_audit(p, k)).collect::<Vec<_>>(),
+        cfg.log_resolution_m / spacing_m.max(1e-9),
+    );
     let mut steps = Vec::new();
     let mut beds = 0usize;
     // runs of interpreted SW
@@ -376,7 +411,17 @@ pub fn audit(
             {
                 continue;
             }
-            if let Some(step) = attribute(well, p, model, comp, cfg, (lo, b, hi), drho, to_m) {
+            if let Some(step) = attribute(
+                well,
+                p,
+                &swh_seen,
+                model,
+                comp,
+                cfg,
+                (lo, b, hi),
+                drho,
+                to_m,
+            ) {
                 steps.push(step);
             }
         }
@@ -393,6 +438,7 @@ pub fn audit(
 fn attribute(
     well: &str,
     p: &Profile<'_>,
+    swh_seen: &[f64],
     model: &SatHeightModel,
     comp: &CompartmentFwl,
     cfg: &ContactsConfig,
@@ -407,6 +453,9 @@ fn attribute(
     let sw_below = mean_finite(p.sw[b..hi].iter().copied());
     let swh_above = mean_finite((lo..b).map(|k| swh_audit(p, k)));
     let swh_below = mean_finite((b..hi).map(|k| swh_audit(p, k)));
+    // the model as the logs see it: compared with the logs' SW
+    let seen_above = mean_finite(swh_seen[lo..b].iter().copied());
+    let seen_below = mean_finite(swh_seen[b..hi].iter().copied());
     let class_above = mode_class(&p.class[lo..b]);
     let class_below = mode_class(&p.class[b..hi]);
     if class_above == 0 && class_below == 0 {
@@ -425,7 +474,7 @@ fn attribute(
     let perm_change = (ka - kb).abs() >= cfg.rock_perm_ratio.log10();
     let rock_change = class_above != class_below || perm_change;
     let d_sw = sw_below - sw_above;
-    let d_swh = swh_below - swh_above;
+    let d_swh = seen_below - seen_above;
     let tol = cfg
         .size_tolerance_vv
         .max(cfg.size_tolerance_rel * d_sw.abs());
@@ -453,6 +502,14 @@ fn attribute(
         format!("class {class_above} above, {class_below} below")
     };
     let observed = format!("SW {sw_above:.2} → {sw_below:.2}");
+    let seen = if cfg.log_resolution_m > 0.0 {
+        format!(
+            " ({seen_above:.2} → {seen_below:.2} at the logs' {} m resolution)",
+            cfg.log_resolution_m
+        )
+    } else {
+        String::new()
+    };
     if flagged {
         step.kind = StepKind::Flagged;
         step.explanation = format!(
@@ -464,9 +521,9 @@ fn attribute(
         // reservoir against non-reservoir rock: only the reservoir side's SW
         // is a saturation to explain
         let (side, sw, swh) = if class_above == 0 {
-            ("below", sw_below, swh_below)
+            ("below", sw_below, seen_below)
         } else {
-            ("above", sw_above, swh_above)
+            ("above", sw_above, seen_above)
         };
         let ok = (sw - swh).abs() <= cfg.size_tolerance_vv;
         step.kind = if ok {
@@ -490,12 +547,12 @@ fn attribute(
         if model_agrees {
             step.kind = StepKind::RockQuality;
             step.explanation = format!(
-                "{classes}: the saturation-height model with FWL {:.1} predicts SW {swh_above:.2} → {swh_below:.2}, the logs show {observed}: a rock-quality step, not a contact",
+                "{classes}: the saturation-height model with FWL {:.1} predicts SW {swh_above:.2} → {swh_below:.2}{seen}, the logs show {observed}: a rock-quality step, not a contact",
                 comp.fwl_tvdss
             );
         } else {
             step.explanation = format!(
-                "{classes}, but the saturation-height model with FWL {:.1} predicts SW {swh_above:.2} → {swh_below:.2} where the logs show {observed}: look for another FWL, a perched or compartmentalised contact, a tar mat, or bad logs",
+                "{classes}, but the saturation-height model with FWL {:.1} predicts SW {swh_above:.2} → {swh_below:.2}{seen} where the logs show {observed}: look for another FWL, a perched or compartmentalised contact, a tar mat, or bad logs",
                 comp.fwl_tvdss
             );
         }

@@ -265,6 +265,14 @@ pub struct ContactsConfig {
     /// resolution of deep resistivity tools; common practice).
     #[serde(default = "default_min_bed")]
     pub min_bed_thickness_m: f64,
+    /// Vertical resolution of the logs behind SW, m (`log-resolution-m`):
+    /// the model's SW is blurred to it (a Gaussian of this full width at half
+    /// maximum) before a step's size is compared with the logs', so a thin
+    /// bed the logs cannot resolve is not held against the model. 0 turns it
+    /// off. Default 0.6, the finest deep resistivity resolution (common
+    /// practice), the same as `min-bed-thickness-m`.
+    #[serde(default = "default_min_bed")]
+    pub log_resolution_m: f64,
     /// Multiplier of the segmentation penalty 2·σ²·ln n (σ the SW noise,
     /// estimated from the data). Default 1.
     #[serde(default = "default_penalty")]
@@ -320,6 +328,7 @@ impl Default for ContactsConfig {
         ContactsConfig {
             min_step_vv: default_min_step(),
             min_bed_thickness_m: default_min_bed(),
+            log_resolution_m: default_min_bed(),
             penalty: default_penalty(),
             rock_perm_ratio: default_perm_ratio(),
             size_tolerance_vv: default_size_tol(),
@@ -336,6 +345,7 @@ impl ContactsConfig {
         let checks = [
             ("min-step-vv", self.min_step_vv, 0.0, 1.0),
             ("min-bed-thickness-m", self.min_bed_thickness_m, 0.0, 100.0),
+            ("log-resolution-m", self.log_resolution_m, 0.0, 20.0),
             ("penalty", self.penalty, 0.0, 1000.0),
             ("rock-perm-ratio", self.rock_perm_ratio, 1.0, 1e6),
             ("size-tolerance-vv", self.size_tolerance_vv, 0.0, 1.0),

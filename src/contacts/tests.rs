@@ -499,3 +499,23 @@ fn formulas_sheet_8_7_step() {
     assert_close(s.swh_above, 0.11058, 0.01);
     assert_close(s.swh_below, 0.32804, 0.025);
 }
+
+/// The model seen at the logs' resolution: a constant stays put, a sharp
+/// step 0 → 1 becomes symmetric about the boundary (the two samples either
+/// side of it sum to 1, as a symmetric kernel gives), NaN stays NaN, and a
+/// width under one sample changes nothing (constructed cases).
+#[test]
+fn blur_to_log_resolution() {
+    let flat = super::blur(&[0.3; 20], 4.0);
+    assert!(flat.iter().all(|v| (v - 0.3).abs() < 1e-12));
+    let step: Vec<f64> = (0..40).map(|i| if i < 20 { 0.0 } else { 1.0 }).collect();
+    let b = super::blur(&step, 4.0);
+    assert_close(b[19] + b[20], 1.0, 1e-12);
+    assert!(b[19] > 0.05 && b[19] < 0.5, "{}", b[19]);
+    assert_close(b[0], 0.0, 1e-12);
+    assert!(b.windows(2).all(|w| w[1] >= w[0]));
+    let mut gap = step.clone();
+    gap[5] = f64::NAN;
+    assert!(super::blur(&gap, 4.0)[5].is_nan());
+    assert_eq!(super::blur(&step, 0.5), step);
+}
