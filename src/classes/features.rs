@@ -42,20 +42,28 @@ pub fn column_name(features: &[Feature], scales_m: &[f64], j: usize) -> String {
     }
 }
 
-/// Every depth's row of the table (row-major, [`width`] columns), for
-/// `features` with context windows of half-widths `scales_m` (m; empty for
-/// point features only). A feature the table lacks is NaN throughout.
-pub fn rows(table: &Table, features: &[Feature], scales_m: &[f64]) -> Vec<f64> {
-    let n = table.n_rows();
+/// The table's depths in metres (its DEPTH column is in its own unit).
+pub fn depth_m(table: &Table) -> Vec<f64> {
     let to_m = table
         .column(Col::Depth)
         .and_then(|c| DepthUnit::from_las(&c.unit))
         .unwrap_or(DepthUnit::Metre)
         .factor_to(DepthUnit::Metre);
-    let depth_m: Vec<f64> = table.get(Col::Depth).map_or_else(
-        || vec![f64::NAN; n],
-        |d| d.iter().map(|z| z * to_m).collect(),
-    );
+    table
+        .get(Col::Depth)
+        .unwrap_or(&[])
+        .iter()
+        .map(|d| d * to_m)
+        .collect()
+}
+
+/// Every depth's row of the table (row-major, [`width`] columns), for
+/// `features` with context windows of half-widths `scales_m` (m; empty for
+/// point features only). A feature the table lacks is NaN throughout.
+pub fn rows(table: &Table, features: &[Feature], scales_m: &[f64]) -> Vec<f64> {
+    let n = table.n_rows();
+    let mut depth_m = depth_m(table);
+    depth_m.resize(n, f64::NAN);
     let w = width(features.len(), scales_m.len());
     let per = 1 + STATS_PER_WINDOW * scales_m.len();
     let mut x = vec![f64::NAN; n * w];

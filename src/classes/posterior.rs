@@ -4,6 +4,7 @@
 //! leave-one-well-out scoring that decides whether the sequence is used.
 
 use crate::classes::core_match::{NO_CLASS_FLAGS, is_reservoir};
+use crate::classes::features::depth_m;
 use crate::classes::predictor::{Forest, PredictError};
 use crate::classes::sequence::SequenceModel;
 use crate::config::Feature;
@@ -95,21 +96,6 @@ pub fn most_probable(p: &[f64]) -> Option<(u8, f64)> {
             |acc, (i, &v)| if v > acc.1 { (i, v) } else { acc },
         );
     (v.is_finite() && v > 0.0).then(|| (u8::try_from(i + 1).unwrap_or(u8::MAX), v))
-}
-
-/// The table's depths in metres (its DEPTH column is in its own unit).
-pub fn depth_m(table: &Table) -> Vec<f64> {
-    let to_m = table
-        .column(Col::Depth)
-        .and_then(|c| crate::units::DepthUnit::from_las(&c.unit))
-        .unwrap_or(crate::units::DepthUnit::Metre)
-        .factor_to(crate::units::DepthUnit::Metre);
-    table
-        .get(Col::Depth)
-        .unwrap_or(&[])
-        .iter()
-        .map(|d| d * to_m)
-        .collect()
 }
 
 /// The table's sample step, m (the median spacing of its depths; 0.1524
