@@ -29,6 +29,7 @@ ROWS = [
     ("fluid-contact steps, precision", "contact_precision"),
     ("fluid-contact steps, recall", "contact_recall"),
     ("wells flagged, one FWL per compartment", "wells_flagged"),
+    ("implied-FWL range holds the true FWL", "fwl_range_coverage"),
 ]
 
 
@@ -83,7 +84,7 @@ def main():
         cells = []
         for name in names:
             rs = results[name]
-            if key.startswith(("rock", "contact", "wells")) and name != "flowzone":
+            if key.startswith(("rock", "contact", "wells", "fwl")) and name != "flowzone":
                 cells.append("none")
             else:
                 cells.append(cell([float(r[key]) for r in rs]))

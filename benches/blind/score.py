@@ -12,7 +12,8 @@ reservoir rock, class >= 1):
 - rock-quality and fluid-contact steps: precision and recall, a run's step
   matching a truth step of the same kind within 1.0 m of MD (contacts.csv);
 - wells whose logs are "not lined up" with their compartment's FWL
-  (contacts.json), out of all wells: every compartment here has one FWL.
+  (contacts.json), out of all wells: every compartment here has one FWL;
+- how often a well's implied-FWL range holds the compartment's true FWL.
 """
 import csv
 import json
@@ -88,12 +89,20 @@ def score(field, run):
         out[f"{key}_recall"] = sum(hit(s, rs) for s in ts) / len(ts) if ts else float("nan")
         out[f"{key}_truth_steps"] = len(ts)
     flagged = 0
+    covered = ranged = 0
+    true_fwl = {c["name"]: c["fwl"] for c in info["compartments"]}
     jpath = os.path.join(run, "contacts.json")
     if os.path.exists(jpath):
         for comp in json.load(open(jpath)).get("compartments", []):
             for _, w in comp.get("wells", []):
                 flagged += int(w.get("agrees") is False)
+                up, lo = w.get("upper"), w.get("lower")
+                if up is not None and lo is not None and comp["name"] in true_fwl:
+                    ranged += 1
+                    covered += int(up <= true_fwl[comp["name"]] <= lo)
     out["wells_flagged"] = flagged
+    # share of wells whose implied-FWL range holds the field's true FWL
+    out["fwl_range_coverage"] = covered / ranged if ranged else float("nan")
     out["wells"] = len(os.listdir(os.path.join(field, "wells")))
     return out
 
