@@ -641,6 +641,71 @@ const FINE_STEP_M: f64 = 0.25;
 /// values as the segmentation found beds (`beds`); its ends are the first
 /// grid values outside. Our choice, in the spirit of a profile-likelihood
 /// interval.
+/// Resamples of the beds for the implied FWL's range.
+const BOOTSTRAP_DRAWS: usize = 200;
+/// Grid of the resampled fits about the best FWL: 0.5 m steps, ±12 m.
+const BOOTSTRAP_STEP_M: f64 = 0.5;
+const BOOTSTRAP_HALF_STEPS: i32 = 24;
+
+/// The 16th and 84th percentiles (m TVDSS) of the best FWL over resamples of
+/// the beds (runs of consecutive `rows`) drawn with replacement, on a grid
+/// about `best`; `misfit(row, fwl)` is a row's weighted squared residual.
+/// A block bootstrap (Künsch 1989, Ann. Statist. 17(3), from memory) with
+/// beds as blocks, since residuals are correlated within a bed. `None` with
+/// fewer than three beds. Draws come from a fixed-seed generator, so a run
+/// repeats exactly.
+fn bed_bootstrap(
+    rows: &[usize],
+    best: f64,
+    misfit: impl Fn(usize, f64) -> f64,
+) -> Option<(f64, f64)> {
+    use rand::{Rng, SeedableRng};
+    let mut runs: Vec<(usize, usize)> = Vec::new();
+    let mut start = 0;
+    for k in 1..=rows.len() {
+        if k == rows.len() || rows[k] != rows[k - 1] + 1 {
+            runs.push((start, k));
+            start = k;
+        }
+    }
+    if runs.len() < 3 {
+        return None;
+    }
+    let grid: Vec<f64> = (-BOOTSTRAP_HALF_STEPS..=BOOTSTRAP_HALF_STEPS)
+        .map(|k| best + BOOTSTRAP_STEP_M * f64::from(k))
+        .collect();
+    // each bed's misfit at each grid FWL
+    let per_run: Vec<Vec<f64>> = runs
+        .iter()
+        .map(|&(a, b)| {
+            grid.iter()
+                .map(|&f| rows[a..b].iter().map(|&i| misfit(i, f)).sum())
+                .collect()
+        })
+        .collect();
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(0x5EED_F00D);
+    let mut fits: Vec<f64> = (0..BOOTSTRAP_DRAWS)
+        .map(|_| {
+            let mut total = vec![0.0; grid.len()];
+            for _ in 0..runs.len() {
+                let r = &per_run[rng.random_range(0..runs.len())];
+                for (t, v) in total.iter_mut().zip(r) {
+                    *t += v;
+                }
+            }
+            let k = (0..grid.len())
+                .min_by(|&a, &b| total[a].total_cmp(&total[b]))
+                .unwrap_or(0);
+            grid[k]
+        })
+        .collect();
+    fits.sort_by(f64::total_cmp);
+    Some((
+        crate::stats::quantile_sorted(&fits, 0.16),
+        crate::stats::quantile_sorted(&fits, 0.84),
+    ))
+}
+
 /// Depths this close to a change of class (a bed boundary, shale included)
 /// stay out of the implied FWL, m: half of 0.6 m, the finest vertical
 /// resolution of deep resistivity tools (common practice), so a kept depth
@@ -758,8 +823,15 @@ fn implied_fwl(
             }
         }
     };
-    let upper = walk(-1.0).map(|f| f / to_m);
-    let lower = walk(1.0).map(|f| f / to_m);
+    // resampling the beds: the range also holds the FWLs that the well's
+    // beds, drawn again with replacement, put the best fit at (16th-84th
+    // percentile), so a few beds that pull the fit widen it
+    let boot = bed_bootstrap(&rows, fbest, |i, f| {
+        let t = p.tvdss[i] * to_m;
+        weight(i) * (p.sw[i] - model.swh(f - t, p.class[i], p.perm[i], p.phie[i], drho)).powi(2)
+    });
+    let upper = walk(-1.0).map(|f| f.min(boot.map_or(f, |b| b.0)) / to_m);
+    let lower = walk(1.0).map(|f| f.max(boot.map_or(f, |b| b.1)) / to_m);
     let closed = upper.is_some() && lower.is_some();
     let fwl = closed.then_some(fbest / to_m);
     let tol = cfg.fwl_tolerance_m / to_m;

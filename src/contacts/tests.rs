@@ -519,3 +519,24 @@ fn blur_to_log_resolution() {
     assert!(super::blur(&gap, 4.0)[5].is_nan());
     assert_eq!(super::blur(&step, 0.5), step);
 }
+
+/// Beds that all put the FWL at one level give a range of that level; beds
+/// that disagree (optima 95-105 m, one per bed) give a range inside their
+/// spread and wider than one grid step; fewer than three beds give none
+/// (constructed cases; misfit quadratic about each bed's own optimum).
+#[test]
+fn bed_bootstrap_widens_with_disagreeing_beds() {
+    // five beds of four rows each, separated by gaps in the row numbers
+    let rows: Vec<usize> = (0..5)
+        .flat_map(|b| (0..4).map(move |k| b * 10 + k))
+        .collect();
+    let same = super::bed_bootstrap(&rows, 100.0, |_, f| (f - 100.0).powi(2)).expect("range");
+    assert_eq!(same, (100.0, 100.0));
+    let optimum = |i: usize| 95.0 + 2.5 * (i / 10) as f64;
+    let spread =
+        super::bed_bootstrap(&rows, 100.0, |i, f| (f - optimum(i)).powi(2)).expect("range");
+    assert!(spread.0 >= 95.0 && spread.1 <= 105.0, "{spread:?}");
+    assert!(spread.1 - spread.0 > 0.5, "{spread:?}");
+    assert!(spread.0 < 100.0 && spread.1 > 100.0, "{spread:?}");
+    assert_eq!(super::bed_bootstrap(&rows[..8], 100.0, |_, f| f), None);
+}
