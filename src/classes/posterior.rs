@@ -149,37 +149,34 @@ pub fn sequence_from(
 pub type SequenceScores = ((f64, f64), (f64, f64));
 
 /// Leave one cored well out on the wells' logs: each cored well is classed
-/// along its whole log by a forest trained on the other wells (with the
-/// sequence those wells imply), and scored at its own plugs, without and
-/// with the bed sequence. `None` with fewer than two cored wells with logs.
+/// along its whole log by its fold's forest (`folds`, fitted without it by
+/// [`crate::classes::predictor::leave_one_well_out`]) with the sequence the
+/// other wells imply, and scored at its own plugs, without and with the bed
+/// sequence. `None` with fewer than two cored wells with logs.
 pub fn sequence_scores(
     set: &crate::classes::predictor::TrainingSet,
     logs: &std::collections::BTreeMap<String, Table>,
-    params: &crate::classes::predictor::ForestParams,
+    folds: &[crate::classes::predictor::FoldForest],
     k: usize,
     max_vsh: f64,
 ) -> Result<Option<SequenceScores>, PredictError> {
-    let wells: Vec<String> = set
-        .wells()
-        .into_iter()
-        .filter(|w| logs.contains_key(w))
-        .collect();
-    if wells.len() < 2 {
+    let usable: Vec<&(String, Forest)> =
+        folds.iter().filter(|(w, _)| logs.contains_key(w)).collect();
+    if usable.len() < 2 {
         return Ok(None);
     }
     let mut tally = [[0usize; 2]; 2];
     let mut total = 0usize;
-    for w in &wells {
+    for (w, forest) in usable {
         let table = &logs[w];
         let train = set.without_well(w);
         let Some(seq) = sequence_from(&train, logs, k) else {
             continue;
         };
-        let forest = Forest::fit(&train.x, train.width(), &train.y, params)?;
         let inputs = well_inputs(table, &set.features, &set.context_scales_m, max_vsh);
         let step = step_m(table);
-        let plain = class_probabilities(&forest, &inputs, k, None, step)?;
-        let smooth = class_probabilities(&forest, &inputs, k, Some(&seq), step)?;
+        let plain = class_probabilities(forest, &inputs, k, None, step)?;
+        let smooth = class_probabilities(forest, &inputs, k, Some(&seq), step)?;
         for r in (0..set.rows()).filter(|&r| &set.well[r] == w) {
             let Ok(pos) = inputs.rows.binary_search(&set.row[r]) else {
                 continue;

@@ -413,13 +413,14 @@ pub struct Validation {
     pub porosity_bins: Scores,
 }
 
-/// Score the forest and the baselines leave-one-well-out. Needs at least two
-/// wells; `None` otherwise.
+/// Score the forest and the baselines leave-one-well-out, and keep each
+/// fold's forest (for scoring more evidence on the same folds). Needs at
+/// least two wells; `None` otherwise.
 pub fn leave_one_well_out(
     set: &TrainingSet,
     params: &ForestParams,
     class_count: usize,
-) -> Result<Option<Validation>, PredictError> {
+) -> Result<Option<(Validation, Vec<FoldForest>)>, PredictError> {
     let wells = set.wells();
     if wells.len() < 2 {
         return Ok(None);
@@ -429,6 +430,7 @@ pub fn leave_one_well_out(
         Vec<(u8, u8, usize)>,
         Vec<(u8, u8, usize)>,
         Vec<(u8, u8, usize)>,
+        FoldForest,
     );
     let folds: Vec<Fold> = wells
         .par_iter()
@@ -452,21 +454,27 @@ pub fn leave_one_well_out(
                 c.push((t, centroid.predict(&test.x[i * nf..(i + 1) * nf]), wi));
                 b.push((t, bins.predict(test.phie[i]), wi));
             }
-            Ok((f, c, b))
+            Ok((f, c, b, (w.clone(), forest)))
         })
         .collect::<Result<_, _>>()?;
-    let mut all: Fold = (Vec::new(), Vec::new(), Vec::new());
-    for (f, c, b) in folds {
-        all.0.extend(f);
-        all.1.extend(c);
-        all.2.extend(b);
+    let (mut all_f, mut all_c, mut all_b) = (Vec::new(), Vec::new(), Vec::new());
+    let mut forests = Vec::with_capacity(folds.len());
+    for (f, c, b, forest) in folds {
+        all_f.extend(f);
+        all_c.extend(c);
+        all_b.extend(b);
+        forests.push(forest);
     }
-    Ok(Some(Validation {
-        forest: score(&all.0, &wells, class_count),
-        nearest_centroid: score(&all.1, &wells, class_count),
-        porosity_bins: score(&all.2, &wells, class_count),
-    }))
+    let validation = Validation {
+        forest: score(&all_f, &wells, class_count),
+        nearest_centroid: score(&all_c, &wells, class_count),
+        porosity_bins: score(&all_b, &wells, class_count),
+    };
+    Ok(Some((validation, forests)))
 }
+
+/// A forest fitted without one well: (the well held out, the forest).
+pub type FoldForest = (String, Forest);
 
 /// Baseline: the class whose centroid is nearest in standardised features.
 struct NearestCentroid {

@@ -558,7 +558,7 @@ pub fn train(
                 scored[k]
                     .2
                     .as_ref()
-                    .map_or(f64::NEG_INFINITY, |v| v.forest.exact)
+                    .map_or(f64::NEG_INFINITY, |(v, _)| v.forest.exact)
             };
             e(i).total_cmp(&e(j)).then(j.cmp(&i))
         })
@@ -567,7 +567,7 @@ pub fn train(
         .iter()
         .enumerate()
         .filter_map(|(k, (name, _, v))| {
-            v.as_ref().map(|v| AblationRow {
+            v.as_ref().map(|(v, _)| AblationRow {
                 evidence: (*name).to_string(),
                 exact: v.forest.exact,
                 within_one: v.forest.within_one,
@@ -575,12 +575,14 @@ pub fn train(
             })
         })
         .collect();
-    let (_, chosen, validation) = scored.swap_remove(best);
+    let (_, chosen, scores) = scored.swap_remove(best);
+    let (validation, folds) = scores.map_or((None, Vec::new()), |(v, f)| (Some(v), f));
     // the bed sequence, scored on the cored wells' whole logs
     let k = scheme.class_count;
     let mut sequence = None;
     if let (Some(logs), true) = (logs, cfg.sequence != EvidenceMode::Off) {
-        let scores = posterior::sequence_scores(&chosen, logs, &params, k, cfg.max_vsh)?;
+        // on the same folds as the forest's own score: no forest is fitted twice
+        let scores = posterior::sequence_scores(&chosen, logs, &folds, k, cfg.max_vsh)?;
         let model = posterior::sequence_from(&chosen, logs, k);
         if let (Some(((e0, w0), (e1, w1))), Some(model)) = (scores, model) {
             let use_it = cfg.sequence == EvidenceMode::On || e1 > e0;
