@@ -426,7 +426,15 @@ fn cmd_class_stage(
     let inputs = config.input_paths();
     field::safety::check_out_dir(out, &inputs)?;
     let ctx = crate::well::RunContext::new(config)?;
-    let prepared = crate::classes::stage::prepare(&ctx, &files, out, mode, !quiet)?;
+    let mut prepared = crate::classes::stage::prepare(&ctx, &files, out, mode, !quiet)?;
+    // training also scores the saturation-height evidence when the config
+    // has a saturation-height model, so the report's ablation table is whole
+    let scheme = prepared.setup.as_ref().map(|s| s.scheme.clone());
+    if let (Mode::Train, Some(scheme)) = (mode, scheme) {
+        if let Some(sat) = field::setup::saturation_model(&ctx.config, &files, &ctx, &scheme)? {
+            field::setup::choose_saturation_evidence(&ctx.config, &sat, &mut prepared, out, !quiet)?;
+        }
+    }
     let summary = &prepared.summary;
     for r in &summary.core_rejected {
         note!("core: line {}: left out: {}", r.line, r.reason);
@@ -470,10 +478,12 @@ fn cmd_class_stage(
         }
         Mode::Train | Mode::Run => {
             if let Some(setup) = &prepared.setup {
+                let mut header = setup.model.header.clone();
+                header.ablation = setup.ablation();
                 let _ = write!(
                     o,
                     "{}",
-                    crate::classes::stage::report_text(&setup.model.header, summary)
+                    crate::classes::stage::report_text(&header, summary)
                 );
             }
         }

@@ -2,7 +2,8 @@
 //!
 //! ```text
 //! read LAS ─► curves and units ─► depth reference ─► zones ─► petrophysics   (well)
-//!   ─► classes and permeability ─► class-aware SW                            (classes, well)
+//!   ─► classes and permeability (logs, bed sequence, saturation height)  ─► class-aware SW
+//!                                                                            (classes, well)
 //!   ─► saturation-height ─► contact audit                                     (sat_height, contacts)
 //!   ─► zone summary                                                           (well::summary)
 //! ```
@@ -56,10 +57,27 @@ pub fn run_well(path: &Path, models: &Models<'_>) -> Result<Interpreted, WellErr
     let config = &models.ctx.config;
     // read, curves and units, depth reference, zones, petrophysics
     let mut out = well::process(path, models.ctx)?;
-    // classes and permeability, then SW with each class's exponents
+    let file_stem = well::stem_of(path);
+    // classes and permeability (from the logs and, above a free water level,
+    // the saturation-height evidence), then SW with each class's exponents
     let classes = models.classes.map(|setup| {
         let name = out.name.clone();
-        let counts = setup.apply(&mut out.table, &name, &mut out.warnings);
+        let saturation = models
+            .sat
+            .filter(|_| setup.saturation.weight > 0.0)
+            .map(|sat| {
+                let h = &setup.model.header;
+                crate::sat_height::evidence::class_residuals(
+                    sat,
+                    &out,
+                    &[name.as_str(), file_stem.as_str()],
+                    &config.parameters,
+                    &h.perm,
+                    h.perm_method,
+                    u8::try_from(setup.scheme.class_count).unwrap_or(u8::MAX),
+                )
+            });
+        let counts = setup.apply(&mut out.table, &name, &mut out.warnings, saturation.as_ref());
         if config.parameters.has_class_params() {
             let max_class = u8::try_from(setup.scheme.class_count).unwrap_or(u8::MAX);
             out.apply_class_exponents(&config.parameters, max_class);
@@ -70,7 +88,6 @@ pub fn run_well(path: &Path, models: &Models<'_>) -> Result<Interpreted, WellErr
     let mut saturation_height = None;
     let mut contacts = None;
     if let Some(sat) = models.sat {
-        let file_stem = well::stem_of(path);
         let names = [out.name.as_str(), file_stem.as_str()];
         saturation_height = sat.apply(&mut out.table, &names, &mut out.warnings);
         if saturation_height.is_some() {

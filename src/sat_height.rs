@@ -8,6 +8,7 @@
 //!                                                        (borrowed where a class has no plug)
 //! pressures.csv ─► points per compartment ─► two legs ─► FWL ± σ, fluid densities
 //! each well: TVDSS, CLASS, PERM, PHIE ─► HAFWL ─► Pc_res ─► J ─► SWH; SW − SWH per class
+//! before the class: SW with each class's exponents − SWH of each class ─► evidence for the class
 //! ```
 //!
 //! Units inside: depth in the project's unit for HAFWL and FWL in outputs,
@@ -15,6 +16,7 @@
 //! σ dyn/cm, density g/cm3, permeability mD, porosity and saturation v/v.
 
 pub mod capillary;
+pub mod evidence;
 pub mod fwl;
 pub mod lab_curves;
 

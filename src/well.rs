@@ -656,6 +656,67 @@ fn curves_needed(params: &crate::config::params::ZoneParams) -> Vec<LogicalCurve
 }
 
 impl WellOutput {
+    /// Each zone's Archie a, m, n by class (class 1 first), as
+    /// [`crate::config::params::Parameters::class_archie`] resolves them.
+    fn class_archie_by_zone(
+        &self,
+        params: &crate::config::params::Parameters,
+        max_class: u8,
+    ) -> Vec<(String, Vec<ArchieParams>)> {
+        self.report
+            .zones
+            .iter()
+            .map(|z| {
+                (
+                    z.name.clone(),
+                    params.class_archie(&z.name, z.params.archie, max_class),
+                )
+            })
+            .collect()
+    }
+
+    /// SW at every depth as if the rock there were of each class in turn:
+    /// row-major, `classes` values per depth (class 1 first), each with that
+    /// class's Archie a, m, n in the depth's zone and the zone's saturation
+    /// model and Rw ([`chain::saturation_by_class`]). NaN where the chain
+    /// gave no SW. Reads the chain's SW (SW_FIXED once the class exponents
+    /// are applied); the well is not changed.
+    pub fn sw_for_each_class(
+        &self,
+        params: &crate::config::params::Parameters,
+        classes: u8,
+    ) -> Vec<f64> {
+        let n = self.table.n_rows();
+        let k = usize::from(classes);
+        let nan = vec![f64::NAN; n];
+        let archie: Vec<Vec<ArchieParams>> = self
+            .class_archie_by_zone(params, classes)
+            .into_iter()
+            .map(|(_, t)| t)
+            .collect();
+        let col = |c: Col| self.table.get(c).unwrap_or(&nan);
+        let sw_fixed = self.table.get(Col::SwFixed).unwrap_or_else(|| col(Col::Sw));
+        let mut out = vec![f64::NAN; n * k];
+        let mut scratch = vec![0u32; n];
+        for c in 1..=classes {
+            let class = vec![f64::from(c); n];
+            let inputs = chain::ClassSwInputs {
+                zone_of: &self.zone_of,
+                rw: &self.rw,
+                rt: col(Col::Input(LogicalCurve::DeepResistivity)),
+                vsh: col(Col::Vsh),
+                phie: col(Col::Phie),
+                sw_fixed,
+                class: &class,
+            };
+            let sw = chain::saturation_by_class(&inputs, &self.report.zones, &archie, &mut scratch).sw;
+            for (i, v) in sw.into_iter().enumerate() {
+                out[i * k + usize::from(c) - 1] = v;
+            }
+        }
+        out
+    }
+
     /// Recompute SW (and BVW) with Archie a, m, n looked up at each depth from
     /// its CLASS ([`chain::saturation_by_class`]); the chain's SW, with the
     /// zone's own exponents, is kept beside it as SW_FIXED. Needs the CLASS
@@ -668,17 +729,7 @@ impl WellOutput {
     ) {
         let n = self.table.n_rows();
         let nan = vec![f64::NAN; n];
-        let by_zone: Vec<(String, Vec<ArchieParams>)> = self
-            .report
-            .zones
-            .iter()
-            .map(|z| {
-                (
-                    z.name.clone(),
-                    params.class_archie(&z.name, z.params.archie, max_class),
-                )
-            })
-            .collect();
+        let by_zone = self.class_archie_by_zone(params, max_class);
         let archie: Vec<Vec<ArchieParams>> = by_zone.iter().map(|(_, t)| t.clone()).collect();
         let table = &mut self.table;
         let mut flag: Vec<u32> = table

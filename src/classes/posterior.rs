@@ -60,32 +60,121 @@ pub fn well_inputs(
     w
 }
 
+/// The saturation-height evidence of a well, as the class stage reads it.
+#[derive(Debug, Clone, Copy)]
+pub struct SatEvidence<'a> {
+    /// SW from the logs with each class's exponents minus the SWH of that
+    /// class at the depth's height above the free water level, row-major over
+    /// the table's rows, one value per class (class 1 first); NaN where the
+    /// height model says nothing (at or below the FWL, no TVDSS, no PHIE).
+    pub residuals: &'a [f64],
+    /// The tempering weight: 0 ignores the evidence, 1 takes the residuals
+    /// at face value with spread [`SWH_SIGMA_VV`].
+    pub weight: f64,
+}
+
+/// Nominal spread of log SW about the saturation-height SW of the right
+/// class, v/v (common practice puts log SW within about 0.05-0.1 of a good
+/// height model above the transition zone; the tempering weight, chosen
+/// leave-one-well-out, scales it for the field).
+pub const SWH_SIGMA_VV: f64 = 0.1;
+
+/// Share added to every class's vote share before the saturation-height
+/// likelihood multiplies it, so that a class no tree voted for can still be
+/// raised by strong evidence (half a vote of a 100-tree forest).
+pub const FUSION_FLOOR: f64 = 0.005;
+
+/// Bayes' rule at one depth: the class probabilities `p` (from the logs)
+/// times each class's likelihood of the SW residual `r` (Gaussian with
+/// spread [`SWH_SIGMA_VV`]) raised to `weight`, normalised. A class whose
+/// residual is NaN gets the mean likelihood of the others (the evidence says
+/// nothing about it). Returns `false`, leaving `p` as it was, when no residual
+/// is finite or the weight is not positive.
+pub fn fuse_saturation(p: &mut [f64], r: &[f64], weight: f64) -> bool {
+    if !(weight > 0.0) || p.len() != r.len() || !r.iter().any(|v| v.is_finite()) {
+        return false;
+    }
+    let log_l: Vec<f64> = r
+        .iter()
+        .map(|v| -0.5 * weight * (v / SWH_SIGMA_VV).powi(2))
+        .collect();
+    let top = log_l
+        .iter()
+        .copied()
+        .filter(|v| v.is_finite())
+        .fold(f64::NEG_INFINITY, f64::max);
+    let lik: Vec<f64> = log_l.iter().map(|v| (v - top).exp()).collect();
+    let finite: Vec<f64> = lik.iter().copied().filter(|v| v.is_finite()).collect();
+    let fill = finite.iter().sum::<f64>() / finite.len() as f64;
+    let mut total = 0.0;
+    for (pc, l) in p.iter_mut().zip(&lik) {
+        *pc = (*pc + FUSION_FLOOR) * if l.is_finite() { *l } else { fill };
+        total += *pc;
+    }
+    if total > 0.0 {
+        p.iter_mut().for_each(|v| *v /= total);
+    }
+    true
+}
+
+/// The forest's vote shares at `inputs.rows`, `k` per row (class 1 first).
+pub fn vote_shares(forest: &Forest, inputs: &WellInputs, k: usize) -> Result<Vec<f64>, PredictError> {
+    let slots = forest.class_slots();
+    let shares = forest.vote_shares(&inputs.x)?;
+    Ok(shares
+        .chunks_exact(slots)
+        .flat_map(|s| (1..=k).map(move |c| s.get(c).copied().unwrap_or(0.0)))
+        .collect())
+}
+
+/// Class probabilities from vote shares (`probs`, changed in place): fused
+/// with the saturation-height evidence where it speaks
+/// ([`fuse_saturation`]), then, with a sequence model, the posteriors of the
+/// bed sequence along each run of consecutive rows (`step_m` the sample
+/// step). Returns the number of rows the saturation-height evidence informed.
+pub fn posterior_from_shares(
+    probs: &mut [f64],
+    rows: &[usize],
+    k: usize,
+    sequence: Option<&SequenceModel>,
+    step_m: f64,
+    saturation: Option<SatEvidence<'_>>,
+) -> usize {
+    let mut informed = 0;
+    if let Some(ev) = saturation {
+        for (p, &r) in probs.chunks_exact_mut(k).zip(rows) {
+            if let Some(res) = ev.residuals.get(r * k..(r + 1) * k) {
+                informed += usize::from(fuse_saturation(p, res, ev.weight));
+            }
+        }
+    }
+    if let Some(seq) = sequence.filter(|s| s.prior.len() == k) {
+        let mut start = 0;
+        for end in 1..=rows.len() {
+            if end == rows.len() || rows[end] != rows[end - 1] + 1 {
+                seq.smooth(&mut probs[start * k..end * k], step_m);
+                start = end;
+            }
+        }
+    }
+    informed
+}
+
 /// Class probabilities at `inputs.rows`, `k` per row (class 1 first): the
-/// forest's vote shares, then, with a sequence model, the posteriors of the
-/// bed sequence along each run of consecutive rows (`step_m` the sample step).
+/// forest's vote shares, fused with the saturation-height evidence, then
+/// smoothed by the bed sequence ([`posterior_from_shares`]); with the number
+/// of rows the saturation-height evidence informed.
 pub fn class_probabilities(
     forest: &Forest,
     inputs: &WellInputs,
     k: usize,
     sequence: Option<&SequenceModel>,
     step_m: f64,
-) -> Result<Vec<f64>, PredictError> {
-    let slots = forest.class_slots();
-    let shares = forest.vote_shares(&inputs.x)?;
-    let mut probs: Vec<f64> = shares
-        .chunks_exact(slots)
-        .flat_map(|s| (1..=k).map(move |c| s.get(c).copied().unwrap_or(0.0)))
-        .collect();
-    if let Some(seq) = sequence.filter(|s| s.prior.len() == k) {
-        let mut start = 0;
-        for end in 1..=inputs.rows.len() {
-            if end == inputs.rows.len() || inputs.rows[end] != inputs.rows[end - 1] + 1 {
-                seq.smooth(&mut probs[start * k..end * k], step_m);
-                start = end;
-            }
-        }
-    }
-    Ok(probs)
+    saturation: Option<SatEvidence<'_>>,
+) -> Result<(Vec<f64>, usize), PredictError> {
+    let mut probs = vote_shares(forest, inputs, k)?;
+    let informed = posterior_from_shares(&mut probs, &inputs.rows, k, sequence, step_m, saturation);
+    Ok((probs, informed))
 }
 
 /// The most probable class (1-based; the lower on a tie) and its probability.
@@ -145,44 +234,70 @@ pub fn sequence_from(
     })
 }
 
-/// Exact and within-one shares of held-out plugs: (without the sequence, with it).
-pub type SequenceScores = ((f64, f64), (f64, f64));
+/// One way of classing a held-out well in [`lowo_scores`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Variant {
+    /// Smooth with the bed sequence the other cored wells imply.
+    pub sequence: bool,
+    /// Tempering weight of the saturation-height evidence (0: none).
+    pub sat_weight: f64,
+}
+
+/// Exact and within-one shares of held-out plugs, one pair per variant.
+pub type VariantScores = Vec<(f64, f64)>;
 
 /// Leave one cored well out on the wells' logs: each cored well is classed
 /// along its whole log by its fold's forest (`folds`, fitted without it by
-/// [`crate::classes::predictor::leave_one_well_out`]) with the sequence the
-/// other wells imply, and scored at its own plugs, without and with the bed
-/// sequence. `None` with fewer than two cored wells with logs.
-pub fn sequence_scores(
+/// [`crate::classes::predictor::leave_one_well_out`]), in each of
+/// `variants` (the bed sequence from the other wells; the saturation-height
+/// residuals of the well in `residuals`, when it has them), and scored at its
+/// own plugs. `None` with fewer than two cored wells with logs or no plug
+/// classed.
+pub fn lowo_scores(
     set: &crate::classes::predictor::TrainingSet,
     logs: &std::collections::BTreeMap<String, Table>,
     folds: &[crate::classes::predictor::FoldForest],
     k: usize,
     max_vsh: f64,
-) -> Result<Option<SequenceScores>, PredictError> {
+    residuals: &std::collections::BTreeMap<String, Vec<f64>>,
+    variants: &[Variant],
+) -> Result<Option<VariantScores>, PredictError> {
     let usable: Vec<&(String, Forest)> =
         folds.iter().filter(|(w, _)| logs.contains_key(w)).collect();
     if usable.len() < 2 {
         return Ok(None);
     }
-    let mut tally = [[0usize; 2]; 2];
+    let mut tally = vec![[0usize; 2]; variants.len()];
     let mut total = 0usize;
     for (w, forest) in usable {
         let table = &logs[w];
         let train = set.without_well(w);
-        let Some(seq) = sequence_from(&train, logs, k) else {
+        let seq = sequence_from(&train, logs, k);
+        if seq.is_none() && variants.iter().any(|v| v.sequence) {
             continue;
-        };
+        }
         let inputs = well_inputs(table, &set.features, &set.context_scales_m, max_vsh);
         let step = step_m(table);
-        let plain = class_probabilities(forest, &inputs, k, None, step)?;
-        let smooth = class_probabilities(forest, &inputs, k, Some(&seq), step)?;
+        let shares = vote_shares(forest, &inputs, k)?;
+        let classed: Vec<Vec<f64>> = variants
+            .iter()
+            .map(|v| {
+                let mut p = shares.clone();
+                let sat = residuals.get(w).map(|r| SatEvidence {
+                    residuals: r,
+                    weight: v.sat_weight,
+                });
+                let seq = seq.as_ref().filter(|_| v.sequence);
+                posterior_from_shares(&mut p, &inputs.rows, k, seq, step, sat);
+                p
+            })
+            .collect();
         for r in (0..set.rows()).filter(|&r| &set.well[r] == w) {
             let Ok(pos) = inputs.rows.binary_search(&set.row[r]) else {
                 continue;
             };
             total += 1;
-            for (v, probs) in [&plain, &smooth].into_iter().enumerate() {
+            for (v, probs) in classed.iter().enumerate() {
                 if let Some((c, _)) = most_probable(&probs[pos * k..(pos + 1) * k]) {
                     tally[v][0] += usize::from(c == set.y[r]);
                     tally[v][1] += usize::from(c.abs_diff(set.y[r]) <= 1);
@@ -194,8 +309,67 @@ pub fn sequence_scores(
         return Ok(None);
     }
     let share = |n: usize| n as f64 / total as f64;
-    Ok(Some((
-        (share(tally[0][0]), share(tally[0][1])),
-        (share(tally[1][0]), share(tally[1][1])),
-    )))
+    Ok(Some(
+        tally
+            .iter()
+            .map(|t| (share(t[0]), share(t[1])))
+            .collect(),
+    ))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Bayes' rule by hand: equal prior shares, residuals 0 and one spread
+    /// (0.1 v/v) at weight 1 give likelihoods 1 and e^-0.5 = 0.606531, so
+    /// the posteriors are 1/1.606531 = 0.622459 and 0.377541.
+    #[test]
+    fn fusion_is_bayes_rule_with_a_gaussian_likelihood() {
+        let mut p = [0.5, 0.5];
+        assert!(fuse_saturation(&mut p, &[0.0, SWH_SIGMA_VV], 1.0));
+        assert!((p[0] - 0.622_459).abs() < 1e-6, "{p:?}");
+        assert!((p[1] - 0.377_541).abs() < 1e-6, "{p:?}");
+    }
+
+    /// A class the height model says nothing about (NaN) gets the mean
+    /// likelihood of the others: (1 + 0.606531)/2 = 0.803265 by hand.
+    #[test]
+    fn a_class_without_a_residual_is_neither_favoured_nor_dropped() {
+        let mut p = [1.0 / 3.0; 3];
+        assert!(fuse_saturation(&mut p, &[0.0, f64::NAN, SWH_SIGMA_VV], 1.0));
+        let l = [1.0, 0.803_265, 0.606_531];
+        let total: f64 = l.iter().sum();
+        for (got, want) in p.iter().zip(l) {
+            assert!((got - want / total).abs() < 1e-6, "{p:?}");
+        }
+    }
+
+    /// At or below the free water level (every residual NaN) and at weight 0
+    /// the evidence says nothing, and the probabilities are left alone.
+    #[test]
+    fn no_evidence_leaves_the_probabilities_alone() {
+        let mut p = [0.2, 0.8];
+        assert!(!fuse_saturation(&mut p, &[f64::NAN, f64::NAN], 1.0));
+        assert!(!fuse_saturation(&mut p, &[0.0, 0.3], 0.0));
+        assert_eq!(p, [0.2, 0.8]);
+    }
+
+    /// The further a class's SW from the logs departs from its SWH, the less
+    /// probable it is, and a heavier weight separates the classes more.
+    #[test]
+    fn larger_mismatch_lowers_a_class_and_weight_sharpens() {
+        let fused = |r1: f64, w: f64| {
+            let mut p = [0.5, 0.5];
+            fuse_saturation(&mut p, &[0.02, r1], w);
+            p[1]
+        };
+        let mut last = 1.0;
+        for r1 in [0.0, 0.05, 0.1, 0.2, 0.4] {
+            let v = fused(r1, 1.0);
+            assert!(v < last || r1 == 0.0, "r1 {r1}: {v} after {last}");
+            last = v;
+        }
+        assert!(fused(0.2, 4.0) < fused(0.2, 0.25));
+    }
 }

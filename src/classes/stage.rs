@@ -31,7 +31,7 @@ use crate::input::core_samples::{Rejected, ShiftSuggestion};
 use crate::output::messages::chain;
 use crate::output::schema::{Col, FLAG_LOW_CLASS_PROBABILITY, flag_description};
 use crate::output::{OutColumn, OutputError, Table, write_atomic, write_json};
-use crate::well::{self, RunContext};
+use crate::well::{self, RunContext, WellOutput};
 use std::io::Write as _;
 
 /// What the class stage needs from a run.
@@ -57,7 +57,37 @@ pub struct ClassSetup {
     /// Training rows, kept to fit models without a feature a well lacks.
     training: Option<TrainingSet>,
     reduced: Mutex<BTreeMap<Vec<Feature>, Option<Arc<ClassModel>>>>,
+    /// The cored wells after the logs stages, by well name, with their file
+    /// stems: for scoring the saturation-height evidence on them.
+    cored: BTreeMap<String, (WellOutput, String)>,
+    /// The forests fitted leave-one-well-out at training (empty when the
+    /// model was loaded: refitted when needed).
+    folds: Vec<predictor::FoldForest>,
+    /// How this run uses the saturation-height evidence.
+    pub saturation: SatChoice,
 }
+
+/// How a run uses the saturation-height evidence, and the scores it was
+/// chosen by.
+#[derive(Debug, Clone, Default, Serialize, Deserialize, PartialEq)]
+pub struct SatChoice {
+    /// The tempering weight used; 0 when the evidence is not used.
+    pub weight: f64,
+    /// Leave-one-well-out scores of the weights tried, as ablation rows
+    /// (the first row is the model without the evidence).
+    pub scored: Vec<AblationRow>,
+    /// Why it is used or not, in words.
+    pub note: String,
+}
+
+/// A cored well's saturation-height residuals from its output and names
+/// (LAS name, file stem), or why it has none.
+pub type ResidualsOf<'a> = dyn Fn(&WellOutput, &[&str]) -> Result<Vec<f64>, String> + Sync + 'a;
+
+/// Tempering weights of the saturation-height evidence scored leave one
+/// well out (0 is always scored too): from a quarter of the nominal
+/// likelihood to four times it.
+pub const SAT_WEIGHTS: [f64; 5] = [0.25, 0.5, 1.0, 2.0, 4.0];
 
 /// What the class stage did before the wells, for the run summary.
 #[derive(Debug, Clone, Default, Serialize)]
@@ -85,6 +115,10 @@ pub struct ClassSummary {
     pub shift_suggestions: BTreeMap<String, Option<ShiftSuggestion>>,
     /// Files written by the class stage.
     pub outputs: Vec<String>,
+    /// How the classes use the saturation-height evidence this run; `None`
+    /// without a saturation-height model.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub saturation_height: Option<SatChoice>,
 }
 
 /// The class stage's results.
@@ -155,6 +189,9 @@ pub fn prepare(
                 cfg: predictor_cfg.clone(),
                 training: None,
                 reduced: Mutex::new(BTreeMap::new()),
+                cored: BTreeMap::new(),
+                folds: Vec::new(),
+                saturation: SatChoice::default(),
             }
         });
         return Ok(Prepared {
@@ -189,7 +226,11 @@ pub fn prepare(
     summary.core_samples = core.samples.len();
     summary.core_rejected = core.rejected.clone();
     summary.shifts_applied = core.shifts.clone();
-    let (tables, failed) = cored_tables(pass);
+    let (cored, failed) = cored_wells(pass);
+    let tables: BTreeMap<String, Table> = cored
+        .iter()
+        .map(|(n, (o, _))| (n.clone(), o.table.clone()))
+        .collect();
     summary.shift_suggestions = core_match::suggest_shifts(&core, &tables, core_cfg);
 
     // schemes: every configured one for the core table, the used one for the model
@@ -241,11 +282,11 @@ pub fn prepare(
             .filter_map(|&(p, k)| scheme.classify(p, k).map(|c| (c, p, k)))
             .collect();
         let perm_fit = perm::fit(&perm_samples);
-        let model = match loaded {
+        let (model, folds) = match loaded {
             Some((model, path)) => {
                 check_scheme(&model.header.scheme, &info, &path)?;
                 summary.model_file = Some(path.display().to_string());
-                model
+                (model, Vec::new())
             }
             None => train_and_save(
                 &set,
@@ -265,6 +306,9 @@ pub fn prepare(
             cfg: predictor_cfg.clone(),
             training: (set.rows() > 0).then_some(set),
             reduced: Mutex::new(BTreeMap::new()),
+            cored,
+            folds,
+            saturation: SatChoice::default(),
         })
     };
     let report_path = core_dir.join("core-report.json");
@@ -279,9 +323,9 @@ pub fn prepare(
     })
 }
 
-/// One well's pass through the logs stages: (name, file stem, its table when
+/// One well's pass through the logs stages: (name, file stem, its output when
 /// the well is cored, or why it failed).
-type WellPass = (String, String, Result<Option<Table>, well::WellError>);
+type WellPass = (String, String, Result<Option<WellOutput>, well::WellError>);
 
 /// Pass 1 of the class stage: the logs stages on every well (in parallel),
 /// keeping the tables of the wells in `core_wells` (lower case).
@@ -295,7 +339,7 @@ fn read_wells(files: &[PathBuf], ctx: &RunContext, core_wells: &[String]) -> Vec
                     let cored = core_wells
                         .iter()
                         .any(|w| w.eq_ignore_ascii_case(&o.name) || w.eq_ignore_ascii_case(&stem));
-                    (o.name, stem, Ok(cored.then_some(o.table)))
+                    (o.name.clone(), stem, Ok(cored.then_some(o)))
                 }
                 Err(e) => (stem.clone(), stem, Err(e)),
             }
@@ -303,14 +347,17 @@ fn read_wells(files: &[PathBuf], ctx: &RunContext, core_wells: &[String]) -> Vec
         .collect()
 }
 
-/// The cored wells' tables by well name, and the wells that failed with why.
-fn cored_tables(pass: Vec<WellPass>) -> (BTreeMap<String, Table>, BTreeMap<String, String>) {
-    let mut tables: BTreeMap<String, Table> = BTreeMap::new();
+/// The cored wells' outputs (with file stems) by well name, and the wells
+/// that failed with why.
+type CoredWells = BTreeMap<String, (WellOutput, String)>;
+
+fn cored_wells(pass: Vec<WellPass>) -> (CoredWells, BTreeMap<String, String>) {
+    let mut tables: CoredWells = BTreeMap::new();
     let mut failed: BTreeMap<String, String> = BTreeMap::new();
-    for (name, _, r) in pass {
+    for (name, stem, r) in pass {
         match r {
-            Ok(Some(t)) => {
-                tables.insert(name, t);
+            Ok(Some(o)) => {
+                tables.insert(name, (o, stem));
             }
             Ok(None) => {}
             Err(e) => {
@@ -413,7 +460,7 @@ fn train_and_save(
     out: &Path,
     summary: &mut ClassSummary,
     progress: bool,
-) -> Result<ClassModel, ClassStageError> {
+) -> Result<(ClassModel, Vec<predictor::FoldForest>), ClassStageError> {
     let model_dir = out.join("model");
     if progress {
         note!(
@@ -423,7 +470,7 @@ fn train_and_save(
             set.features.len()
         );
     }
-    let model = train(set, info, predictor_cfg, perm_method, perm_fit, Some(logs))?;
+    let (model, folds) = train_with_folds(set, info, predictor_cfg, perm_method, perm_fit, Some(logs))?;
     if progress {
         note!("train: forest fitted in {:.3} s", model.header.fit_seconds);
     }
@@ -436,10 +483,23 @@ fn train_and_save(
     summary.model_file = Some(crate::output::shown(out, &path));
     summary.trained = true;
     summary.outputs.push(crate::output::shown(out, &path));
+    let [json, text] = write_report_files(&model.header, summary, out)?;
+    summary.outputs.push(crate::output::shown(out, &json));
+    summary.outputs.push(crate::output::shown(out, &text));
+    Ok((model, folds))
+}
+
+/// Write `model/training-report.json` and `.txt` for `header`; their paths.
+fn write_report_files(
+    header: &ModelHeader,
+    summary: &ClassSummary,
+    out: &Path,
+) -> Result<[PathBuf; 2], ClassStageError> {
+    let model_dir = out.join("model");
     let json = model_dir.join("training-report.json");
-    write_json(&json, &model.header)?;
+    write_json(&json, header)?;
     let text = model_dir.join("training-report.txt");
-    let report = report_text(&model.header, summary);
+    let report = report_text(header, summary);
     write_atomic(&text, |w| {
         w.write_all(report.as_bytes())
             .map_err(|source| OutputError::Io {
@@ -447,9 +507,19 @@ fn train_and_save(
                 source,
             })
     })?;
-    summary.outputs.push(crate::output::shown(out, &json));
-    summary.outputs.push(crate::output::shown(out, &text));
-    Ok(model)
+    Ok([json, text])
+}
+
+/// Write the training report again once the run has scored the
+/// saturation-height evidence: its rows join the ablation table.
+pub fn write_training_report(
+    setup: &ClassSetup,
+    summary: &ClassSummary,
+    out: &Path,
+) -> Result<(), ClassStageError> {
+    let mut header = setup.model.header.clone();
+    header.ablation = setup.ablation();
+    write_report_files(&header, summary, out).map(|_| ())
 }
 
 /// Why the class stage cannot give a model.
@@ -529,6 +599,19 @@ pub fn train(
     perm: Vec<perm::ClassPerm>,
     logs: Option<&BTreeMap<String, Table>>,
 ) -> Result<ClassModel, ClassStageError> {
+    train_with_folds(set, scheme, cfg, perm_method, perm, logs).map(|(m, _)| m)
+}
+
+/// [`train`], also giving the leave-one-well-out forests it fitted (one per
+/// cored well, fitted without it), for scoring more evidence on them later.
+pub fn train_with_folds(
+    set: &TrainingSet,
+    scheme: &SchemeInfo,
+    cfg: &PredictorConfig,
+    perm_method: PermMethod,
+    perm: Vec<perm::ClassPerm>,
+    logs: Option<&BTreeMap<String, Table>>,
+) -> Result<(ClassModel, Vec<predictor::FoldForest>), ClassStageError> {
     if set.rows() == 0 {
         return Err(ClassStageError::NoTrainingSamples);
     }
@@ -582,9 +665,15 @@ pub fn train(
     let mut sequence = None;
     if let (Some(logs), true) = (logs, cfg.sequence != EvidenceMode::Off) {
         // on the same folds as the forest's own score: no forest is fitted twice
-        let scores = posterior::sequence_scores(&chosen, logs, &folds, k, cfg.max_vsh)?;
+        let variants = [false, true].map(|sequence| posterior::Variant {
+            sequence,
+            sat_weight: 0.0,
+        });
+        let none = BTreeMap::new();
+        let scores =
+            posterior::lowo_scores(&chosen, logs, &folds, k, cfg.max_vsh, &none, &variants)?;
         let model = posterior::sequence_from(&chosen, logs, k);
-        if let (Some(((e0, w0), (e1, w1))), Some(model)) = (scores, model) {
+        if let (Some(&[(e0, w0), (e1, w1)]), Some(model)) = (scores.as_deref(), model) {
             let use_it = cfg.sequence == EvidenceMode::On || e1 > e0;
             for r in &mut ablation {
                 r.chosen = r.chosen && !use_it;
@@ -640,7 +729,7 @@ pub fn train(
         validation,
         fit_seconds,
     };
-    Ok(ClassModel { header, forest })
+    Ok((ClassModel { header, forest }, folds))
 }
 
 fn pct(v: f64) -> String {
@@ -718,7 +807,7 @@ pub fn report_text(h: &ModelHeader, summary: &ClassSummary) -> String {
         );
         let _ = writeln!(
             s,
-            "  {:<28} {:>8} {:>11} {:>8}",
+            "  {:<36} {:>8} {:>11} {:>8}",
             "evidence", "exact", "within one", "gain"
         );
         let first = h.ablation.first().map_or(0.0, |r| r.exact);
@@ -730,7 +819,7 @@ pub fn report_text(h: &ModelHeader, summary: &ClassSummary) -> String {
             };
             let _ = writeln!(
                 s,
-                "  {:<28} {:>8} {:>11} {:>8}{}",
+                "  {:<36} {:>8} {:>11} {:>8}{}",
                 r.evidence,
                 pct(r.exact),
                 pct(r.within_one),
@@ -865,9 +954,149 @@ impl ClassSetup {
             .clone()
     }
 
+    /// The run's ablation table: the model's rows, then the saturation-height
+    /// weights scored this run (the chosen row marked).
+    pub fn ablation(&self) -> Vec<AblationRow> {
+        let mut rows = self.model.header.ablation.clone();
+        if self.saturation.weight > 0.0 {
+            rows.iter_mut().for_each(|r| r.chosen = false);
+        }
+        rows.extend(self.saturation.scored.iter().cloned());
+        rows
+    }
+
+    /// Choose the tempering weight of the saturation-height evidence for this
+    /// run (`[predictor] saturation-height`): each cored well is classed
+    /// along its log by forests fitted without it, with the model's bed
+    /// sequence, at weight 0 and every weight of [`SAT_WEIGHTS`], and scored
+    /// at its plugs. `auto` keeps the best weight when it beats weight 0 on
+    /// exact share (the smaller weight on a tie); `on` keeps the best nonzero
+    /// weight (1 when nothing can be scored). `residuals_of` gives a cored
+    /// well's residuals ([`crate::sat_height::evidence::class_residuals`]),
+    /// from its output and names (LAS name, file stem), or why it has none.
+    pub fn choose_saturation_weight(
+        &mut self,
+        residuals_of: &ResidualsOf<'_>,
+    ) -> Result<(), ClassStageError> {
+        let mode = self.cfg.saturation_height;
+        if mode == EvidenceMode::Off {
+            self.saturation = SatChoice {
+                note: "not used ([predictor] saturation-height = \"off\")".into(),
+                ..SatChoice::default()
+            };
+            return Ok(());
+        }
+        let mut residuals = BTreeMap::new();
+        let mut why = Vec::new();
+        for (name, (out, stem)) in &self.cored {
+            match residuals_of(out, &[name.as_str(), stem.as_str()]) {
+                Ok(r) if r.iter().any(|v| v.is_finite()) => {
+                    residuals.insert(name.clone(), r);
+                }
+                Ok(_) => why.push(format!("{name} has no depth above a free water level")),
+                Err(e) => why.push(format!("{name}: {e}")),
+            }
+        }
+        let k = self.scheme.class_count;
+        let h = &self.model.header;
+        let mut scores = None;
+        if let (Some(training), false) = (&self.training, residuals.is_empty()) {
+            let set = training.select(&h.feature_list(), !h.context_scales_m.is_empty());
+            if self.folds.is_empty() {
+                self.folds = predictor::leave_one_well_out(&set, &h.params, k)?
+                    .map(|(_, f)| f)
+                    .unwrap_or_default();
+            }
+            let logs: BTreeMap<String, Table> = self
+                .cored
+                .iter()
+                .map(|(n, (o, _))| (n.clone(), o.table.clone()))
+                .collect();
+            let variants: Vec<posterior::Variant> = std::iter::once(0.0)
+                .chain(SAT_WEIGHTS)
+                .map(|sat_weight| posterior::Variant {
+                    sequence: h.sequence.is_some(),
+                    sat_weight,
+                })
+                .collect();
+            scores = posterior::lowo_scores(
+                &set,
+                &logs,
+                &self.folds,
+                k,
+                self.cfg.max_vsh,
+                &residuals,
+                &variants,
+            )?;
+        }
+        let unscored = if why.is_empty() {
+            String::new()
+        } else {
+            format!(" (not scored on {})", why.join("; "))
+        };
+        self.saturation = match scores {
+            Some(sc) if sc.len() == SAT_WEIGHTS.len() + 1 => {
+                let best = (1..sc.len())
+                    .max_by(|&i, &j| {
+                        sc[i].0.total_cmp(&sc[j].0).then(sc[i].1.total_cmp(&sc[j].1)).then(j.cmp(&i))
+                    })
+                    .unwrap_or(1);
+                let use_it = mode == EvidenceMode::On || sc[best].0 > sc[0].0;
+                let weight = if use_it { SAT_WEIGHTS[best - 1] } else { 0.0 };
+                let mut scored = vec![AblationRow {
+                    evidence: "chosen evidence, on the cored logs".into(),
+                    exact: sc[0].0,
+                    within_one: sc[0].1,
+                    chosen: false,
+                }];
+                scored.extend(SAT_WEIGHTS.iter().zip(&sc[1..]).map(|(w, s)| AblationRow {
+                    evidence: format!("+ saturation height (weight {w})"),
+                    exact: s.0,
+                    within_one: s.1,
+                    chosen: use_it && *w == weight,
+                }));
+                let note = if use_it {
+                    format!(
+                        "used with weight {weight}: leave-one-well-out exact {} against {} without it{unscored}",
+                        pct(sc[best].0),
+                        pct(sc[0].0)
+                    )
+                } else {
+                    format!(
+                        "not used: no weight beat the classes without it leave one well out ({} exact){unscored}",
+                        pct(sc[0].0)
+                    )
+                };
+                SatChoice { weight, scored, note }
+            }
+            _ => SatChoice {
+                weight: if mode == EvidenceMode::On && !residuals.is_empty() { 1.0 } else { 0.0 },
+                scored: Vec::new(),
+                note: format!(
+                    "{}: needs two cored wells with logs, one of them above a free water level{unscored}",
+                    if mode == EvidenceMode::On && !residuals.is_empty() {
+                        "used with weight 1, not scored"
+                    } else {
+                        "not used, not scored"
+                    }
+                ),
+            },
+        };
+        Ok(())
+    }
+
     /// Give a well's table CLASS, CLASS_PROB and PERM columns (inserted before
-    /// FLAG) and set FLAG 32 where the class is uncertain.
-    pub fn apply(&self, table: &mut Table, well: &str, warnings: &mut Vec<String>) -> ClassCounts {
+    /// FLAG) and set FLAG 32 where the class is uncertain. `saturation` is the
+    /// well's saturation-height residuals
+    /// ([`crate::sat_height::evidence::class_residuals`]) or why it has none;
+    /// `None` when the run does not use that evidence.
+    pub fn apply(
+        &self,
+        table: &mut Table,
+        well: &str,
+        warnings: &mut Vec<String>,
+        saturation: Option<&Result<Vec<f64>, String>>,
+    ) -> ClassCounts {
         let n = table.n_rows();
         let features = self.model.header.feature_list();
         let missing: Vec<Feature> = features
@@ -947,14 +1176,38 @@ impl ClassSetup {
             counts.missing_feature = inputs.missing_feature;
             let phie = table.get(Col::Phie).unwrap_or(&[]);
             let k = self.scheme.class_count;
+            let sat = match saturation.filter(|_| self.saturation.weight > 0.0) {
+                Some(Ok(r)) => Some(posterior::SatEvidence {
+                    residuals: r,
+                    weight: self.saturation.weight,
+                }),
+                Some(Err(why)) => {
+                    counts
+                        .evidence
+                        .push(format!("no saturation height: the well is {why}"));
+                    None
+                }
+                None => None,
+            };
             match posterior::class_probabilities(
                 &model.forest,
                 &inputs,
                 k,
                 model.header.sequence.as_ref(),
                 posterior::step_m(table),
+                sat,
             ) {
-                Ok(probs) => {
+                Ok((probs, informed)) => {
+                    if sat.is_some() {
+                        counts.evidence.push(if informed > 0 {
+                            format!(
+                                "saturation height (weight {}; {informed} depths above the free water level)",
+                                self.saturation.weight
+                            )
+                        } else {
+                            "no saturation height: no classed depth above the free water level".into()
+                        });
+                    }
                     let perm_by_class: BTreeMap<u8, &perm::ClassPerm> =
                         model.header.perm.iter().map(|p| (p.class, p)).collect();
                     for (r, p) in inputs.rows.iter().zip(probs.chunks_exact(k)) {

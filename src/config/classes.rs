@@ -188,6 +188,16 @@ pub struct PredictorConfig {
     /// well out on the cored wells' logs; `on` or `off` force it. Default `auto`.
     #[serde(default)]
     pub sequence: EvidenceMode,
+    /// Saturation-height evidence (`saturation-height`): above a free water
+    /// level, each class's J-function predicts SW at the depth's height, and
+    /// the logs give SW with that class's exponents; the mismatch is a
+    /// likelihood per class, combined with the log evidence by Bayes' rule
+    /// under a tempering weight. `auto` scores the weights 0.25-4 leave one
+    /// well out on the cored wells' logs and uses the best one when it beats
+    /// no weight; `on` uses the best nonzero weight; `off` never. Needs
+    /// `[capillary]` and a free water level. Default `auto`.
+    #[serde(default)]
+    pub saturation_height: EvidenceMode,
     /// Half-widths of the context windows, m (`context-scales-m`): for every
     /// feature, the mean, slope and spread of the log over each window around
     /// the depth. Default [0.5, 1.5], about one and three times a density or
@@ -271,6 +281,7 @@ impl Default for PredictorConfig {
             max_core_distance: default_max_core_distance(),
             context: EvidenceMode::Auto,
             sequence: EvidenceMode::Auto,
+            saturation_height: EvidenceMode::Auto,
             context_scales_m: default_context_scales(),
         }
     }

@@ -69,7 +69,7 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
     every_input.push(config.source.clone());
     check_inputs_outside(out, &every_input)?;
     let ctx = well::RunContext::new(config.clone())?;
-    let prepared = if config.core.is_some() || config.classes.is_some() {
+    let mut prepared = if config.core.is_some() || config.classes.is_some() {
         Some(crate::classes::stage::prepare(
             &ctx,
             &files,
@@ -80,27 +80,21 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
     } else {
         None
     };
-    let sat = {
-        let setup = prepared.as_ref().and_then(|p| p.setup.as_ref());
-        let lookup = DepthLookup {
-            files: &files,
-            ctx: &ctx,
-            cache: std::sync::Mutex::new(std::collections::BTreeMap::new()),
-        };
-        let tvdss_of = |well: &str, md: f64| lookup.tvdss(well, md);
-        match setup {
-            Some(s) => crate::sat_height::prepare(config, &s.scheme, &tvdss_of)?,
-            None if config.capillary.is_some() => {
-                return Err(Error::Usage(
-                    "[capillary] needs a class model: give [classes] with [core] or [predictor] model"
-                        .into(),
-                ));
-            }
-            None => None,
+    let sat = match prepared.as_ref().and_then(|p| p.setup.as_ref()) {
+        Some(s) => saturation_model(config, &files, &ctx, &s.scheme)?,
+        None if config.capillary.is_some() => {
+            return Err(Error::Usage(
+                "[capillary] needs a class model: give [classes] with [core] or [predictor] model"
+                    .into(),
+            ));
         }
+        None => None,
     };
     if let (Some(m), true) = (&sat, progress) {
         report_model(m);
+    }
+    if let (Some(sat), Some(p)) = (&sat, prepared.as_mut()) {
+        choose_saturation_evidence(config, sat, p, out, progress)?;
     }
     let mut stems: Vec<String> = files.iter().map(|f| file_stem(&well::stem_of(f))).collect();
     // two inputs with the same stem: suffix the later ones
@@ -228,4 +222,60 @@ fn report_model(m: &crate::sat_height::SatHeightModel) {
             r.reason
         );
     }
+}
+
+/// The saturation-height model of the run for the class `scheme`; `None`
+/// without `[capillary]`. Pressure points given by MD are converted through
+/// their well's own depth reference.
+pub fn saturation_model(
+    config: &Config,
+    files: &[PathBuf],
+    ctx: &well::RunContext,
+    scheme: &crate::classes::predictor::model_file::SchemeInfo,
+) -> Result<Option<crate::sat_height::SatHeightModel>, Error> {
+    let lookup = DepthLookup {
+        files,
+        ctx,
+        cache: std::sync::Mutex::new(std::collections::BTreeMap::new()),
+    };
+    let tvdss_of = |well: &str, md: f64| lookup.tvdss(well, md);
+    Ok(crate::sat_height::prepare(config, scheme, &tvdss_of)?)
+}
+
+/// Choose how the classes use the saturation-height evidence (a weight
+/// scored leave one well out on the cored wells), record it in the class
+/// summary, and add its rows to the training report when this run trained.
+pub fn choose_saturation_evidence(
+    config: &Config,
+    sat: &crate::sat_height::SatHeightModel,
+    prepared: &mut crate::classes::stage::Prepared,
+    out: &Path,
+    progress: bool,
+) -> Result<(), Error> {
+    let Some(setup) = prepared.setup.as_mut() else {
+        return Ok(());
+    };
+    let perm = setup.model.header.perm.clone();
+    let method = setup.model.header.perm_method;
+    let classes = u8::try_from(setup.scheme.class_count).unwrap_or(u8::MAX);
+    let residuals_of = |w: &well::WellOutput, names: &[&str]| {
+        crate::sat_height::evidence::class_residuals(
+            sat,
+            w,
+            names,
+            &config.parameters,
+            &perm,
+            method,
+            classes,
+        )
+    };
+    setup.choose_saturation_weight(&residuals_of)?;
+    if progress {
+        note!("classes: saturation-height evidence {}", setup.saturation.note);
+    }
+    prepared.summary.saturation_height = Some(setup.saturation.clone());
+    if prepared.summary.trained {
+        crate::classes::stage::write_training_report(setup, &prepared.summary, out)?;
+    }
+    Ok(())
 }

@@ -205,7 +205,7 @@ pub fn field_page(
     let confusion = class_setup
         .and_then(|c| c.model.header.validation.as_ref())
         .map(|v| v.forest.confusion.clone());
-    let ablation = class_setup.map_or_else(Vec::new, |c| c.model.header.ablation.clone());
+    let ablation = class_setup.map_or_else(Vec::new, |c| c.ablation());
     let unit = config.project.depth_unit.las_unit().to_lowercase();
     let wells = reports
         .iter()
