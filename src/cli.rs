@@ -432,7 +432,13 @@ fn cmd_class_stage(
     let scheme = prepared.setup.as_ref().map(|s| s.scheme.clone());
     if let (Mode::Train, Some(scheme)) = (mode, scheme) {
         if let Some(sat) = field::setup::saturation_model(&ctx.config, &files, &ctx, &scheme)? {
-            field::setup::choose_saturation_evidence(&ctx.config, &sat, &mut prepared, out, !quiet)?;
+            field::setup::choose_saturation_evidence(
+                &ctx.config,
+                &sat,
+                &mut prepared,
+                out,
+                !quiet,
+            )?;
         }
     }
     let summary = &prepared.summary;

@@ -77,7 +77,12 @@ pub fn run_well(path: &Path, models: &Models<'_>) -> Result<Interpreted, WellErr
                     u8::try_from(setup.scheme.class_count).unwrap_or(u8::MAX),
                 )
             });
-        let counts = setup.apply(&mut out.table, &name, &mut out.warnings, saturation.as_ref());
+        let counts = setup.apply(
+            &mut out.table,
+            &name,
+            &mut out.warnings,
+            saturation.as_ref(),
+        );
         if config.parameters.has_class_params() {
             let max_class = u8::try_from(setup.scheme.class_count).unwrap_or(u8::MAX);
             out.apply_class_exponents(&config.parameters, max_class);

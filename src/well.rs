@@ -709,7 +709,8 @@ impl WellOutput {
                 sw_fixed,
                 class: &class,
             };
-            let sw = chain::saturation_by_class(&inputs, &self.report.zones, &archie, &mut scratch).sw;
+            let sw =
+                chain::saturation_by_class(&inputs, &self.report.zones, &archie, &mut scratch).sw;
             for (i, v) in sw.into_iter().enumerate() {
                 out[i * k + usize::from(c) - 1] = v;
             }

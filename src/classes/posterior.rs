@@ -118,7 +118,11 @@ pub fn fuse_saturation(p: &mut [f64], r: &[f64], weight: f64) -> bool {
 }
 
 /// The forest's vote shares at `inputs.rows`, `k` per row (class 1 first).
-pub fn vote_shares(forest: &Forest, inputs: &WellInputs, k: usize) -> Result<Vec<f64>, PredictError> {
+pub fn vote_shares(
+    forest: &Forest,
+    inputs: &WellInputs,
+    k: usize,
+) -> Result<Vec<f64>, PredictError> {
     let slots = forest.class_slots();
     let shares = forest.vote_shares(&inputs.x)?;
     Ok(shares
@@ -243,8 +247,32 @@ pub struct Variant {
     pub sat_weight: f64,
 }
 
-/// Exact and within-one shares of held-out plugs, one pair per variant.
-pub type VariantScores = Vec<(f64, f64)>;
+/// How one variant classed the held-out plugs in [`lowo_scores`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct VariantScore {
+    /// Share of plugs classed exactly.
+    pub exact: f64,
+    /// Share within one class.
+    pub within_one: f64,
+    /// Plugs this variant classes exactly and the first variant does not.
+    pub gained: usize,
+    /// Plugs the first variant classes exactly and this one does not.
+    pub lost: usize,
+}
+
+impl VariantScore {
+    /// Whether the gain over the first variant is more than chance: the net
+    /// gain in plugs exceeds one standard error of a paired comparison,
+    /// √(gained + lost) (McNemar's test at z = 1; McNemar 1947,
+    /// Psychometrika 12(2)).
+    pub fn beats_first(&self) -> bool {
+        let (g, l) = (self.gained as f64, self.lost as f64);
+        g - l > (g + l).sqrt()
+    }
+}
+
+/// One score per variant.
+pub type VariantScores = Vec<VariantScore>;
 
 /// Leave one cored well out on the wells' logs: each cored well is classed
 /// along its whole log by its fold's forest (`folds`, fitted without it by
@@ -267,7 +295,7 @@ pub fn lowo_scores(
     if usable.len() < 2 {
         return Ok(None);
     }
-    let mut tally = vec![[0usize; 2]; variants.len()];
+    let mut tally = vec![[0usize; 4]; variants.len()];
     let mut total = 0usize;
     for (w, forest) in usable {
         let table = &logs[w];
@@ -297,11 +325,17 @@ pub fn lowo_scores(
                 continue;
             };
             total += 1;
-            for (v, probs) in classed.iter().enumerate() {
-                if let Some((c, _)) = most_probable(&probs[pos * k..(pos + 1) * k]) {
-                    tally[v][0] += usize::from(c == set.y[r]);
-                    tally[v][1] += usize::from(c.abs_diff(set.y[r]) <= 1);
-                }
+            let right: Vec<Option<u8>> = classed
+                .iter()
+                .map(|p| most_probable(&p[pos * k..(pos + 1) * k]).map(|(c, _)| c))
+                .collect();
+            let first_right = right.first().copied().flatten() == Some(set.y[r]);
+            for (v, c) in right.iter().enumerate() {
+                let Some(c) = *c else { continue };
+                tally[v][0] += usize::from(c == set.y[r]);
+                tally[v][1] += usize::from(c.abs_diff(set.y[r]) <= 1);
+                tally[v][2] += usize::from(c == set.y[r] && !first_right);
+                tally[v][3] += usize::from(c != set.y[r] && first_right);
             }
         }
     }
@@ -312,7 +346,12 @@ pub fn lowo_scores(
     Ok(Some(
         tally
             .iter()
-            .map(|t| (share(t[0]), share(t[1])))
+            .map(|t| VariantScore {
+                exact: share(t[0]),
+                within_one: share(t[1]),
+                gained: t[2],
+                lost: t[3],
+            })
             .collect(),
     ))
 }
@@ -371,5 +410,22 @@ mod tests {
             last = v;
         }
         assert!(fused(0.2, 4.0) < fused(0.2, 0.25));
+    }
+
+    /// McNemar's paired comparison at one standard error: 10 plugs gained
+    /// and 2 lost is a net 8 against √12 = 3.46 (more than chance); 3 gained
+    /// and 1 lost is 2 against √4 = 2 (not more).
+    #[test]
+    fn a_gain_counts_only_beyond_one_standard_error() {
+        let v = |gained, lost| VariantScore {
+            exact: 0.0,
+            within_one: 0.0,
+            gained,
+            lost,
+        };
+        assert!(v(10, 2).beats_first());
+        assert!(!v(3, 1).beats_first());
+        assert!(!v(0, 0).beats_first());
+        assert!(!v(2, 10).beats_first());
     }
 }

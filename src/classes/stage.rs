@@ -470,7 +470,8 @@ fn train_and_save(
             set.features.len()
         );
     }
-    let (model, folds) = train_with_folds(set, info, predictor_cfg, perm_method, perm_fit, Some(logs))?;
+    let (model, folds) =
+        train_with_folds(set, info, predictor_cfg, perm_method, perm_fit, Some(logs))?;
     if progress {
         note!("train: forest fitted in {:.3} s", model.header.fit_seconds);
     }
@@ -673,7 +674,8 @@ pub fn train_with_folds(
         let scores =
             posterior::lowo_scores(&chosen, logs, &folds, k, cfg.max_vsh, &none, &variants)?;
         let model = posterior::sequence_from(&chosen, logs, k);
-        if let (Some(&[(e0, w0), (e1, w1)]), Some(model)) = (scores.as_deref(), model) {
+        if let (Some([s0, s1]), Some(model)) = (scores.as_deref(), model) {
+            let ((e0, w0), (e1, w1)) = ((s0.exact, s0.within_one), (s1.exact, s1.within_one));
             let use_it = cfg.sequence == EvidenceMode::On || e1 > e0;
             for r in &mut ablation {
                 r.chosen = r.chosen && !use_it;
@@ -969,8 +971,9 @@ impl ClassSetup {
     /// run (`[predictor] saturation-height`): each cored well is classed
     /// along its log by forests fitted without it, with the model's bed
     /// sequence, at weight 0 and every weight of [`SAT_WEIGHTS`], and scored
-    /// at its plugs. `auto` keeps the best weight when it beats weight 0 on
-    /// exact share (the smaller weight on a tie); `on` keeps the best nonzero
+    /// at its plugs. `auto` keeps the best weight (the smaller on a tie) when
+    /// it beats weight 0 by more than chance
+    /// ([`posterior::VariantScore::beats_first`]); `on` keeps the best nonzero
     /// weight (1 when nothing can be scored). `residuals_of` gives a cored
     /// well's residuals ([`crate::sat_height::evidence::class_residuals`]),
     /// from its output and names (LAS name, file stem), or why it has none.
@@ -1038,39 +1041,54 @@ impl ClassSetup {
             Some(sc) if sc.len() == SAT_WEIGHTS.len() + 1 => {
                 let best = (1..sc.len())
                     .max_by(|&i, &j| {
-                        sc[i].0.total_cmp(&sc[j].0).then(sc[i].1.total_cmp(&sc[j].1)).then(j.cmp(&i))
+                        (sc[i].exact.total_cmp(&sc[j].exact))
+                            .then(sc[i].within_one.total_cmp(&sc[j].within_one))
+                            .then(j.cmp(&i))
                     })
                     .unwrap_or(1);
-                let use_it = mode == EvidenceMode::On || sc[best].0 > sc[0].0;
+                let use_it = mode == EvidenceMode::On || sc[best].beats_first();
                 let weight = if use_it { SAT_WEIGHTS[best - 1] } else { 0.0 };
                 let mut scored = vec![AblationRow {
                     evidence: "chosen evidence, on the cored logs".into(),
-                    exact: sc[0].0,
-                    within_one: sc[0].1,
+                    exact: sc[0].exact,
+                    within_one: sc[0].within_one,
                     chosen: false,
                 }];
                 scored.extend(SAT_WEIGHTS.iter().zip(&sc[1..]).map(|(w, s)| AblationRow {
                     evidence: format!("+ saturation height (weight {w})"),
-                    exact: s.0,
-                    within_one: s.1,
+                    exact: s.exact,
+                    within_one: s.within_one,
                     chosen: use_it && *w == weight,
                 }));
                 let note = if use_it {
                     format!(
-                        "used with weight {weight}: leave-one-well-out exact {} against {} without it{unscored}",
-                        pct(sc[best].0),
-                        pct(sc[0].0)
+                        "used with weight {weight}: leave-one-well-out exact {} against {} without it ({} plugs gained, {} lost){unscored}",
+                        pct(sc[best].exact),
+                        pct(sc[0].exact),
+                        sc[best].gained,
+                        sc[best].lost
                     )
                 } else {
                     format!(
-                        "not used: no weight beat the classes without it leave one well out ({} exact){unscored}",
-                        pct(sc[0].0)
+                        "not used: no weight beat the classes without it by more than chance leave one well out (best {} exact against {}: {} plugs gained, {} lost){unscored}",
+                        pct(sc[best].exact),
+                        pct(sc[0].exact),
+                        sc[best].gained,
+                        sc[best].lost
                     )
                 };
-                SatChoice { weight, scored, note }
+                SatChoice {
+                    weight,
+                    scored,
+                    note,
+                }
             }
             _ => SatChoice {
-                weight: if mode == EvidenceMode::On && !residuals.is_empty() { 1.0 } else { 0.0 },
+                weight: if mode == EvidenceMode::On && !residuals.is_empty() {
+                    1.0
+                } else {
+                    0.0
+                },
                 scored: Vec::new(),
                 note: format!(
                     "{}: needs two cored wells with logs, one of them above a free water level{unscored}",

@@ -271,7 +271,10 @@ pub fn choose_saturation_evidence(
     };
     setup.choose_saturation_weight(&residuals_of)?;
     if progress {
-        note!("classes: saturation-height evidence {}", setup.saturation.note);
+        note!(
+            "classes: saturation-height evidence {}",
+            setup.saturation.note
+        );
     }
     prepared.summary.saturation_height = Some(setup.saturation.clone());
     if prepared.summary.trained {

@@ -43,7 +43,9 @@ pub fn class_residuals(
         .ok_or_else(|| "no TVDSS (no datum elevation), so no height above the FWL".to_string())?;
     let phie = table.get(Col::Phie).ok_or_else(|| "no PHIE".to_string())?;
     let sw = out.sw_for_each_class(params, classes);
-    Ok(residuals(model, comp, tvdss, phie, &sw, perm, method, classes))
+    Ok(residuals(
+        model, comp, tvdss, phie, &sw, perm, method, classes,
+    ))
 }
 
 /// [`class_residuals`] on plain curves: `tvdss` (project depth unit) and
@@ -139,7 +141,12 @@ mod tests {
         for c in 0..2 {
             let k_md = perm[c].perm(PermMethod::Fzi, 0.2);
             let want = 0.3 - model.swh(30.0, (c + 1) as f64, k_md, 0.2, 0.30);
-            assert!((r[c] - want).abs() < 1e-12, "class {}: {} vs {want}", c + 1, r[c]);
+            assert!(
+                (r[c] - want).abs() < 1e-12,
+                "class {}: {} vs {want}",
+                c + 1,
+                r[c]
+            );
         }
         // the poorer class holds more water at the same height
         assert!(r[0] < r[1]);

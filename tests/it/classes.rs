@@ -572,7 +572,9 @@ fn saturation_height_evidence_is_stated_per_well() {
             .as_array()
             .expect("rows")
             .iter()
-            .any(|r| r["evidence"].as_str().is_some_and(|e| e.starts_with("+ saturation height"))),
+            .any(|r| r["evidence"]
+                .as_str()
+                .is_some_and(|e| e.starts_with("+ saturation height"))),
         "{report}"
     );
     let mut seen = 0;
@@ -589,11 +591,15 @@ fn saturation_height_evidence_is_stated_per_well() {
         assert!(ev[0].starts_with("log features"), "{name}: {ev:?}");
         if name == "Tarnby-8" {
             assert!(
-                ev.iter().any(|e| e.contains("no saturation height") && e.contains("no compartment")),
+                ev.iter()
+                    .any(|e| e.contains("no saturation height") && e.contains("no compartment")),
                 "{name}: {ev:?}"
             );
         } else if name != "Tarnby-7" {
-            seen += usize::from(ev.iter().any(|e| e.starts_with("saturation height (weight")));
+            seen += usize::from(
+                ev.iter()
+                    .any(|e| e.starts_with("saturation height (weight")),
+            );
         }
     }
     assert!(seen >= 5, "wells above a free water level use the evidence");
