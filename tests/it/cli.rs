@@ -1,7 +1,7 @@
 //! The binary as a user runs it: help text, exit codes, stdout for data and
 //! stderr for messages, and the files each command writes.
 
-use crate::common::{flowzone, root, run_config, shared};
+use crate::common::{flowzone, root, run_config};
 
 #[test]
 fn every_command_has_help() {
@@ -79,7 +79,7 @@ fn inspect_json_is_machine_readable() {
 #[test]
 fn export_csv_las_parquet() {
     let dir = tempfile::tempdir().expect("temp dir");
-    let src = shared().join("las-samples/multi_channel.las");
+    let src = crate::common::real("multi_channel.las");
     for format in ["csv", "las", "parquet"] {
         let out = flowzone()
             .args(["export", "--format", format, "--out"])

@@ -14,8 +14,15 @@ pub fn shared() -> PathBuf {
     }
 }
 
+/// A real sample file committed in tests/data/real (provenance there).
+pub fn real(name: &str) -> PathBuf {
+    root().join("tests/data/real").join(name)
+}
+
 /// The Python that has lasio: FLOWZONE_PYTHON, else the project's .venv.
-/// The interop tests fail, never skip, when it is missing: .ci/run installs it.
+/// The tests that need it are `#[ignore = "needs lasio ..."]`, so a plain
+/// `cargo test` reports them as not run; run with `--include-ignored` (as
+/// `.ci/run` does, after installing it) they fail, never skip, without it.
 pub fn python() -> PathBuf {
     let p = match std::env::var_os("FLOWZONE_PYTHON") {
         Some(p) => PathBuf::from(p),

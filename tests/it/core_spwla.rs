@@ -1,4 +1,4 @@
-//! The real conventional-core file in ../shared/core-samples (well 7121/8-1,
+//! The real conventional-core file in tests/data/real (well 7121/8-1,
 //! SPWLA core-data format, NLOD 2.0; provenance in PROVENANCE.md there): read,
 //! flow-unit quantities computed, classes assigned. Expected counts and ranges
 //! come from an independent reading of the file (a short python3 parse of its
@@ -11,11 +11,11 @@ use flowzone::classes::{ClassScheme, FziLadder, PortSize};
 use flowzone::input::core_samples::read_spwla;
 use flowzone::units::DepthUnit;
 
-use crate::common::shared;
+use crate::common::real;
 
 #[test]
 fn spwla_core_file_counts_ranges_and_classes() {
-    let path = shared().join("core-samples/7121_8-1__ROCK_AND_CORE__CORE_CONV_RAW_1.SPWLA");
+    let path = real("7121_8-1__ROCK_AND_CORE__CORE_CONV_RAW_1.SPWLA");
     let (core, vars) = read_spwla(&path, DepthUnit::Metre, DepthUnit::Metre).expect("readable");
     assert_eq!(vars.len(), 10);
     assert_eq!(vars[1].description, "Klinkenberg corrected gas perm, Hor.");

@@ -70,6 +70,7 @@ fn relative_links(html: &str) -> Vec<String> {
 }
 
 #[test]
+#[ignore = "needs chromium: run `bash .ci/run` (installs Debian's chromium)"]
 fn report_pages_render_in_a_browser() {
     let dir = tempfile::tempdir().expect("temp dir");
     let out = dir.path().join("out");
