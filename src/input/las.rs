@@ -319,6 +319,21 @@ impl Reader<'_> {
         if bytes.iter().all(|b| b.is_ascii_whitespace()) {
             return Err(self.file_err(FileError::Empty));
         }
+        let normalised = bare_cr_as_newline(bytes);
+        if let std::borrow::Cow::Owned(_) = &normalised {
+            let n = bytes
+                .windows(2)
+                .filter(|w| w[0] == b'\r' && w[1] != b'\n')
+                .count()
+                + usize::from(bytes.last() == Some(&b'\r'));
+            self.warn(
+                None,
+                format!(
+                    "{n} line(s) end in a bare CR (classic Mac OS line ends): read as line ends"
+                ),
+            );
+        }
+        let bytes: &[u8] = &normalised;
         let mut head = self.scan_header(bytes)?;
         let (version, wrapped) = self.version_and_wrap(&head)?;
         if !head.seen[1] {
@@ -347,7 +362,7 @@ impl Reader<'_> {
             }
         }
         let null_value = self.null_value(&head.well_items)?;
-        let curves = self.unique_curves(std::mem::take(&mut head.curve_items));
+        let mut curves = self.unique_curves(std::mem::take(&mut head.curve_items));
 
         // ~A: the data, up to the next section line (LAS 2.0 puts ~A last)
         let rest = &bytes[data_pos.min(bytes.len())..];
@@ -383,7 +398,8 @@ impl Reader<'_> {
             return Err(self.file_err(FileError::NoRows));
         }
 
-        self.check_a_title(&a_title, &curves, data_line - 1)?;
+        let monotonic = parsed.scan.first_break.is_none();
+        self.check_a_title(&a_title, &mut curves, data_line - 1, monotonic)?;
         self.check_index_name(&curves)?;
 
         let mut index_reversed = false;
@@ -711,23 +727,63 @@ impl Reader<'_> {
     }
 
     /// The `~A` line may repeat the curve names; when it does (two or more
-    /// words after the section word, the first naming the index), they must
-    /// agree with ~C. Other text on the line is a label.
+    /// words after the section word), they must agree with ~C. When they
+    /// name every ~C curve once in another order that puts the index first
+    /// where ~C does not, and the data's first column is monotonic as an
+    /// index is (real files list DEPT last in ~C while the title and the data
+    /// put depth first), the title and the data outvote ~C: a contradiction,
+    /// refused under `--strict`, else the curves are labelled in the title's
+    /// order with a warning saying so. Any other disagreement is reported
+    /// and ~C's order kept (the data cannot tell which is right). A title
+    /// whose first word is not the first curve, and that is no such
+    /// reordering, is a label. Index names (DEPT, DEPTH, ...) match each other.
     fn check_a_title(
         &mut self,
         title: &str,
-        curves: &[CurveInfo],
+        curves: &mut Vec<CurveInfo>,
         line: usize,
+        first_column_monotonic: bool,
     ) -> Result<(), LasError> {
         let strip = |s: &str| s.split('[').next().unwrap_or(s).to_ascii_uppercase();
-        let names: Vec<&str> = title.split_whitespace().skip(1).collect();
-        if names.len() < 2 || strip(names[0]) != curves[0].original_mnemonic.to_ascii_uppercase() {
-            return Ok(());
-        }
+        let is_index = |m: &str| INDEX_MNEMONICS.iter().any(|x| m.eq_ignore_ascii_case(x));
         let matches = |n: &str, c: &CurveInfo| {
             n.eq_ignore_ascii_case(&c.original_mnemonic)
                 || strip(n) == c.original_mnemonic.to_ascii_uppercase()
+                || (is_index(&strip(n)) && is_index(&c.original_mnemonic))
         };
+        let names: Vec<&str> = title.split_whitespace().skip(1).collect();
+        if names.len() < 2 {
+            return Ok(());
+        }
+        if names.len() == curves.len() {
+            // the ~C curve each title word names, each curve used once
+            let mut used = vec![false; curves.len()];
+            let order: Option<Vec<usize>> = names
+                .iter()
+                .map(|n| {
+                    let i = (0..curves.len()).find(|&i| !used[i] && matches(n, &curves[i]))?;
+                    used[i] = true;
+                    Some(i)
+                })
+                .collect();
+            let index_moved = |o: &Vec<usize>| {
+                o[0] != 0 && is_index(&curves[o[0]].original_mnemonic) && first_column_monotonic
+            };
+            if let Some(order) = order.filter(index_moved) {
+                let message = format!(
+                    "~A line names the curves in another order than ~C ({}), with the index first as the data have it; read in the ~A line's order",
+                    names.join(" ")
+                );
+                self.contradiction(Some(line), message)?;
+                let mut old: Vec<Option<CurveInfo>> =
+                    std::mem::take(curves).into_iter().map(Some).collect();
+                *curves = order.iter().filter_map(|&i| old[i].take()).collect();
+                return Ok(());
+            }
+        }
+        if !matches(names[0], &curves[0]) {
+            return Ok(());
+        }
         if names.len() != curves.len() {
             let message = format!(
                 "~A line names {} columns but ~C declares {} curves",
@@ -737,7 +793,7 @@ impl Reader<'_> {
             self.contradiction(Some(line), message)?;
         } else if let Some((k, (n, c))) = names
             .iter()
-            .zip(curves)
+            .zip(curves.iter())
             .enumerate()
             .find(|(_, (n, c))| !matches(n, c))
         {
@@ -838,6 +894,21 @@ impl Reader<'_> {
         }
         Ok(())
     }
+}
+
+/// The file with every bare CR (one not followed by LF) turned into LF, so
+/// that lines end at `\n`, `\r\n` or a lone `\r` alike; borrowed when the
+/// file has none (the usual case: no copy).
+fn bare_cr_as_newline(bytes: &[u8]) -> std::borrow::Cow<'_, [u8]> {
+    let bare = |i: usize| bytes[i] == b'\r' && bytes.get(i + 1) != Some(&b'\n');
+    if !(0..bytes.len()).any(bare) {
+        return std::borrow::Cow::Borrowed(bytes);
+    }
+    std::borrow::Cow::Owned(
+        (0..bytes.len())
+            .map(|i| if bare(i) { b'\n' } else { bytes[i] })
+            .collect(),
+    )
 }
 
 /// End of the line starting at `pos` (position of `\n`, or the buffer length).

@@ -132,3 +132,73 @@ fn las_1_2_value_in_description() {
         assert!(f.warnings.is_empty(), "{:?}", f.warnings);
     }
 }
+
+/// A regression fixture in tests/data/las-regress, read as given.
+fn regress(name: &str, strict: bool) -> Result<LasFile, flowzone::input::las::LasError> {
+    let bytes = std::fs::read(root().join("tests/data/las-regress").join(name)).expect("fixture");
+    read_bytes(
+        &bytes,
+        Path::new(name),
+        ReadOptions {
+            strict,
+            ..ReadOptions::default()
+        },
+    )
+}
+
+/// Silent misread 1: ~C lists DEPT last, the `~A` line and the data put
+/// depth first. Read in the `~A` line's order (values off the fixture text:
+/// depth 1000-1001 ft, GR 45-55, RHOB 2.71-2.60), with a warning on the
+/// `~A` line; refused under `--strict` (a contradiction, CWLS LAS 2.0 puts
+/// the index first in ~C and the ~A columns in ~C order).
+#[test]
+fn depth_last_in_curve_section_is_read_in_the_title_order() {
+    let f = regress("depth-last-in-curve-section.las", false)
+        .unwrap_or_else(|e| panic!("{}", chain(&e)));
+    let names: Vec<&str> = f.curves.iter().map(|c| c.mnemonic.as_str()).collect();
+    assert_eq!(names, ["DEPT", "GR", "RHOB"]);
+    assert_eq!(f.columns[0], [1000.0, 1000.5, 1001.0]);
+    assert_eq!(f.curve_data("GR").expect("GR"), [45.0, 50.0, 55.0]);
+    assert_eq!(f.curve_data("RHOB").expect("RHOB"), [2.71, 2.65, 2.60]);
+    assert_eq!(f.curves[2].unit, "G/CC");
+    let w: Vec<String> = f.warnings.iter().map(ToString::to_string).collect();
+    assert!(
+        w.iter()
+            .any(|m| m.starts_with("line 14: ~A line names the curves in another order than ~C")),
+        "{w:?}"
+    );
+    let err = regress("depth-last-in-curve-section.las", true).expect_err("strict refuses");
+    assert!(
+        chain(&err).contains("depth-last-in-curve-section.las:14:"),
+        "{}",
+        chain(&err)
+    );
+}
+
+/// Silent misread 2: lines ending in a bare CR. Each header line is its own
+/// line, NULL -999.25 applies (GR at 1000.5 m is missing) and the warning
+/// says what was done.
+#[test]
+fn bare_cr_line_ends_are_line_ends() {
+    let f = regress("bare-cr-line-ends.las", false).unwrap_or_else(|e| panic!("{}", chain(&e)));
+    assert_eq!(f.null_value, Some(-999.25));
+    assert_eq!(f.well_value("WELL"), Some("INVENTED-2"));
+    assert_eq!(f.columns[0], [1000.0, 1000.5, 1001.0]);
+    assert!(nan_eq(
+        f.curve_data("GR").expect("GR"),
+        &[45.0, f64::NAN, 55.0]
+    ));
+    let w: Vec<String> = f.warnings.iter().map(ToString::to_string).collect();
+    assert!(w.iter().any(|m| m.contains("end in a bare CR")), "{w:?}");
+    assert!(!w.iter().any(|m| m.contains("no NULL")), "{w:?}");
+}
+
+/// A row without a depth is refused with its line, never kept.
+#[test]
+fn missing_depth_is_refused_with_its_line() {
+    let err = regress("missing-depth.las", false).expect_err("refused");
+    assert_eq!(
+        chain(&err),
+        "missing-depth.las:16: the index (first column) has no value on this row (`NaN`): a row without a depth cannot be placed"
+    );
+}

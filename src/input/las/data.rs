@@ -160,6 +160,16 @@ pub fn parse_data(
                 });
             }
             let stored = if in_step == 0 {
+                let null_index =
+                    null_tol.is_some_and(|tol| (value - null.unwrap_or(0.0)).abs() <= tol);
+                if value.is_nan() || null_index {
+                    return Err((
+                        line,
+                        LineError::MissingIndex {
+                            text: token_text(bytes, pos - used),
+                        },
+                    ));
+                }
                 if let Some(prev) = last_index {
                     let d = value - prev;
                     if scan.first_break.is_none() {

@@ -59,6 +59,14 @@ pub enum LineError {
         /// The offending byte: non-ASCII or an ASCII control byte.
         byte: u8,
     },
+    /// A row whose index (first column) is NaN or the NULL value.
+    #[error(
+        "the index (first column) has no value on this row (`{text}`): a row without a depth cannot be placed"
+    )]
+    MissingIndex {
+        /// The index token as written, cut to 40 characters.
+        text: String,
+    },
     /// A ~C line without the dot that ends the mnemonic.
     #[error(
         "curve line has no `.` after the mnemonic (expected `MNEM.UNIT  API CODE : DESCRIPTION`)"

@@ -1,0 +1,1 @@
+~Version informationVERS.   2.0 : CWLS LAS version 2.0WRAP.   NO  : one line per depth step~Well informationSTRT.M 1000.0 : startSTOP.M 1001.0 : stopSTEP.M 0.5    : stepNULL.   -999.25: null valueWELL.   INVENTED-2 : invented well~Curve informationDEPT.M     : depthGR  .GAPI   : gamma ray~A1000.0  45.01000.5  -999.251001.0  55.0
