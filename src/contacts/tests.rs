@@ -540,3 +540,76 @@ fn bed_bootstrap_widens_with_disagreeing_beds() {
     assert!(spread.0 < 100.0 && spread.1 > 100.0, "{spread:?}");
     assert_eq!(super::bed_bootstrap(&rows[..8], 100.0, |_, f| f), None);
 }
+
+/// Coverage of the implied-FWL range on `wells` constructed wells (seeded)
+/// with a known FWL: beds 1-4 m thick of either class from 30 m above the
+/// FWL to `base_m` below it (negative: above it), SW = SWH + a bias per bed
+/// (sd `bias_sd`, standing for the rock and blur each bed reads differently)
+/// + noise per sample (sd 0.02). Returns (wells with a closed range, wells
+/// whose range holds the FWL, wells flagged off the FWL, mean range width m).
+fn fwl_coverage(wells: u64, base_m: f64, bias_sd: f64) -> (usize, usize, usize, f64) {
+    let c = comp(FWL, 1.07, 0.78);
+    let m = model(two_classes(), &c);
+    let (mut held, mut flagged, mut ranged, mut width) = (0usize, 0usize, 0usize, 0.0);
+    for seed in 0..wells {
+        let mut rng = ChaCha8Rng::seed_from_u64(1000 + seed);
+        let bias = Normal::new(0.0, bias_sd).expect("sd");
+        let noise = Normal::new(0.0, 0.02).expect("sd");
+        let top = FWL - 30.0;
+        let n = ((30.0 + base_m) / DZ) as usize;
+        let tvdss: Vec<f64> = (0..n).map(|i| top + i as f64 * DZ).collect();
+        let mut rock = Vec::with_capacity(n);
+        let mut biases = Vec::with_capacity(n);
+        while rock.len() < n {
+            let len = rng.random_range((1.0 / DZ) as usize..=(4.0 / DZ) as usize);
+            let r = if rng.random_bool(0.5) {
+                (2.0, K2, PHI2)
+            } else {
+                (1.0, K1, PHI1)
+            };
+            let b = bias.sample(&mut rng);
+            for _ in 0..len.min(n - rock.len()) {
+                rock.push(r);
+                biases.push(b);
+            }
+        }
+        let mut w = Well::new(tvdss, &rock, &m, &c);
+        for (v, b) in w.sw.iter_mut().zip(&biases) {
+            *v = (*v + b + noise.sample(&mut rng)).clamp(0.0, 1.0);
+        }
+        let a = run(&w, &m, &c);
+        let Some(f) = a.implied_fwl else { continue };
+        flagged += usize::from(!f.agrees);
+        let (Some(lo), Some(hi)) = (f.lower, f.upper) else {
+            continue;
+        };
+        let (lo, hi) = (lo.min(hi), lo.max(hi));
+        ranged += 1;
+        width += hi - lo;
+        held += usize::from(lo <= FWL && FWL <= hi);
+    }
+    (ranged, held, flagged, width / ranged.max(1) as f64)
+}
+
+/// The implied-FWL range is never over-confident, and one FWL per
+/// compartment gives (almost) no "another compartment" flags: on 200
+/// constructed wells per case, logged through the FWL (to 4 m below) or
+/// stopping 3 m above it, with per-bed SW bias sd 0.03 or 0.06, the range
+/// (nominally 68 %, the 16th-84th percentile of the bed bootstrap) holds the
+/// true FWL at least 0.61 of the time (68 % less two binomial standard
+/// errors of 200 wells), and at most 2 % of wells are flagged. Measured
+/// 2026-12-04: coverage 0.975, 0.940, 0.960, 0.885, mean widths 1.8-5.4 m,
+/// flags 0-3 of 200: the range is conservative when the classes are right
+/// (on the blind benchmark, with a third of the classes wrong, it holds the
+/// truth in 0.71-0.79 of wells).
+#[test]
+fn implied_fwl_range_holds_the_truth_about_as_often_as_it_claims() {
+    for (base, bias) in [(4.0, 0.03), (4.0, 0.06), (-3.0, 0.03), (-3.0, 0.06)] {
+        let (ranged, held, flagged, width) = fwl_coverage(200, base, bias);
+        let coverage = held as f64 / ranged.max(1) as f64;
+        let case = format!("base {base} m, bias sd {bias}: {held} of {ranged}, width {width:.2} m");
+        assert!(ranged >= 180, "{case}");
+        assert!(coverage >= 0.61, "over-confident: {case}");
+        assert!(flagged <= 4, "{flagged} flagged under one FWL: {case}");
+    }
+}
