@@ -91,7 +91,7 @@ pub const FUSION_FLOOR: f64 = 0.005;
 /// nothing about it). Returns `false`, leaving `p` as it was, when no residual
 /// is finite or the weight is not positive.
 pub fn fuse_saturation(p: &mut [f64], r: &[f64], weight: f64) -> bool {
-    if !(weight > 0.0) || p.len() != r.len() || !r.iter().any(|v| v.is_finite()) {
+    if weight.is_nan() || weight <= 0.0 || p.len() != r.len() || !r.iter().any(|v| v.is_finite()) {
         return false;
     }
     let log_l: Vec<f64> = r

@@ -543,10 +543,11 @@ fn bed_bootstrap_widens_with_disagreeing_beds() {
 
 /// Coverage of the implied-FWL range on `wells` constructed wells (seeded)
 /// with a known FWL: beds 1-4 m thick of either class from 30 m above the
-/// FWL to `base_m` below it (negative: above it), SW = SWH + a bias per bed
-/// (sd `bias_sd`, standing for the rock and blur each bed reads differently)
-/// + noise per sample (sd 0.02). Returns (wells with a closed range, wells
-/// whose range holds the FWL, wells flagged off the FWL, mean range width m).
+/// FWL to `base_m` below it (negative: above it), SW = SWH plus a bias per
+/// bed (sd `bias_sd`, standing for the rock and blur each bed reads
+/// differently) plus noise per sample (sd 0.02). Returns (wells with a
+/// closed range, wells whose range holds the FWL, wells flagged off the FWL,
+/// mean range width m).
 fn fwl_coverage(wells: u64, base_m: f64, bias_sd: f64) -> (usize, usize, usize, f64) {
     let c = comp(FWL, 1.07, 0.78);
     let m = model(two_classes(), &c);
