@@ -294,10 +294,16 @@ fn cmd_export(files: &[PathBuf], format: Format, out: &PathBuf, strict: bool) ->
             for w in &file.warnings {
                 note!("warning: {}: {w}", f.display());
             }
-            export::export_file(&file, f, out, format)
+            let mut paths = vec![export::export_file(&file, f, out, format)?];
+            paths.extend(export::export_data_sets(&file, f, out)?);
+            Ok(paths)
         });
         match result {
-            Ok(p) => note!("wrote {}", p.display()),
+            Ok(paths) => {
+                for p in paths {
+                    note!("wrote {}", p.display());
+                }
+            }
             Err(e) => {
                 failed += 1;
                 note!("error: {}", chain(&e));

@@ -62,3 +62,50 @@ pub fn export_file(
     let table = table_as_read(las);
     Ok(output::write_table(&table, out, &stem, format, None)?)
 }
+
+/// Write each LAS 3.0 data set other than the log data (core, tops,
+/// inclinometry, user-defined) as its own CSV table, `STEM.SET.csv`: a
+/// header of the set's column mnemonics, then its rows as written (text
+/// items, NULL as an empty field). The paths written; none for 1.2 and 2.0.
+pub fn export_data_sets(las: &LasFile, input: &Path, out: &Path) -> Result<Vec<PathBuf>, Error> {
+    let stem = input
+        .file_stem()
+        .map_or_else(|| "well".into(), |s| s.to_string_lossy().into_owned());
+    let null = las.null_value;
+    let mut written = Vec::new();
+    for set in &las.data_sets {
+        let name: String = set
+            .name
+            .chars()
+            .map(|c| {
+                if c.is_ascii_alphanumeric() || c == '-' {
+                    c
+                } else {
+                    '_'
+                }
+            })
+            .collect();
+        let path = out.join(format!("{stem}.{name}.csv"));
+        let io = |e: csv::Error| crate::output::OutputError::Io {
+            path: path.clone(),
+            source: std::io::Error::other(e),
+        };
+        output::write_atomic(&path, |w| {
+            let mut c = csv::Writer::from_writer(w);
+            c.write_record(set.columns.iter().map(|k| k.mnemonic.as_str()))
+                .map_err(io)?;
+            for row in &set.rows {
+                c.write_record(row.iter().map(|v| {
+                    let is_null = v.parse::<f64>().is_ok_and(|x| {
+                        null.is_some_and(|n| (x - n).abs() <= 1e-9 * n.abs().max(1.0))
+                    });
+                    if is_null { "" } else { v.as_str() }
+                }))
+                .map_err(io)?;
+            }
+            c.flush().map_err(|e| io(csv::Error::from(e)))
+        })?;
+        written.push(path);
+    }
+    Ok(written)
+}

@@ -39,7 +39,24 @@ pub struct FileSummary {
     pub index_reversed: bool,
     pub null_value: Option<f64>,
     pub curves: Vec<CurveSummary>,
+    /// LAS 3.0 data sets besides the log data: name, columns, rows.
+    pub data_sets: Vec<DataSetSummary>,
     pub warnings: Vec<Warning>,
+}
+
+/// A LAS 3.0 data set other than the log data, as `inspect` lists it.
+#[derive(Debug, Clone, Serialize)]
+pub struct DataSetSummary {
+    /// The data section's name as titled.
+    pub name: String,
+    /// Line of its title.
+    pub line: usize,
+    /// Its column mnemonics, in order.
+    pub columns: Vec<String>,
+    /// Its number of rows.
+    pub rows: usize,
+    /// Its number of parameters.
+    pub params: usize,
 }
 
 /// Summarise a file that was read.
@@ -82,6 +99,17 @@ pub fn summarise(file_name: &str, las: &LasFile) -> FileSummary {
         index_reversed: las.index_reversed,
         null_value: las.null_value,
         curves,
+        data_sets: las
+            .data_sets
+            .iter()
+            .map(|d| DataSetSummary {
+                name: d.name.clone(),
+                line: d.line,
+                columns: d.columns.iter().map(|c| c.mnemonic.clone()).collect(),
+                rows: d.rows.len(),
+                params: d.params.len(),
+            })
+            .collect(),
         warnings: las.warnings.clone(),
     }
 }
@@ -152,6 +180,24 @@ pub fn to_text(s: &FileSummary) -> String {
             range,
             c.description
         );
+    }
+    if !s.data_sets.is_empty() {
+        let _ = writeln!(
+            t,
+            "  other data sets ({}; `export` writes each as a table):",
+            s.data_sets.len()
+        );
+        for d in &s.data_sets {
+            let _ = writeln!(
+                t,
+                "    {} (line {}): {} rows, {} parameters, columns {}",
+                d.name,
+                d.line,
+                d.rows,
+                d.params,
+                d.columns.join(" ")
+            );
+        }
     }
     if s.warnings.is_empty() {
         let _ = writeln!(t, "  warnings: none");

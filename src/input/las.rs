@@ -27,6 +27,7 @@
 pub mod data;
 pub mod error;
 pub mod header;
+pub mod v3;
 
 use std::path::{Path, PathBuf};
 
@@ -42,6 +43,9 @@ pub enum Version {
     /// LAS 2.0.
     #[serde(rename = "2.0")]
     V2_0,
+    /// LAS 3.0 (CWLS 2000): data sets, delimiters, formats.
+    #[serde(rename = "3.0")]
+    V3_0,
 }
 
 /// One curve of ~C.
@@ -87,6 +91,9 @@ pub struct LasFile {
     pub index_reversed: bool,
     /// What the reader tolerated or patched, by line where it has one.
     pub warnings: Vec<Warning>,
+    /// LAS 3.0: the data sets other than the log data the curves come from
+    /// (core, tops, inclinometry, user-defined); empty for 1.2 and 2.0.
+    pub data_sets: Vec<v3::DataSet>,
 }
 
 /// A NULL value smaller in size than this is one real data can take, and is
@@ -228,8 +235,8 @@ pub fn read_path(path: &Path, options: ReadOptions) -> Result<LasFile, LasError>
 /// let las = read_bytes(text, "w.las".as_ref(), ReadOptions::default()).unwrap();
 /// assert_eq!(las.index(), &[1500.0, 1500.5]);
 /// assert!(las.curve_data("GR").unwrap()[1].is_nan()); // NULL is missing
-/// let err = read_bytes(b"~V\n VERS. 3.0 :\n", "x.las".as_ref(), ReadOptions::default()).unwrap_err();
-/// assert_eq!(flowzone::error::chain(&err), "x.las:2: LAS version `3.0` is not supported (this reader reads LAS 1.2 and 2.0; LAS 3.0 is not supported yet)");
+/// let err = read_bytes(b"~V\n VERS. 4.0 :\n", "x.las".as_ref(), ReadOptions::default()).unwrap_err();
+/// assert_eq!(flowzone::error::chain(&err), "x.las:2: LAS version `4.0` is not supported (this reader reads LAS 1.2, 2.0 and 3.x)");
 /// ```
 pub fn read_bytes(bytes: &[u8], name: &Path, options: ReadOptions) -> Result<LasFile, LasError> {
     Reader {
@@ -334,6 +341,9 @@ impl Reader<'_> {
             );
         }
         let bytes: &[u8] = &normalised;
+        if v3::declares_v3(bytes) {
+            return v3::read(&mut self, bytes);
+        }
         let mut head = self.scan_header(bytes)?;
         let (version, wrapped) = self.version_and_wrap(&head)?;
         if !head.seen[1] {
@@ -427,6 +437,7 @@ impl Reader<'_> {
             columns,
             index_reversed,
             warnings: Vec::new(),
+            data_sets: Vec::new(),
         };
         self.check_range(&file, parsed.scan.first_break.is_none())?;
         file.warnings = self.warnings;

@@ -288,6 +288,7 @@ pub fn new_file(
         null_value: Some(WRITE_NULL),
         columns,
         index_reversed: false,
+        data_sets: Vec::new(),
         warnings: Vec::new(),
     }
 }

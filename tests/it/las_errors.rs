@@ -38,10 +38,6 @@ const BAD: &[(&str, &str)] = &[
         "infinite-value.las:16: value 2 of the row, `inf`, is infinite",
     ),
     (
-        "las3.las",
-        "las3.las:3: LAS version `3.0` is not supported (this reader reads LAS 1.2 and 2.0; LAS 3.0 is not supported yet)",
-    ),
-    (
         "malformed-number.las",
         "malformed-number.las:18: value 3 of the row, `2.33.0`, is not a number",
     ),

@@ -20,6 +20,8 @@ mod field_run;
 mod fwl_demo;
 /// Hostile and huge input: limits, link loops, odd NULLs, NaN and infinity.
 mod hostile;
+/// LAS 3.0: the specification's example and the real 3.0 samples.
+mod las3;
 /// Malformed LAS files and the whole error text each must give.
 mod las_errors;
 /// Tiny hand-written LAS files, each testing one rule of the LAS 2.0 standard, plus CRLF twins.

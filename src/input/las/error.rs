@@ -79,9 +79,7 @@ pub enum LineError {
     #[error("~V line has no `.` after the mnemonic (expected `VERS.  2.0 : ...`)")]
     VersionLineNoDot,
     /// VERS names a version this reader does not read.
-    #[error(
-        "LAS version `{0}` is not supported (this reader reads LAS 1.2 and 2.0; LAS 3.0 is not supported yet)"
-    )]
+    #[error("LAS version `{0}` is not supported (this reader reads LAS 1.2, 2.0 and 3.x)")]
     UnsupportedVersion(String),
     /// WRAP is neither YES nor NO.
     #[error("WRAP is `{0}`, expected YES or NO")]
@@ -101,6 +99,9 @@ pub enum LineError {
     /// The header contradicts the data (an error only in strict mode).
     #[error("{0}")]
     Contradiction(String),
+    /// LAS 3.0 that flowzone does not read yet, with the spec's section.
+    #[error("{0}")]
+    Las3(String),
     /// A LAS 3.0 section name in a file that does not declare 3.0.
     #[error("section `{0}` is a LAS 3.0 data-set section; LAS 3.0 is not supported yet")]
     Las3Section(String),
@@ -137,6 +138,11 @@ pub enum FileError {
     /// The file holds only white space (after any UTF-8 byte-order mark).
     #[error("file is empty")]
     Empty,
+    /// A LAS 3.0 file without any data set.
+    #[error(
+        "LAS 3.0 file has {0}: no log data set (~Log_Data or ~ASCII) to read curves from ('~ASCII or ~Log_Data', p. 18)"
+    )]
+    Las3NoLog(String),
     /// The file starts with `LASF`: a LiDAR point cloud, not a well log.
     #[error("file is a binary LiDAR LAS file (`LASF` signature), not a well-log LAS file")]
     BinaryLidar,
