@@ -157,6 +157,15 @@ fn cut_or_damaged_las3_files_never_panic() {
     for end in 0..bytes.len() {
         let _ = flowzone::input::las::read_bytes(&bytes[..end], name, ReadOptions::default());
     }
+    // the same file as UTF-16 (found by the lasio examples: a byte-order
+    // check once sliced text inside a multi-byte character)
+    let utf16: Vec<u8> = String::from_utf8_lossy(&bytes)
+        .encode_utf16()
+        .flat_map(u16::to_le_bytes)
+        .collect();
+    for b in [&utf16[..], &utf16[1..]] {
+        let _ = flowzone::input::las::read_bytes(b, name, ReadOptions::default());
+    }
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(3);
     for _ in 0..300 {
         let mut b = bytes.clone();

@@ -28,6 +28,8 @@ mod las_errors;
 mod las_fixtures;
 /// las_rs, an independent Rust reader, agrees with ours on well-formed files.
 mod las_rs_oracle;
+/// lasio's own example files, read by both readers: the table of agreements.
+mod lasio_examples;
 /// Files flowzone writes read by lasio, and files lasio writes read by flowzone.
 mod lasio_interop;
 /// The real, openly licensed files in ../shared/las-samples, against lasio.

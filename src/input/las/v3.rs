@@ -51,7 +51,10 @@ pub(super) fn declares_v3(bytes: &[u8]) -> bool {
     for raw in bytes.split(|&b| b == b'\n').take(200) {
         let text = String::from_utf8_lossy(raw);
         let t = text.trim();
-        if t.len() >= 4 && t[..4].eq_ignore_ascii_case("VERS") {
+        if t.as_bytes()
+            .get(..4)
+            .is_some_and(|b| b.eq_ignore_ascii_case(b"VERS"))
+        {
             return split_header_line(t).is_some_and(|s| {
                 let v = s.value.trim_start();
                 v.starts_with('3') && v.parse::<f64>().is_ok_and(|x| (3.0..4.0).contains(&x))
