@@ -83,6 +83,10 @@ pub struct WellReport {
     pub counts: Counts,
     /// The class-aware saturation, when class-dependent exponents are set.
     pub class_exponents: Option<ClassExponentCounts>,
+    /// What the LAS reader repaired in the file, by kind, with counts (each
+    /// repair is also a warning with its line).
+    #[serde(default)]
+    pub las_repairs: std::collections::BTreeMap<String, usize>,
 }
 
 /// What the class-dependent exponents did in a well.
@@ -399,6 +403,7 @@ pub fn process_file(
         zones: setups,
         counts: out.counts,
         class_exponents: None,
+        las_repairs: file.repairs.clone(),
     };
     Ok(WellOutput {
         name,

@@ -41,6 +41,8 @@ pub struct FileSummary {
     pub curves: Vec<CurveSummary>,
     /// LAS 3.0 data sets besides the log data: name, columns, rows.
     pub data_sets: Vec<DataSetSummary>,
+    /// What the reader repaired, by kind, with counts.
+    pub repairs: std::collections::BTreeMap<String, usize>,
     pub warnings: Vec<Warning>,
 }
 
@@ -110,6 +112,7 @@ pub fn summarise(file_name: &str, las: &LasFile) -> FileSummary {
                 params: d.params.len(),
             })
             .collect(),
+        repairs: las.repairs.clone(),
         warnings: las.warnings.clone(),
     }
 }
@@ -198,6 +201,15 @@ pub fn to_text(s: &FileSummary) -> String {
                 d.columns.join(" ")
             );
         }
+    }
+    if !s.repairs.is_empty() {
+        let list: Vec<String> = s.repairs.iter().map(|(k, n)| format!("{k} {n}")).collect();
+        let _ = writeln!(
+            t,
+            "  repaired ({}; refused under --strict): {}",
+            s.repairs.values().sum::<usize>(),
+            list.join(", ")
+        );
     }
     if s.warnings.is_empty() {
         let _ = writeln!(t, "  warnings: none");

@@ -94,6 +94,9 @@ pub struct LasFile {
     /// LAS 3.0: the data sets other than the log data the curves come from
     /// (core, tops, inclinometry, user-defined); empty for 1.2 and 2.0.
     pub data_sets: Vec<v3::DataSet>,
+    /// What the reader repaired, by kind, with how many times (each also a
+    /// warning with its line; every repair is refused under `--strict`).
+    pub repairs: std::collections::BTreeMap<String, usize>,
 }
 
 /// A NULL value smaller in size than this is one real data can take, and is
@@ -243,6 +246,7 @@ pub fn read_bytes(bytes: &[u8], name: &Path, options: ReadOptions) -> Result<Las
         name,
         options,
         warnings: Vec::new(),
+        repairs: std::collections::BTreeMap::new(),
     }
     .read(bytes)
 }
@@ -277,6 +281,7 @@ struct Reader<'a> {
     name: &'a Path,
     options: ReadOptions,
     warnings: Vec<Warning>,
+    repairs: std::collections::BTreeMap<String, usize>,
 }
 
 impl Reader<'_> {
@@ -306,6 +311,27 @@ impl Reader<'_> {
         });
     }
 
+    /// A repair of a damaged file that is unambiguous (`kind` counts it,
+    /// `count` times): a warning with its line, or under `--strict` an error.
+    fn repair(
+        &mut self,
+        line: Option<usize>,
+        kind: &str,
+        count: usize,
+        message: String,
+    ) -> Result<(), LasError> {
+        if self.options.strict {
+            let message = format!("{message} (a repair; refused under --strict)");
+            return Err(match line {
+                Some(line) => self.line_err(line, LineError::Contradiction(message)),
+                None => self.file_err(FileError::Contradiction(message)),
+            });
+        }
+        *self.repairs.entry(kind.to_string()).or_default() += count;
+        self.warn(line, message);
+        Ok(())
+    }
+
     /// A header/data contradiction: a warning, or an error in strict mode.
     fn contradiction(&mut self, line: Option<usize>, message: String) -> Result<(), LasError> {
         if self.options.strict {
@@ -319,6 +345,16 @@ impl Reader<'_> {
     }
 
     fn read(mut self, bytes: &[u8]) -> Result<LasFile, LasError> {
+        let utf16 = utf16_as_utf8(bytes);
+        if let Some((_, which)) = &utf16 {
+            self.repair(
+                None,
+                "UTF-16 decoded",
+                1,
+                format!("the file is UTF-16 ({which}): decoded to text"),
+            )?;
+        }
+        let bytes: &[u8] = utf16.as_ref().map_or(bytes, |(b, _)| b.as_slice());
         let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
         if bytes.starts_with(b"LASF") {
             return Err(self.file_err(FileError::BinaryLidar));
@@ -385,15 +421,43 @@ impl Reader<'_> {
             );
         }
         let hint = rows_hint(&head.well_items, data_bytes.len(), curves.len(), wrapped);
-        let parsed = data::parse_data(
-            data_bytes,
-            data_line,
-            curves.len(),
-            wrapped,
-            null_value,
-            hint,
-        )
-        .map_err(|(line, e)| self.line_err(line, e))?;
+        let parse =
+            |b: &[u8]| data::parse_data(b, data_line, curves.len(), wrapped, null_value, hint);
+        let parsed = match parse(data_bytes) {
+            // a short last row (a file cut off while written): dropped, said so
+            Err((line, LineError::WrongColumnCount { expected, found }))
+                if !wrapped && found < expected =>
+            {
+                match last_line_start(data_bytes, line - data_line) {
+                    Some(cut) => {
+                        self.repair(
+                            Some(line),
+                            "short last row dropped",
+                            1,
+                            format!("the last row has {found} of {expected} values (the file was cut off): dropped"),
+                        )?;
+                        parse(&data_bytes[..cut]).map_err(|(l, e)| self.line_err(l, e))?
+                    }
+                    None => {
+                        return Err(
+                            self.line_err(line, LineError::WrongColumnCount { expected, found })
+                        );
+                    }
+                }
+            }
+            r => r.map_err(|(line, e)| self.line_err(line, e))?,
+        };
+        if let Some((line, text)) = &parsed.scan.first_null_spelling {
+            let n = parsed.scan.null_spellings;
+            self.repair(
+                Some(*line),
+                "null spellings read as missing",
+                n,
+                format!(
+                    "{n} value(s) written as a known null spelling (first `{text}`) read as missing"
+                ),
+            )?;
+        }
         if parsed.scan.blank_lines > 0 {
             self.warn(
                 None,
@@ -438,9 +502,11 @@ impl Reader<'_> {
             index_reversed,
             warnings: Vec::new(),
             data_sets: Vec::new(),
+            repairs: std::collections::BTreeMap::new(),
         };
         self.check_range(&file, parsed.scan.first_break.is_none())?;
         file.warnings = self.warnings;
+        file.repairs = self.repairs;
         Ok(file)
     }
 
@@ -585,8 +651,52 @@ impl Reader<'_> {
             Section::Unknown => {}
             Section::Curve => {
                 let clean = text.replace('\t', " ");
-                let (item, note) = header::parse_curve_line(&clean, line_no)
-                    .map_err(|e| self.line_err(line_no, e))?;
+                let (item, note) = match header::parse_curve_line(&clean, line_no) {
+                    // `.GR  .GAPI : ...` or `   .GAPI : ...`: the ~C line
+                    // count settles which column it is; named, and said so
+                    Err(LineError::EmptyMnemonic) => {
+                        let after = clean.trim_start().trim_start_matches('.');
+                        let named = header::parse_curve_line(after, line_no)
+                            .ok()
+                            .filter(|(i, _)| !i.unit.is_empty() || !i.description.is_empty())
+                            .filter(|(i, _)| {
+                                after
+                                    .find('.')
+                                    .is_some_and(|d| !after[..d].trim().is_empty())
+                                    && i.mnemonic.chars().all(|c| !c.is_whitespace())
+                            });
+                        match named {
+                            Some((item, note)) => {
+                                self.repair(
+                                    Some(line_no),
+                                    "leading dot stripped from a mnemonic",
+                                    1,
+                                    format!(
+                                        "curve mnemonic `.{}` read as `{}`",
+                                        item.mnemonic, item.mnemonic
+                                    ),
+                                )?;
+                                (item, note)
+                            }
+                            None => {
+                                let k = head.curve_items.len() + 1;
+                                let split = header::split_header_line(&clean).ok_or_else(|| {
+                                    self.line_err(line_no, LineError::CurveLineNoDot)
+                                })?;
+                                let mut item = header::to_item(&split, line_no);
+                                item.mnemonic = format!("UNKNOWN_{k}");
+                                self.repair(
+                                    Some(line_no),
+                                    "empty mnemonic named",
+                                    1,
+                                    format!("curve {k} has no mnemonic: named UNKNOWN_{k}"),
+                                )?;
+                                (item, split.note)
+                            }
+                        }
+                    }
+                    r => r.map_err(|e| self.line_err(line_no, e))?,
+                };
                 if note == header::SplitNote::UnitWithSpace {
                     self.warn(
                         Some(line_no),
@@ -631,29 +741,56 @@ impl Reader<'_> {
     }
 
     /// ~V: the version (1.2 or 2.0) and whether the data are wrapped.
-    fn version_and_wrap(&self, head: &HeaderScan) -> Result<(Version, bool), LasError> {
+    fn version_and_wrap(&mut self, head: &HeaderScan) -> Result<(Version, bool), LasError> {
         if !head.seen[0] {
             return Err(self.file_err(FileError::MissingSection('V')));
         }
         let vers = head
             .version_items
             .iter()
-            .find(|i| i.mnemonic.eq_ignore_ascii_case("VERS"))
-            .ok_or_else(|| self.file_err(FileError::MissingVersion))?;
-        let version = match vers.value.parse::<f64>() {
-            Ok(v) if (v - 1.2).abs() < 1e-9 => Version::V1_2,
-            Ok(v) if (v - 2.0).abs() < 1e-9 => Version::V2_0,
-            _ => {
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("VERS"));
+        let version = match vers.map(|v| (v, v.value.parse::<f64>())) {
+            Some((_, Ok(v))) if (v - 1.2).abs() < 1e-9 => Version::V1_2,
+            Some((_, Ok(v))) if (v - 2.0).abs() < 1e-9 => Version::V2_0,
+            // 2.1 and the like: no such version; the sections are 2.0's
+            Some((item, Ok(v))) if (2.0..3.0).contains(&v) => {
+                let (line, text) = (item.line, item.value.clone());
+                self.repair(
+                    Some(line),
+                    "2.x version read as 2.0",
+                    1,
+                    format!("VERS {text} is no CWLS version: read as LAS 2.0"),
+                )?;
+                Version::V2_0
+            }
+            Some((item, _)) => {
                 return Err(
-                    self.line_err(vers.line, LineError::UnsupportedVersion(vers.value.clone()))
+                    self.line_err(item.line, LineError::UnsupportedVersion(item.value.clone()))
                 );
+            }
+            None => {
+                self.repair(
+                    None,
+                    "missing VERS inferred",
+                    1,
+                    "~V has no VERS line: read as LAS 2.0".into(),
+                )?;
+                Version::V2_0
             }
         };
         let wrap = head
             .version_items
             .iter()
-            .find(|i| i.mnemonic.eq_ignore_ascii_case("WRAP"))
-            .ok_or_else(|| self.file_err(FileError::MissingWrap))?;
+            .find(|i| i.mnemonic.eq_ignore_ascii_case("WRAP"));
+        let Some(wrap) = wrap else {
+            self.repair(
+                None,
+                "missing WRAP inferred",
+                1,
+                "~V has no WRAP line: read as unwrapped (one line per depth step); a wrapped file then fails at its first row".into(),
+            )?;
+            return Ok((version, false));
+        };
         let wrapped = match wrap.value.to_ascii_uppercase().as_str() {
             "YES" => true,
             "NO" => false,
@@ -905,6 +1042,62 @@ impl Reader<'_> {
         }
         Ok(())
     }
+}
+
+/// A UTF-16 file as UTF-8 bytes, with how it was recognised: by its
+/// byte-order mark, or by zero bytes in every other place of its first 200
+/// bytes (LAS text is ASCII, whose UTF-16 form has a zero high byte).
+/// `None` for anything else.
+fn utf16_as_utf8(bytes: &[u8]) -> Option<(Vec<u8>, &'static str)> {
+    let (enc, which, body) = if let Some(b) = bytes.strip_prefix(b"\xFF\xFE") {
+        (encoding_rs::UTF_16LE, "little-endian, byte-order mark", b)
+    } else if let Some(b) = bytes.strip_prefix(b"\xFE\xFF") {
+        (encoding_rs::UTF_16BE, "big-endian, byte-order mark", b)
+    } else {
+        let head = &bytes[..bytes.len().min(200)];
+        let zeros = |parity: usize| {
+            head.iter()
+                .skip(parity)
+                .step_by(2)
+                .filter(|&&b| b == 0)
+                .count()
+        };
+        let half = head.len() / 2;
+        if half >= 8 && zeros(1) * 10 >= half * 9 && zeros(0) == 0 {
+            (
+                encoding_rs::UTF_16LE,
+                "little-endian, no byte-order mark",
+                bytes,
+            )
+        } else if half >= 8 && zeros(0) * 10 >= half * 9 && zeros(1) == 0 {
+            (
+                encoding_rs::UTF_16BE,
+                "big-endian, no byte-order mark",
+                bytes,
+            )
+        } else {
+            return None;
+        }
+    };
+    let (text, _) = enc.decode_without_bom_handling(body);
+    Some((text.into_owned().into_bytes(), which))
+}
+
+/// Where line `k` (0-based) of `bytes` starts, when it is the last line
+/// holding anything but white space; `None` otherwise.
+fn last_line_start(bytes: &[u8], k: usize) -> Option<usize> {
+    let mut start = 0;
+    for _ in 0..k {
+        start += bytes[start..].iter().position(|&b| b == b'\n')? + 1;
+    }
+    let end = bytes[start..]
+        .iter()
+        .position(|&b| b == b'\n')
+        .map_or(bytes.len(), |n| start + n);
+    bytes[end..]
+        .iter()
+        .all(u8::is_ascii_whitespace)
+        .then_some(start)
 }
 
 /// The file with every bare CR (one not followed by LF) turned into LF, so

@@ -289,6 +289,7 @@ pub fn new_file(
         columns,
         index_reversed: false,
         data_sets: Vec::new(),
+        repairs: std::collections::BTreeMap::new(),
         warnings: Vec::new(),
     }
 }

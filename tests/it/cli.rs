@@ -149,7 +149,7 @@ fn run_isolates_a_bad_well() {
         std::fs::copy(root().join(from), wells.path().join(to)).expect("copy")
     };
     copy("demo-wells/tarnby-1.las", "a.las");
-    copy("tests/data/las-bad/truncated-row.las", "b.las");
+    copy("tests/data/las-bad/malformed-number.las", "b.las");
     copy("demo-wells/tarnby-4.las", "c.las");
     copy("tests/data/las/header-traps.las", "d.las");
     let cfg = wells.path().join("project.toml");
@@ -191,7 +191,7 @@ fn run_isolates_a_bad_well() {
         w[1]["error"]
             .as_str()
             .expect("error")
-            .ends_with("b.las:18: row has 2 values, ~C declares 3 curves")
+            .ends_with("b.las:18: value 3 of the row, `2.33.0`, is not a number")
     );
     assert!(
         w[3]["error"].as_str().expect("error").ends_with(

@@ -44,7 +44,6 @@ const BAD: &[(&str, &str)] = &[
     ("missing-a.las", "missing-a.las: no ~A section"),
     ("missing-c.las", "missing-c.las: no ~C section"),
     ("missing-v.las", "missing-v.las: no ~V section"),
-    ("missing-vers.las", "missing-vers.las: ~V has no VERS line"),
     ("no-rows.las", "no-rows.las: ~A holds no data rows"),
     (
         "non-utf8-in-data.las",
@@ -57,10 +56,6 @@ const BAD: &[(&str, &str)] = &[
     (
         "text-in-column.las",
         "text-in-column.las:17: value 2 of the row, `abc`, is not a number",
-    ),
-    (
-        "truncated-row.las",
-        "truncated-row.las:18: row has 2 values, ~C declares 3 curves",
     ),
     (
         "wrapped-truncated.las",
@@ -173,4 +168,106 @@ fn contradictions_warn_and_strict_mode_refuses() {
             );
         }
     }
+}
+
+/// Damaged files with one unambiguous repair each (tests/data/las-repair):
+/// the repair counted by kind, its warning, the values read (off each
+/// fixture's text by hand), and under `--strict` a refusal at the same
+/// place saying it is a repair.
+const REPAIRED: &[(&str, &str, &str)] = &[
+    (
+        "empty-and-dotted-mnemonics.las",
+        "empty mnemonic named",
+        "line 13: curve 2 has no mnemonic: named UNKNOWN_2",
+    ),
+    (
+        "missing-vers.las",
+        "missing VERS inferred",
+        "~V has no VERS line: read as LAS 2.0",
+    ),
+    (
+        "missing-wrap.las",
+        "missing WRAP inferred",
+        "~V has no WRAP line: read as unwrapped (one line per depth step); a wrapped file then fails at its first row",
+    ),
+    (
+        "null-spellings.las",
+        "null spellings read as missing",
+        "line 16: 4 value(s) written as a known null spelling (first `-1.#IND0000`) read as missing",
+    ),
+    (
+        "truncated-row.las",
+        "short last row dropped",
+        "line 18: the last row has 2 of 3 values (the file was cut off): dropped",
+    ),
+    (
+        "utf16le-bom.las",
+        "UTF-16 decoded",
+        "the file is UTF-16 (little-endian, byte-order mark): decoded to text",
+    ),
+    (
+        "vers-2.1.las",
+        "2.x version read as 2.0",
+        "line 3: VERS 2.1 is no CWLS version: read as LAS 2.0",
+    ),
+];
+
+#[test]
+fn damaged_files_are_repaired_counted_and_refused_when_strict() {
+    let names = corpus("las-repair");
+    assert_eq!(
+        names.len(),
+        REPAIRED.len(),
+        "each repair file needs an expectation"
+    );
+    for (name, kind, warning) in REPAIRED {
+        let bytes = std::fs::read(root().join("tests/data/las-repair").join(name)).expect("read");
+        let f = read_bytes(&bytes, Path::new(name), ReadOptions::default())
+            .unwrap_or_else(|e| panic!("{name}: {}", chain(&e)));
+        assert!(f.repairs.contains_key(*kind), "{name}: {:?}", f.repairs);
+        let got: Vec<String> = f.warnings.iter().map(ToString::to_string).collect();
+        assert_eq!(got[0], *warning, "{name}");
+        let err = read_bytes(
+            &bytes,
+            Path::new(name),
+            ReadOptions {
+                strict: true,
+                ..ReadOptions::default()
+            },
+        )
+        .expect_err("strict refuses a repair");
+        let text = chain(&err);
+        let message = warning
+            .split_once(": ")
+            .filter(|(l, _)| l.starts_with("line "))
+            .map_or(*warning, |(_, m)| m);
+        assert!(
+            text.ends_with(&format!("{message} (a repair; refused under --strict)")),
+            "{name}: {text}"
+        );
+    }
+    let read = |name: &str| {
+        let bytes = std::fs::read(root().join("tests/data/las-repair").join(name)).expect("read");
+        read_bytes(&bytes, Path::new(name), ReadOptions::default()).expect("repaired")
+    };
+    let nan = f64::NAN;
+    let same = |a: &[f64], b: &[f64]| {
+        a.len() == b.len()
+            && a.iter()
+                .zip(b)
+                .all(|(x, y)| (x.is_nan() && y.is_nan()) || x == y)
+    };
+    let f = read("null-spellings.las");
+    assert!(same(f.curve_data("GR").expect("GR"), &[nan, 88.1, nan]));
+    assert!(same(f.curve_data("RHOB").expect("RHOB"), &[2.35, nan, nan]));
+    assert_eq!(f.repairs["null spellings read as missing"], 4);
+    let f = read("empty-and-dotted-mnemonics.las");
+    let names: Vec<&str> = f.curves.iter().map(|c| c.mnemonic.as_str()).collect();
+    assert_eq!(names, ["DEPT", "UNKNOWN_2", "RHOB"]);
+    assert_eq!(f.curve_data("RHOB").expect("RHOB"), [2.35, 2.34, 2.33]);
+    assert_eq!(
+        read("utf16le-bom.las").curve_data("GR").expect("GR"),
+        [35.2, 88.1, 41.7]
+    );
+    assert_eq!(read("truncated-row.las").index(), [1500.0, 1500.5]);
 }

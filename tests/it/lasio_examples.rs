@@ -111,9 +111,13 @@ fn lasio_examples_read_alike_or_the_refusal_is_recorded() {
     // (its 3.0 support reads ~ASCII-style logs only; checked by hand on
     // each file, whose data sections are named ~Phase_*_Data or
     // ~Drilling_Data).
+    // One more, judged by hand: lasio's default null policy reads the C
+    // runtime's NaN printout `-1.#IND0000` as -1, which is no measurement;
+    // flowzone reads it as missing and counts the repair.
+    let judged = ["tests/examples/null_policy_ind.las"];
     for (n, w) in &differ {
         assert!(
-            w.starts_with("LAS V3_0") && w.ends_with("lasio 0"),
+            (w.starts_with("LAS V3_0") && w.ends_with("lasio 0")) || judged.contains(&n.as_str()),
             "{n}: {w}"
         );
     }
@@ -121,6 +125,6 @@ fn lasio_examples_read_alike_or_the_refusal_is_recorded() {
     for (n, w) in only_lasio.iter().chain(&neither) {
         assert!(w.contains("lasio-examples/"), "{n}: {w}");
     }
-    // Measured 2026-12-04: 84 files read alike; fewer is a regression.
-    assert!(both_equal.len() >= 84, "{}", both_equal.len());
+    // Measured 2026-12-04: 94 files read alike; fewer is a regression.
+    assert!(both_equal.len() >= 94, "{}", both_equal.len());
 }

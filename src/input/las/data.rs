@@ -28,6 +28,37 @@ pub struct IndexScan {
     pub blank_lines: usize,
     /// Number of `#` comment lines skipped inside ~A.
     pub comment_lines: usize,
+    /// Values written as a known null spelling (`-1.#IND`, `ERR`, `(null)`,
+    /// a lone `-`...) and read as missing ([`null_spelling_len`]).
+    pub null_spellings: usize,
+    /// Line of the first of them, with its text.
+    pub first_null_spelling: Option<(usize, String)>,
+}
+
+/// Spellings of "no value" that real files and other programs write in data
+/// (a C runtime's printout of NaN and infinity, a spreadsheet's error, a
+/// dash): the length of the token at `pos` when it is one. Case does not
+/// matter; the `#IND`, `#INF` and `#QNAN` forms may carry trailing digits.
+pub fn null_spelling_len(bytes: &[u8], pos: usize) -> Option<usize> {
+    let end = bytes[pos..]
+        .iter()
+        .position(|&b| is_space(b) || b == b'\n')
+        .map_or(bytes.len(), |n| pos + n);
+    let token = &bytes[pos..end];
+    let upper: Vec<u8> = token.to_ascii_uppercase();
+    let exact: [&[u8]; 5] = [b"ERR", b"(NULL)", b"-", b"--", b"NULL"];
+    if exact.contains(&upper.as_slice()) {
+        return Some(token.len());
+    }
+    let body = upper.strip_prefix(b"-").unwrap_or(&upper);
+    for stem in [&b"1.#IND"[..], b"1.#INF", b"1.#QNAN", b"1.#SNAN"] {
+        if let Some(rest) = body.strip_prefix(stem) {
+            if rest.iter().all(u8::is_ascii_digit) {
+                return Some(token.len());
+            }
+        }
+    }
+    None
 }
 
 /// The parsed ~A section.
@@ -112,6 +143,15 @@ pub fn parse_data(
                         || bytes[pos + used] == b'\n' =>
                 {
                     (v, used)
+                }
+                // a known spelling of "no value": missing, counted
+                _ if null_spelling_len(bytes, pos).is_some() => {
+                    let used = null_spelling_len(bytes, pos).unwrap_or(1);
+                    scan.null_spellings += 1;
+                    if scan.first_null_spelling.is_none() {
+                        scan.first_null_spelling = Some((line, token_text(bytes, pos)));
+                    }
+                    (f64::NAN, used)
                 }
                 // a token that does not parse, or parses only in part (`1.5.2`, `2x`)
                 Ok((_, used)) => return Err((line, token_error(bytes, pos, pos + used, column))),

@@ -594,9 +594,11 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
         index_reversed,
         warnings: Vec::new(),
         data_sets,
+        repairs: std::collections::BTreeMap::new(),
     };
     r.check_range(&file, break_at.is_none())?;
     file.warnings = std::mem::take(&mut r.warnings);
+    file.repairs = std::mem::take(&mut r.repairs);
     Ok(file)
 }
 
