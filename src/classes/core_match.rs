@@ -23,19 +23,21 @@ use crate::output::{OutputError, Table};
 /// Read the core file of `[core]` in the project's depth unit.
 pub fn load(config: &Config, core: &CoreConfig) -> Result<CoreData, CoreError> {
     let path = config.resolve_path(&core.file);
-    let is_csv = match core.format {
-        CoreFormat::Csv => true,
-        CoreFormat::Spwla => false,
-        CoreFormat::Auto => path
-            .extension()
-            .and_then(|e| e.to_str())
-            .is_some_and(|e| e.eq_ignore_ascii_case("csv")),
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .map(str::to_ascii_lowercase);
+    let format = match (core.format, ext.as_deref()) {
+        (CoreFormat::Auto, Some("csv")) => CoreFormat::Csv,
+        (CoreFormat::Auto, Some("las")) => CoreFormat::Las3,
+        (CoreFormat::Auto, _) => CoreFormat::Spwla,
+        (f, _) => f,
     };
-    if is_csv {
-        core_samples::read_core_csv(&path, config.project.depth_unit)
-    } else {
-        core_samples::read_spwla(&path, core.spwla_depth_unit, config.project.depth_unit)
-            .map(|(d, _)| d)
+    match format {
+        CoreFormat::Csv => core_samples::read_core_csv(&path, config.project.depth_unit),
+        CoreFormat::Las3 => core_samples::read_core_las3(&path, config.project.depth_unit),
+        _ => core_samples::read_spwla(&path, core.spwla_depth_unit, config.project.depth_unit)
+            .map(|(d, _)| d),
     }
 }
 

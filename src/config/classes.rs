@@ -50,13 +50,17 @@ fn default_shift_min_gain() -> f64 {
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, Default)]
 #[serde(rename_all = "kebab-case")]
 pub enum CoreFormat {
-    /// `auto` (the default): CSV for a `.csv` file, SPWLA otherwise.
+    /// `auto` (the default): CSV for a `.csv` file, LAS 3.0 for a `.las`
+    /// file, SPWLA otherwise.
     #[default]
     Auto,
     /// `csv`: a CSV with WELL, DEPTH_MD, POROSITY..., PERM_MD columns.
     Csv,
     /// `spwla`: an SPWLA core-data file.
     Spwla,
+    /// `las3`: the core data set of a LAS 3.0 file, its columns named as the
+    /// core CSV's (DEPTH_MD or DEPT, POROSITY..., PERM_MD...).
+    Las3,
 }
 
 /// `[classes]`: the schemes that turn core into hydraulic classes.

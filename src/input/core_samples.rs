@@ -163,6 +163,102 @@ fn grain_density(g: Option<f64>) -> Result<Option<f64>, SampleProblem> {
 /// Read a core CSV into the project's depth unit.
 pub fn read_core_csv(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreError> {
     let rows: Vec<(u64, CoreRow)> = read_csv(path)?;
+    from_rows(path, rows, depth)
+}
+
+/// Read the core data set of a LAS 3.0 file (a data set named `Core...`
+/// with a depth and a PERM_MD column; CWLS LAS 3.0, 'Sections', p. 9) into
+/// the project's depth unit. Its columns carry the core CSV's names
+/// (DEPTH_MD, or DEPT/DEPTH/MD; POROSITY, POROSITY_FRAC or POROSITY_PCT;
+/// PERM_MD; optional GRAIN_DENSITY_GCC, SAMPLE_TYPE, WELL); the depth unit
+/// is the depth column's, and the well the file's WELL unless a WELL column
+/// gives it. Rows are checked as the CSV's are, by line.
+pub fn read_core_las3(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreError> {
+    let fmt = |message: String| CoreError::Format {
+        path: path.to_path_buf(),
+        message,
+    };
+    let las = crate::input::las::read_path(path, crate::input::las::ReadOptions::default())
+        .map_err(|e| fmt(crate::output::messages::chain(&e)))?;
+    let find = |set: &crate::input::las::v3::DataSet, names: &[&str]| {
+        set.columns
+            .iter()
+            .position(|c| names.iter().any(|n| c.mnemonic.eq_ignore_ascii_case(n)))
+    };
+    let set = las
+        .data_sets
+        .iter()
+        .find(|s| {
+            s.name.to_ascii_uppercase().starts_with("CORE")
+                && find(s, &["DEPTH_MD", "DEPT", "DEPTH", "MD"]).is_some()
+                && find(s, &["PERM_MD"]).is_some()
+        })
+        .ok_or_else(|| {
+            let names: Vec<&str> = las.data_sets.iter().map(|s| s.name.as_str()).collect();
+            fmt(format!(
+                "no LAS 3.0 core data set with a depth (DEPTH_MD, DEPT, DEPTH or MD) and a PERM_MD column; data sets: {}",
+                if names.is_empty() { "none".to_string() } else { names.join(", ") }
+            ))
+        })?;
+    let at = |names: &[&str]| find(set, names);
+    let depth_col = at(&["DEPTH_MD", "DEPT", "DEPTH", "MD"]).unwrap_or(0);
+    let unit = set.columns[depth_col].unit.clone();
+    let well = las.well_name().unwrap_or("").to_string();
+    let num = |row: &[String], c: Option<usize>| -> Result<Option<f64>, String> {
+        match c.map(|c| row[c].trim()) {
+            None | Some("") => Ok(None),
+            Some(t) => t
+                .parse::<f64>()
+                .map(Some)
+                .map_err(|_| format!("`{t}` is not a number")),
+        }
+    };
+    let cols = (
+        at(&["POROSITY"]),
+        at(&["POROSITY_FRAC"]),
+        at(&["POROSITY_PCT"]),
+        at(&["PERM_MD"]),
+        at(&["GRAIN_DENSITY_GCC"]),
+        at(&["SAMPLE_TYPE"]),
+        at(&["WELL"]),
+    );
+    let mut rows = Vec::new();
+    let mut rejected = Vec::new();
+    for (row, &line) in set.rows.iter().zip(&set.row_lines) {
+        let parsed = (|| -> Result<CoreRow, String> {
+            Ok(CoreRow {
+                well: cols.6.map_or_else(|| well.clone(), |c| row[c].clone()),
+                depth: num(row, Some(depth_col))?.unwrap_or(f64::NAN),
+                depth_unit: (!unit.is_empty()).then(|| unit.clone()),
+                porosity: num(row, cols.0)?,
+                porosity_frac: num(row, cols.1)?,
+                porosity_pct: num(row, cols.2)?,
+                perm_md: num(row, cols.3)?.unwrap_or(f64::NAN),
+                grain_density: num(row, cols.4)?,
+                sample_type: cols.5.map(|c| row[c].clone()),
+            })
+        })();
+        match parsed {
+            Ok(r) => rows.push((line as u64, r)),
+            Err(reason) => rejected.push(Rejected {
+                line: line as u64,
+                reason,
+            }),
+        }
+    }
+    let mut data = from_rows(path, rows, depth)?;
+    data.rejected.extend(rejected);
+    data.rejected.sort_by_key(|r| r.line);
+    Ok(data)
+}
+
+/// Core samples from parsed rows (line, row): porosity unit settled once
+/// for the file, every row checked, bad rows left out with their line.
+fn from_rows(
+    path: &Path,
+    rows: Vec<(u64, CoreRow)>,
+    depth: DepthUnit,
+) -> Result<CoreData, CoreError> {
     // a POROSITY column without a unit: percent when any value is above 1
     let plain: Vec<f64> = rows
         .iter()

@@ -185,3 +185,30 @@ fn cut_or_damaged_las3_files_never_panic() {
         }
     }
 }
+
+/// A LAS 3.0 core data set as the `[core]` input (invented file): depths
+/// in feet converted to metres (6000.25 ft = 1828.8762 m), porosity in
+/// percent to v/v, the well from ~W, and a plug with zero permeability
+/// left out with its line (as the core CSV's rule does).
+#[test]
+fn las3_core_data_set_reads_as_core_samples() {
+    use flowzone::units::DepthUnit;
+    let path = crate::common::root().join("tests/data/core/invented-core-las3.las");
+    let core = flowzone::input::core_samples::read_core_las3(&path, DepthUnit::Metre)
+        .unwrap_or_else(|e| panic!("{}", chain(&e)));
+    assert_eq!(core.samples.len(), 2, "{:?}", core.rejected);
+    let s = &core.samples[0];
+    assert_eq!(s.well, "Ossel-9");
+    assert!((s.depth - 6000.25 * 0.3048).abs() < 1e-9, "{}", s.depth);
+    assert!((s.porosity - 0.215).abs() < 1e-12);
+    assert_eq!(s.perm_md, 350.0);
+    assert_eq!(s.sample_type.as_deref(), Some("plug, horizontal"));
+    assert_eq!(core.samples[1].line, 27);
+    assert_eq!(core.rejected.len(), 1);
+    assert_eq!(core.rejected[0].line, 26);
+    assert!(
+        core.rejected[0].reason.contains("not above 0"),
+        "{:?}",
+        core.rejected
+    );
+}

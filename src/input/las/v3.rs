@@ -43,6 +43,8 @@ pub struct DataSet {
     pub columns: Vec<CurveInfo>,
     /// The rows, one text item per column; a NULL item is empty.
     pub rows: Vec<Vec<String>>,
+    /// The 1-based file line of each row.
+    pub row_lines: Vec<usize>,
 }
 
 /// Whether the file declares LAS 3.x: the first `VERS` line, before any
@@ -442,6 +444,7 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
                     .map(items)
                     .unwrap_or_default();
                 let mut rows = Vec::with_capacity(s.lines.len());
+                let mut row_lines = Vec::with_capacity(s.lines.len());
                 for (n, t) in &s.lines {
                     let row = split_row(t, dlm).ok_or_else(|| {
                         r.line_err(
@@ -461,6 +464,7 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
                         ));
                     }
                     rows.push(row);
+                    row_lines.push(*n);
                 }
                 sets.push((
                     DataSet {
@@ -469,6 +473,7 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
                         params,
                         columns,
                         rows,
+                        row_lines,
                     },
                     formats,
                 ));
