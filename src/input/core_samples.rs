@@ -78,6 +78,9 @@ pub enum CoreError {
         #[source]
         source: std::io::Error,
     },
+    /// A LAS 3.0 core file cannot be read as LAS.
+    #[error(transparent)]
+    Las(#[from] crate::input::las::LasError),
     /// The SPWLA file has no record 15, or a record 15 without a count or cut short.
     #[error("{}: {message}", .path.display())]
     Format {
@@ -178,8 +181,7 @@ pub fn read_core_las3(path: &Path, depth: DepthUnit) -> Result<CoreData, CoreErr
         path: path.to_path_buf(),
         message,
     };
-    let las = crate::input::las::read_path(path, crate::input::las::ReadOptions::default())
-        .map_err(|e| fmt(crate::output::messages::chain(&e)))?;
+    let las = crate::input::las::read_path(path, crate::input::las::ReadOptions::default())?;
     let find = |set: &crate::input::las::v3::DataSet, names: &[&str]| {
         set.columns
             .iter()
