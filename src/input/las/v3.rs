@@ -284,9 +284,21 @@ fn unsupported(message: impl Into<String>) -> LineError {
     LineError::Las3(message.into())
 }
 
-/// Read a LAS 3.0 file (already known to declare 3.x).
-pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError> {
-    // lines, decoded as UTF-8 or else Windows-1252 ('Appendix IV', p. 42)
+/// A data set with the format of each of its columns.
+type SetWithFormats = (DataSet, Vec<Option<String>>);
+
+/// A section's parameter lines as items (format and associations kept in
+/// the description).
+fn section_items(s: &Section) -> Vec<HeaderItem> {
+    s.lines
+        .iter()
+        .filter_map(|(n, t)| header_item(t, *n).map(|(i, _)| i))
+        .collect()
+}
+
+/// The file's sections with their lines, decoded as UTF-8 or else
+/// Windows-1252 ('Appendix IV', p. 42); blank and `#` lines left out.
+fn sections_of(r: &Reader<'_>, bytes: &[u8]) -> Result<Vec<Section>, LasError> {
     let mut sections: Vec<Section> = Vec::new();
     for (k, raw) in bytes.split(|&b| b == b'\n').enumerate() {
         let line_no = k + 1;
@@ -313,19 +325,20 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
             }
         }
     }
+    Ok(sections)
+}
 
-    // ~Version: VERS, WRAP, DLM
-    let items = |s: &Section| -> Vec<HeaderItem> {
-        s.lines
-            .iter()
-            .filter_map(|(n, t)| header_item(t, *n).map(|(i, _)| i))
-            .collect()
-    };
+/// ~Version's items and the row delimiter; WRAP YES and an unknown DLM are
+/// refused with their line.
+fn version_settings(
+    r: &Reader<'_>,
+    sections: &[Section],
+) -> Result<(Vec<HeaderItem>, Dlm), LasError> {
     let version_sec = sections
         .iter()
         .find(|s| s.kind == Kind::Version)
         .ok_or_else(|| r.file_err(super::FileError::MissingSection('V')))?;
-    let version_items = items(version_sec);
+    let version_items = section_items(version_sec);
     let find = |v: &[HeaderItem], m: &str| {
         v.iter()
             .find(|i| i.mnemonic.eq_ignore_ascii_case(m))
@@ -358,13 +371,17 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
             }
         },
     };
-    let well_sec = sections
-        .iter()
-        .find(|s| s.kind == Kind::Well)
-        .ok_or_else(|| r.file_err(super::FileError::MissingSection('W')))?;
-    let well_items = items(well_sec);
-    let null_value = r.null_value(&well_items)?;
+    Ok((version_items, dlm))
+}
 
+/// Every data section with its definition (the one its bar names, else the
+/// nearest of its set above) and parameters; sections that are no data set
+/// kept as text, with a warning.
+fn data_sets(
+    r: &mut Reader<'_>,
+    sections: &[Section],
+    dlm: Dlm,
+) -> Result<(Vec<SetWithFormats>, String), LasError> {
     // a section a data title names after its bar is a definition, whatever its name
     let targets: Vec<String> = sections
         .iter()
@@ -372,9 +389,9 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
         .collect();
     let is_target = |s: &Section| targets.contains(&s.name.to_ascii_uppercase());
     // data sets: each data section with its definition and parameters
-    let mut sets: Vec<(DataSet, Vec<Option<String>>)> = Vec::new();
+    let mut sets: Vec<SetWithFormats> = Vec::new();
     let mut other = String::new();
-    for s in &sections {
+    for s in sections {
         match s.kind {
             Kind::Other if is_target(s) => {}
             Kind::Other => {
@@ -441,7 +458,7 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
                     return Err(r.file_err(super::FileError::NoCurves));
                 }
                 let params = nearest(Kind::Parameter, &s.set, true)
-                    .map(items)
+                    .map(section_items)
                     .unwrap_or_default();
                 let mut rows = Vec::with_capacity(s.lines.len());
                 let mut row_lines = Vec::with_capacity(s.lines.len());
@@ -481,45 +498,22 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
             _ => {}
         }
     }
-    let data_secs: Vec<&Section> = sections.iter().filter(|s| s.kind == Kind::Data).collect();
-    let log_at = match data_secs.iter().position(|s| s.set.0 == "LOG") {
-        Some(i) => i,
-        // no log set: the first data set gives the curves, said in a warning
-        None if !sets.is_empty() => {
-            let first = &sets[0].0;
-            let message = format!(
-                "no log data set (~Log_Data or ~ASCII): the first data set, `{}`, is read as the curves",
-                first.name
-            );
-            r.contradiction(Some(first.line), message)?;
-            0
-        }
-        None => {
-            return Err(r.file_err(super::FileError::Las3NoLog("no data section at all".into())));
-        }
-    };
-    let (log, formats) = sets.remove(log_at);
-    let log_params: Vec<HeaderItem> = log.params.clone();
+    Ok((sets, other))
+}
 
+/// The log data set's columns as numbers: empty items and NULL missing, a
+/// text column (its format or its items) missing with a warning; a row
+/// without an index value refused with its line. Whether any column held text.
+fn log_columns(
+    r: &mut Reader<'_>,
+    log: &DataSet,
+    formats: &[Option<String>],
+    curves: &[CurveInfo],
+    null_value: Option<f64>,
+) -> Result<(Vec<Vec<f64>>, bool), LasError> {
     // the log data set as curves: numbers, NULL and empty items missing
     let null_tol = null_value.map(|v| 1e-9 * v.abs().max(1.0));
     let is_null = |v: f64| null_tol.is_some_and(|t| (v - null_value.unwrap_or(0.0)).abs() <= t);
-    let curves = r.unique_curves(
-        log.columns
-            .iter()
-            .map(|c| HeaderItem {
-                mnemonic: c.original_mnemonic.clone(),
-                unit: c.unit.clone(),
-                value: c.api_code.clone(),
-                description: c.description.clone(),
-                line: c.line,
-            })
-            .collect(),
-    );
-    let data_lines: Vec<usize> = data_secs
-        .get(log_at)
-        .map(|s| s.lines.iter().map(|(n, _)| *n).collect())
-        .unwrap_or_default();
     let mut columns = vec![Vec::with_capacity(log.rows.len()); curves.len()];
     let mut text_columns = Vec::new();
     for (j, col) in columns.iter_mut().enumerate() {
@@ -543,7 +537,7 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
             };
             if j == 0 && v.is_nan() {
                 return Err(r.line_err(
-                    data_lines.get(k).copied().unwrap_or(0),
+                    log.row_lines.get(k).copied().unwrap_or(0),
                     LineError::MissingIndex {
                         text: item.to_string(),
                     },
@@ -562,6 +556,53 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
             ),
         );
     }
+    Ok((columns, has_text))
+}
+
+/// Read a LAS 3.0 file (already known to declare 3.x).
+pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError> {
+    let sections = sections_of(r, bytes)?;
+    let (version_items, dlm) = version_settings(r, &sections)?;
+    let well_sec = sections
+        .iter()
+        .find(|s| s.kind == Kind::Well)
+        .ok_or_else(|| r.file_err(super::FileError::MissingSection('W')))?;
+    let well_items = section_items(well_sec);
+    let null_value = r.null_value(&well_items)?;
+    let (mut sets, other) = data_sets(r, &sections, dlm)?;
+    let data_secs: Vec<&Section> = sections.iter().filter(|s| s.kind == Kind::Data).collect();
+    let log_at = match data_secs.iter().position(|s| s.set.0 == "LOG") {
+        Some(i) => i,
+        // no log set: the first data set gives the curves, said in a warning
+        None if !sets.is_empty() => {
+            let first = &sets[0].0;
+            let message = format!(
+                "no log data set (~Log_Data or ~ASCII): the first data set, `{}`, is read as the curves",
+                first.name
+            );
+            r.contradiction(Some(first.line), message)?;
+            0
+        }
+        None => {
+            return Err(r.file_err(super::FileError::Las3NoLog("no data section at all".into())));
+        }
+    };
+    let (log, formats) = sets.remove(log_at);
+    let log_params: Vec<HeaderItem> = log.params.clone();
+
+    let curves = r.unique_curves(
+        log.columns
+            .iter()
+            .map(|c| HeaderItem {
+                mnemonic: c.original_mnemonic.clone(),
+                unit: c.unit.clone(),
+                value: c.api_code.clone(),
+                description: c.description.clone(),
+                line: c.line,
+            })
+            .collect(),
+    );
+    let (mut columns, has_text) = log_columns(r, &log, &formats, &curves, null_value)?;
     if columns[0].is_empty() {
         return Err(r.file_err(super::FileError::NoRows));
     }
@@ -572,7 +613,7 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
     if let Some(k) = break_at {
         let (prev, value) = (columns[0][k], columns[0][k + 1]);
         r.contradiction(
-            data_lines.get(k + 1).copied(),
+            log.row_lines.get(k + 1).copied(),
             format!("index is not monotonic: {value} follows {prev}"),
         )?;
     } else if columns[0].len() > 1 && columns[0][0] > columns[0][columns[0].len() - 1] {
