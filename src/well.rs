@@ -699,21 +699,16 @@ impl WellOutput {
             .into_iter()
             .map(|(_, t)| t)
             .collect();
-        let col = |c: Col| self.table.get(c).unwrap_or(&nan);
-        let sw_fixed = self.table.get(Col::SwFixed).unwrap_or_else(|| col(Col::Sw));
+        let sw_fixed = self
+            .table
+            .get(Col::SwFixed)
+            .or_else(|| self.table.get(Col::Sw))
+            .unwrap_or(&nan);
         let mut out = vec![f64::NAN; n * k];
         let mut scratch = vec![0u32; n];
         for c in 1..=classes {
             let class = vec![f64::from(c); n];
-            let inputs = chain::ClassSwInputs {
-                zone_of: &self.zone_of,
-                rw: &self.rw,
-                rt: col(Col::Input(LogicalCurve::DeepResistivity)),
-                vsh: col(Col::Vsh),
-                phie: col(Col::Phie),
-                sw_fixed,
-                class: &class,
-            };
+            let inputs = class_sw_inputs(self, &self.table, &nan, sw_fixed, &class);
             let sw =
                 chain::saturation_by_class(&inputs, &self.report.zones, &archie, &mut scratch).sw;
             for (i, v) in sw.into_iter().enumerate() {
@@ -737,21 +732,17 @@ impl WellOutput {
         let nan = vec![f64::NAN; n];
         let by_zone = self.class_archie_by_zone(params, max_class);
         let archie: Vec<Vec<ArchieParams>> = by_zone.iter().map(|(_, t)| t.clone()).collect();
-        let table = &mut self.table;
-        let mut flag: Vec<u32> = table
+        let mut flag: Vec<u32> = self
+            .table
             .get(Col::Flag)
             .map_or_else(|| vec![0; n], |f| f.iter().map(|&v| v as u32).collect());
-        let col = |c: Col| table.get(c).unwrap_or(&nan);
-        let inputs = chain::ClassSwInputs {
-            zone_of: &self.zone_of,
-            rw: &self.rw,
-            rt: col(Col::Input(LogicalCurve::DeepResistivity)),
-            vsh: col(Col::Vsh),
-            phie: col(Col::Phie),
-            sw_fixed: col(Col::Sw),
-            class: col(Col::Class),
-        };
+        let (sw, class) = (
+            self.table.get(Col::Sw).unwrap_or(&nan),
+            self.table.get(Col::Class).unwrap_or(&nan),
+        );
+        let inputs = class_sw_inputs(self, &self.table, &nan, sw, class);
         let result = chain::saturation_by_class(&inputs, &self.report.zones, &archie, &mut flag);
+        let table = &mut self.table;
         let sw_fixed = table.get(Col::Sw).map(<[f64]>::to_vec).unwrap_or_default();
         if let Some(c) = table.column_mut(Col::Sw) {
             c.values = result.sw;
@@ -776,6 +767,28 @@ impl WellOutput {
             clipped: result.clipped,
             by_zone,
         });
+    }
+}
+
+/// What the class-aware saturation reads of a well: its zones and Rw, and
+/// RT, VSH and PHIE from `table` (`nan` where one is missing), with the SW to
+/// start from and the class at each depth.
+fn class_sw_inputs<'a>(
+    w: &'a WellOutput,
+    table: &'a Table,
+    nan: &'a [f64],
+    sw_fixed: &'a [f64],
+    class: &'a [f64],
+) -> chain::ClassSwInputs<'a> {
+    let col = |c: Col| table.get(c).unwrap_or(nan);
+    chain::ClassSwInputs {
+        zone_of: &w.zone_of,
+        rw: &w.rw,
+        rt: col(Col::Input(LogicalCurve::DeepResistivity)),
+        vsh: col(Col::Vsh),
+        phie: col(Col::Phie),
+        sw_fixed,
+        class,
     }
 }
 

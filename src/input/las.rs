@@ -332,6 +332,29 @@ impl Reader<'_> {
         Ok(())
     }
 
+    /// The index direction: a break in it (line, value before, value) is a
+    /// contradiction; a decreasing index is reversed to increasing, every
+    /// column with it. Whether the rows were reversed.
+    fn orient_index(
+        &mut self,
+        columns: &mut [Vec<f64>],
+        first_break: Option<(Option<usize>, f64, f64)>,
+    ) -> Result<bool, LasError> {
+        if let Some((line, prev, value)) = first_break {
+            self.contradiction(
+                line,
+                format!("index is not monotonic: {value} follows {prev}"),
+            )?;
+            return Ok(false);
+        }
+        let index = columns.first().map_or(&[][..], Vec::as_slice);
+        if index.len() > 1 && index[0] > index[index.len() - 1] {
+            columns.iter_mut().for_each(|c| c.reverse());
+            return Ok(true);
+        }
+        Ok(false)
+    }
+
     /// A header/data contradiction: a warning, or an error in strict mode.
     fn contradiction(&mut self, line: Option<usize>, message: String) -> Result<(), LasError> {
         if self.options.strict {
@@ -476,18 +499,8 @@ impl Reader<'_> {
         self.check_a_title(&a_title, &mut curves, data_line - 1, monotonic)?;
         self.check_index_name(&curves)?;
 
-        let mut index_reversed = false;
-        if let Some((line, prev, value)) = parsed.scan.first_break {
-            self.contradiction(
-                Some(line),
-                format!("index is not monotonic: {value} follows {prev}"),
-            )?;
-        } else if columns[0].len() > 1 && columns[0][0] > columns[0][columns[0].len() - 1] {
-            for c in &mut columns {
-                c.reverse();
-            }
-            index_reversed = true;
-        }
+        let break_at = parsed.scan.first_break.map(|(l, p, v)| (Some(l), p, v));
+        let index_reversed = self.orient_index(&mut columns, break_at)?;
 
         let mut file = LasFile {
             version,

@@ -609,19 +609,14 @@ pub(super) fn read(r: &mut Reader<'_>, bytes: &[u8]) -> Result<LasFile, LasError
     let break_at = columns[0]
         .windows(2)
         .position(|w| w[1] == w[0] || (w[1] > w[0]) != (columns[0][1] > columns[0][0]));
-    let mut index_reversed = false;
-    if let Some(k) = break_at {
-        let (prev, value) = (columns[0][k], columns[0][k + 1]);
-        r.contradiction(
+    let first_break = break_at.map(|k| {
+        (
             log.row_lines.get(k + 1).copied(),
-            format!("index is not monotonic: {value} follows {prev}"),
-        )?;
-    } else if columns[0].len() > 1 && columns[0][0] > columns[0][columns[0].len() - 1] {
-        for c in &mut columns {
-            c.reverse();
-        }
-        index_reversed = true;
-    }
+            columns[0][k],
+            columns[0][k + 1],
+        )
+    });
+    let index_reversed = r.orient_index(&mut columns, first_break)?;
     let mut data_sets: Vec<DataSet> = Vec::with_capacity(sets.len() + 1);
     if has_text {
         data_sets.push(log);
