@@ -88,17 +88,7 @@ pub fn residuals(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::sat_height::lab_curves::{BrooksCoreyJ, JCurve};
-
-    fn bc(jd: f64, lambda: f64, swirr: f64) -> JCurve {
-        JCurve::BrooksCorey(BrooksCoreyJ {
-            jd,
-            lambda,
-            swirr,
-            rms_sw: 0.0,
-            points: 0,
-        })
-    }
+    use crate::sat_height::lab_curves::brooks_corey_j as bc;
 
     /// A residual is the logs' SW minus the class curve's SW at the height:
     /// checked against [`SatHeightModel::swh`] evaluated by hand for a

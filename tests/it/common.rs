@@ -14,6 +14,27 @@ pub fn shared() -> PathBuf {
     }
 }
 
+/// Every `.las` file under `dir` and its subfolders (any case of the
+/// extension), sorted.
+pub fn las_files_under(dir: &Path) -> Vec<PathBuf> {
+    let mut out = Vec::new();
+    let mut stack = vec![dir.to_path_buf()];
+    while let Some(d) = stack.pop() {
+        let entries =
+            std::fs::read_dir(&d).unwrap_or_else(|e| panic!("{} must exist: {e}", d.display()));
+        for e in entries.flatten() {
+            let p = e.path();
+            if p.is_dir() {
+                stack.push(p);
+            } else if p.extension().is_some_and(|x| x.eq_ignore_ascii_case("las")) {
+                out.push(p);
+            }
+        }
+    }
+    out.sort();
+    out
+}
+
 /// A real sample file committed in tests/data/real (provenance there).
 pub fn real(name: &str) -> PathBuf {
     root().join("tests/data/real").join(name)

@@ -13,20 +13,7 @@ use crate::common::{chain, json_values, lasio_dump, root, shared};
 
 /// Every .las file under the examples folder, sorted.
 fn examples() -> Vec<PathBuf> {
-    let mut out = Vec::new();
-    let mut stack = vec![shared().join("las-samples/lasio-examples")];
-    while let Some(d) = stack.pop() {
-        for e in std::fs::read_dir(&d).expect("examples folder").flatten() {
-            let p = e.path();
-            if p.is_dir() {
-                stack.push(p);
-            } else if p.extension().is_some_and(|x| x.eq_ignore_ascii_case("las")) {
-                out.push(p);
-            }
-        }
-    }
-    out.sort();
-    out
+    crate::common::las_files_under(&shared().join("las-samples/lasio-examples"))
 }
 
 /// Whether two curves hold the same values (NaN = missing on both sides),
