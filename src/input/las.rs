@@ -210,24 +210,31 @@ impl LasFile {
 
 /// Read a LAS file from disk.
 pub fn read_path(path: &Path, options: ReadOptions) -> Result<LasFile, LasError> {
+    let bytes = load(path, options.limits)?;
+    read_bytes(&bytes, path, options)
+}
+
+/// A LAS file's bytes, refused unread when larger than `limits` allow. The
+/// caller parses them with [`read_bytes`] and may use them for more (the run
+/// hashes them for its manifest, so each input is read once).
+pub fn load(path: &Path, limits: Limits) -> Result<Vec<u8>, LasError> {
     let meta = std::fs::metadata(path).map_err(|source| LasError::Io {
         path: path.to_path_buf(),
         source,
     })?;
-    if meta.len() > options.limits.max_bytes {
+    if meta.len() > limits.max_bytes {
         return Err(LasError::File {
             path: path.to_path_buf(),
             source: FileError::TooLarge {
                 bytes: meta.len(),
-                limit: options.limits.max_bytes,
+                limit: limits.max_bytes,
             },
         });
     }
-    let bytes = std::fs::read(path).map_err(|source| LasError::Io {
+    std::fs::read(path).map_err(|source| LasError::Io {
         path: path.to_path_buf(),
         source,
-    })?;
-    read_bytes(&bytes, path, options)
+    })
 }
 
 /// Read a LAS file from bytes; `name` is used in errors.
@@ -433,24 +440,18 @@ impl Reader<'_> {
         let null_value = self.null_value(&head.well_items)?;
         let mut curves = self.unique_curves(std::mem::take(&mut head.curve_items));
 
-        // ~A: the data, up to the next section line (LAS 2.0 puts ~A last)
+        // ~A: the data, up to the next section line (LAS 2.0 puts ~A last),
+        // which the parser finds in the same pass
         let rest = &bytes[data_pos.min(bytes.len())..];
-        let (data_bytes, trailing) = split_at_next_section(rest);
-        if let Some(off) = trailing {
-            let line = data_line + rest[..off].iter().filter(|&&b| b == b'\n').count();
-            self.warn(
-                Some(line),
-                "a section follows ~A; LAS 2.0 puts ~A last, so the rest of the file is skipped",
-            );
-        }
-        let hint = rows_hint(&head.well_items, data_bytes.len(), curves.len(), wrapped);
+        let hint = rows_hint(&head.well_items, rest.len(), curves.len(), wrapped);
         let parse =
             |b: &[u8]| data::parse_data(b, data_line, curves.len(), wrapped, null_value, hint);
-        let parsed = match parse(data_bytes) {
+        let parsed = match parse(rest) {
             // a short last row (a file cut off while written): dropped, said so
             Err((line, LineError::WrongColumnCount { expected, found }))
                 if !wrapped && found < expected =>
             {
+                let (data_bytes, trailing) = split_at_next_section(rest);
                 match last_line_start(data_bytes, line - data_line) {
                     Some(cut) => {
                         self.repair(
@@ -459,7 +460,12 @@ impl Reader<'_> {
                             1,
                             format!("the last row has {found} of {expected} values (the file was cut off): dropped"),
                         )?;
-                        parse(&data_bytes[..cut]).map_err(|(l, e)| self.line_err(l, e))?
+                        let mut p =
+                            parse(&data_bytes[..cut]).map_err(|(l, e)| self.line_err(l, e))?;
+                        p.next_section = trailing.map(|off| {
+                            data_line + rest[..off].iter().filter(|&&b| b == b'\n').count()
+                        });
+                        p
                     }
                     None => {
                         return Err(
@@ -470,6 +476,12 @@ impl Reader<'_> {
             }
             r => r.map_err(|(line, e)| self.line_err(line, e))?,
         };
+        if let Some(line) = parsed.next_section {
+            self.warn(
+                Some(line),
+                "a section follows ~A; LAS 2.0 puts ~A last, so the rest of the file is skipped",
+            );
+        }
         if let Some((line, text)) = &parsed.scan.first_null_spelling {
             let n = parsed.scan.null_spellings;
             self.repair(
@@ -1118,7 +1130,8 @@ fn last_line_start(bytes: &[u8], k: usize) -> Option<usize> {
 /// file has none (the usual case: no copy).
 fn bare_cr_as_newline(bytes: &[u8]) -> std::borrow::Cow<'_, [u8]> {
     let bare = |i: usize| bytes[i] == b'\r' && bytes.get(i + 1) != Some(&b'\n');
-    if !(0..bytes.len()).any(bare) {
+    // memchr: most files have no CR at all, and CRLF files one per line
+    if !memchr::memchr_iter(b'\r', bytes).any(bare) {
         return std::borrow::Cow::Borrowed(bytes);
     }
     std::borrow::Cow::Owned(
@@ -1130,13 +1143,12 @@ fn bare_cr_as_newline(bytes: &[u8]) -> std::borrow::Cow<'_, [u8]> {
 
 /// End of the line starting at `pos` (position of `\n`, or the buffer length).
 fn memchr_newline(bytes: &[u8], pos: usize) -> usize {
-    bytes[pos..]
-        .iter()
-        .position(|&b| b == b'\n')
-        .map_or(bytes.len(), |n| pos + n)
+    memchr::memchr(b'\n', &bytes[pos..]).map_or(bytes.len(), |n| pos + n)
 }
 
-/// Split ~A bytes at the first line that starts a new section (`~` first non-blank).
+/// Split ~A bytes at the first line that starts a new section (`~` first
+/// non-blank). Only for a short last row's repair: the parser finds the
+/// section itself.
 fn split_at_next_section(rest: &[u8]) -> (&[u8], Option<usize>) {
     let mut pos = 0;
     while pos < rest.len() {

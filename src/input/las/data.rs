@@ -66,6 +66,9 @@ pub fn null_spelling_len(bytes: &[u8], pos: usize) -> Option<usize> {
 pub struct Data {
     /// One vector per curve, in ~C order; all the same length.
     pub columns: Vec<Vec<f64>>,
+    /// The 1-based line of a section line (`~` first) that ended the data
+    /// early, found in the same pass; `None` when the data ran to the end.
+    pub next_section: Option<usize>,
     /// What parsing saw of the index column and of skipped lines.
     pub scan: IndexScan,
 }
@@ -73,8 +76,8 @@ pub struct Data {
 /// An error in ~A with its 1-based line number.
 pub type DataError = (usize, LineError);
 
-/// Parse the bytes of ~A (the lines after the `~A` line, up to the end of the
-/// section). `first_line` is the 1-based line number of the first byte;
+/// Parse the bytes of ~A (the lines after the `~A` line, up to the next
+/// line whose first non-blank is `~`, or the end). `first_line` is the 1-based line number of the first byte;
 /// `null` is the declared NULL value, if any.
 pub fn parse_data(
     bytes: &[u8],
@@ -97,12 +100,17 @@ pub fn parse_data(
     let mut step_line = first_line;
     let mut last_index: Option<f64> = None;
     let mut direction = 0.0f64;
+    let mut next_section = None;
 
     while pos < len {
         // one line
         let line_start = pos;
         while pos < len && is_space(bytes[pos]) {
             pos += 1;
+        }
+        if pos < len && bytes[pos] == b'~' {
+            next_section = Some(line);
+            break;
         }
         if pos >= len || bytes[pos] == b'\n' {
             if !(wrapped && in_step > 0) {
@@ -262,7 +270,11 @@ pub fn parse_data(
             },
         ));
     }
-    Ok(Data { columns, scan })
+    Ok(Data {
+        columns,
+        next_section,
+        scan,
+    })
 }
 
 /// The error for a bad token starting at `start`: a byte that cannot be text
