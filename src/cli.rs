@@ -86,6 +86,11 @@ pub enum Command {
         /// shard's previous state), replacing its files one by one.
         #[arg(long)]
         overwrite: bool,
+        /// Print where the time went on stderr: seconds per stage summed
+        /// over wells, and the steps before and after the wells
+        /// (run-manifest.json holds them either way).
+        #[arg(long)]
+        timings: bool,
     },
     /// Combine the shards of a sharded run (`run --shard K/N`) into the
     /// field-level outputs a single run makes: run summary and manifest, zone
@@ -203,7 +208,19 @@ pub fn run(args: Args) -> Result<(), Error> {
             keep_going,
             shard,
             overwrite,
-        } => cmd_run(&config, out, threads, quiet, keep_going, shard, overwrite),
+            timings,
+        } => cmd_run(
+            &config,
+            out,
+            threads,
+            shard,
+            RunFlags {
+                quiet,
+                keep_going,
+                overwrite,
+                timings,
+            },
+        ),
         Command::Merge {
             config,
             out,
@@ -360,11 +377,15 @@ fn cmd_run(
     config_path: &std::path::Path,
     out: Option<PathBuf>,
     threads: Option<usize>,
-    quiet: bool,
-    keep_going: bool,
     shard: Option<crate::field::shard::ShardSpec>,
-    overwrite: bool,
+    flags: RunFlags,
 ) -> Result<(), Error> {
+    let RunFlags {
+        quiet,
+        keep_going,
+        overwrite,
+        timings,
+    } = flags;
     let config = Config::load(config_path)?;
     let out = out_dir(&config, out)?;
     let marker = match shard {
@@ -392,8 +413,20 @@ fn cmd_run(
         return report_wells(&done.reports, done.reports.len(), quiet, keep_going, &msg);
     }
     let summary = field::run(&config, &out, !quiet)?;
+    if timings {
+        note!("{}", summary.timings.table().trim_end());
+    }
     let msg = format!("outputs in {} (summary: run-summary.json)", out.display());
     report_wells(&summary.wells, summary.wells_total, quiet, keep_going, &msg)
+}
+
+/// The switches of `run`.
+#[derive(Debug, Clone, Copy)]
+struct RunFlags {
+    quiet: bool,
+    keep_going: bool,
+    overwrite: bool,
+    timings: bool,
 }
 
 fn cmd_merge(

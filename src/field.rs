@@ -24,6 +24,7 @@ use crate::field::outputs::{contact_outputs, saturation_outputs};
 use crate::field::setup::FieldSetup;
 use crate::output;
 use crate::output::write_json;
+use crate::pipeline::timings::{RunTimings, Stage, StageTimes, timed};
 use crate::pipeline::{self, Models, WellReport};
 use crate::well::WellError;
 
@@ -50,6 +51,10 @@ pub struct RunSummary {
     pub contact_outputs: Vec<String>,
     /// One report per well, failed ones included.
     pub wells: Vec<WellReport>,
+    /// Where the time went (in run-manifest.json, never in the summary,
+    /// which is byte-identical from run to run).
+    #[serde(skip)]
+    pub timings: RunTimings,
 }
 
 /// Run every well of the config into `out`.
@@ -58,10 +63,12 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
     // a killed run's temporary files (never in shard runs, which may share
     // the folder with shards still writing)
     output::remove_stale_partials(out);
-    let setup = setup::prepare(config, out, progress)?;
+    let mut setup = setup::prepare(config, out, progress)?;
     let all: Vec<usize> = (0..setup.files.len()).collect();
     let journal = out.join(PROGRESS_FILE);
+    let wells_start = std::time::Instant::now();
     let reports = process_wells(&setup, &all, out, &journal, progress)?;
+    setup.timings.wells_wall_seconds = wells_start.elapsed().as_secs_f64();
     let summary = finish(config, out, setup, reports, started, Vec::new(), progress)?;
     // the summary is written: the journal of a run in progress goes
     let _ = std::fs::remove_file(&journal);
@@ -143,27 +150,40 @@ pub const FIELD_CURVES_DIR: &str = "field/curves";
 pub fn finish(
     config: &Config,
     out: &Path,
-    setup: FieldSetup,
+    mut setup: FieldSetup,
     mut reports: Vec<WellReport>,
     started: std::time::SystemTime,
     shards: Vec<crate::output::manifest::ShardRun>,
     progress: bool,
 ) -> Result<RunSummary, Error> {
     let total = setup.files.len();
+    let mut timings = std::mem::take(&mut setup.timings);
+    let mut stage_sum = StageTimes::default();
+    for r in &reports {
+        stage_sum.absorb(&r.times);
+    }
+    timings.set_well_stages(&stage_sum);
     let class_setup = setup.prepared.as_ref().and_then(|p| p.setup.as_ref());
-    let saturation_outputs = match (&setup.sat, class_setup) {
-        (Some(m), Some(cs)) => saturation_outputs(config, out, m, cs, &mut reports, progress)?,
-        _ => Vec::new(),
-    };
-    let (contact_view, contact_outputs) = match &setup.sat {
-        Some(m) => contact_outputs(config, out, m, &reports, progress)?,
-        None => (Vec::new(), Vec::new()),
-    };
+    let saturation_outputs = timed(&mut timings.finish, "saturation-height outputs", || match (
+        &setup.sat,
+        class_setup,
+    ) {
+        (Some(m), Some(cs)) => saturation_outputs(config, out, m, cs, &mut reports, progress),
+        _ => Ok(Vec::new()),
+    })?;
+    let (contact_view, contact_outputs) = timed(&mut timings.finish, "contact outputs", || {
+        match &setup.sat {
+            Some(m) => contact_outputs(config, out, m, &reports, progress),
+            None => Ok((Vec::new(), Vec::new())),
+        }
+    })?;
     let zone_rows: Vec<crate::well::summary::ZoneSummary> = reports
         .iter()
         .flat_map(|r| r.zones.iter().cloned())
         .collect();
-    let zone_outputs = crate::well::summary::write(&zone_rows, &out.join("field"))?;
+    let zone_outputs = timed(&mut timings.finish, "zone summary", || {
+        crate::well::summary::write(&zone_rows, &out.join("field"))
+    })?;
     if progress {
         note!(
             "summary: {} zones of {} wells in {}",
@@ -173,10 +193,18 @@ pub fn finish(
         );
     }
     let failed = reports.iter().filter(|r| !r.ok).count();
-    let mut manifest =
-        crate::output::manifest::build(config, &setup.files, started, (total, failed));
+    let known: Vec<(&Path, Option<&crate::output::manifest::InputFile>)> = setup
+        .files
+        .iter()
+        .zip(&reports)
+        .map(|(f, r)| (f.as_path(), r.input.as_ref()))
+        .collect();
+    let mut manifest = timed(&mut timings.finish, "manifest (hashes)", || {
+        crate::output::manifest::build(config, &known, started, (total, failed))
+    });
     manifest.shards = shards;
     if config.output.report {
+        let report_start = std::time::Instant::now();
         let page = crate::report::assemble::field_page(
             config,
             out,
@@ -189,6 +217,10 @@ pub fn finish(
         if progress {
             note!("report: {}", out.join(page).display());
         }
+        (timings.finish).push(crate::pipeline::timings::Timed::since(
+            "field report page",
+            report_start,
+        ));
     }
     let summary = RunSummary {
         tool: format!("flowzone {}", env!("CARGO_PKG_VERSION")),
@@ -201,7 +233,9 @@ pub fn finish(
         contacts: contact_view,
         contact_outputs,
         wells: reports,
+        timings,
     };
+    manifest.timings = summary.timings.clone();
     write_json(&out.join("run-manifest.json"), &manifest)?;
     write_json(&out.join("run-summary.json"), &summary)?;
     Ok(summary)
@@ -213,19 +247,30 @@ pub fn finish(
 fn one_well(path: &Path, stem: &str, models: &Models<'_>, out_dir: &Path) -> WellReport {
     let config = &models.ctx.config;
     let mut report = WellReport::new(path);
+    let mut times = StageTimes::default();
     let result: Result<(), WellError> = (|| {
-        let w = pipeline::run_well(path, models)?;
+        // the file is read once: its bytes are hashed for the manifest here
+        let bytes = times.time(Stage::Read, || {
+            crate::input::las::load(path, config.input.limits()).inspect(|b| {
+                report.input = Some(crate::output::manifest::input_of_bytes("well", path, b));
+            })
+        })?;
+        let w = pipeline::run_well(path, &bytes, models, &mut times)?;
+        drop(bytes);
         report.record(&w);
-        write_well(&w, stem, config, out_dir, &mut report.outputs)?;
+        write_well(&w, stem, config, out_dir, &mut report.outputs, &mut times)?;
         if config.output.report {
+            let start = std::time::Instant::now();
             let pages =
                 crate::report::assemble::well_page(stem, path, &w, models, config, out_dir)?;
             report.outputs.extend(pages);
             report.pickett =
                 crate::report::pickett_points(&w.well.table, crate::report::FIELD_PICKETT_PER_WELL);
+            times.add(Stage::ReportPage, start.elapsed());
         }
         Ok(())
     })();
+    report.times = times;
     match result {
         Ok(()) => report.ok = true,
         Err(e) => report.error = Some(chain(&e)),
@@ -242,17 +287,22 @@ fn write_well(
     config: &Config,
     out_dir: &Path,
     written: &mut Vec<String>,
+    times: &mut StageTimes,
 ) -> Result<(), output::OutputError> {
     let table = &w.well.table;
     let dir = out_dir.join(WELLS_DIR);
+    let start = std::time::Instant::now();
     for &format in &config.output.formats {
         let p = output::write_table(table, &dir, stem, format, Some(config.output.decimals))?;
         written.push(format!("{WELLS_DIR}/{}", file_name(&p)));
     }
+    times.add(Stage::WellFiles, start.elapsed());
     let part = out_dir
         .join(FIELD_CURVES_DIR)
         .join(format!("{stem}.parquet"));
-    output::write_field_part(table, &w.well.name, &part)?;
+    times.time(Stage::FieldTable, || {
+        output::write_field_part(table, &w.well.name, &part)
+    })?;
     written.push(format!("{FIELD_CURVES_DIR}/{}", file_name(&part)));
     Ok(())
 }

@@ -14,6 +14,8 @@
 //! no `[capillary]`) is skipped, and the well keeps what the earlier stages
 //! gave it.
 
+pub mod timings;
+
 use std::path::Path;
 
 use serde::{Deserialize, Serialize};
@@ -21,6 +23,7 @@ use serde::{Deserialize, Serialize};
 use crate::classes::stage::{ClassCounts, ClassSetup};
 use crate::contacts::WellAudit;
 use crate::output::schema::Col;
+use crate::pipeline::timings::{Stage, StageTimes};
 use crate::sat_height::{SatHeightModel, WellSatHeight};
 use crate::well::summary::ZoneSummary;
 use crate::well::{self, RunContext, WellError, WellOutput};
@@ -52,14 +55,25 @@ pub struct Interpreted {
     pub zones: Vec<ZoneSummary>,
 }
 
-/// Take the well in `path` through every stage the run has a model for.
-pub fn run_well(path: &Path, models: &Models<'_>) -> Result<Interpreted, WellError> {
+/// Take the well whose file `path` holds `bytes` through every stage the run
+/// has a model for, adding each stage's time to `times`.
+pub fn run_well(
+    path: &Path,
+    bytes: &[u8],
+    models: &Models<'_>,
+    times: &mut StageTimes,
+) -> Result<Interpreted, WellError> {
     let config = &models.ctx.config;
-    // read, curves and units, depth reference, zones, petrophysics
-    let mut out = well::process(path, models.ctx)?;
+    // read, then curves and units, depth reference, zones, petrophysics
+    let file = times.time(Stage::Read, || {
+        crate::input::las::read_bytes(bytes, path, well::read_options(models.ctx))
+    })?;
+    let mut out = times.time(Stage::Logs, || well::process_file(path, &file, models.ctx))?;
+    drop(file);
     let file_stem = well::stem_of(path);
     // classes and permeability (from the logs and, above a free water level,
     // the saturation-height evidence), then SW with each class's exponents
+    let class_start = std::time::Instant::now();
     let classes = models.classes.map(|setup| {
         let name = out.name.clone();
         let saturation = models
@@ -89,13 +103,17 @@ pub fn run_well(path: &Path, models: &Models<'_>) -> Result<Interpreted, WellErr
         }
         counts
     });
+    times.add(Stage::Classes, class_start.elapsed());
     // saturation-height, and the audit of every saturation step against it
     let mut saturation_height = None;
     let mut contacts = None;
     if let Some(sat) = models.sat {
         let names = [out.name.as_str(), file_stem.as_str()];
-        saturation_height = sat.apply(&mut out.table, &names, &mut out.warnings);
+        saturation_height = times.time(Stage::SaturationHeight, || {
+            sat.apply(&mut out.table, &names, &mut out.warnings)
+        });
         if saturation_height.is_some() {
+            let contact_start = std::time::Instant::now();
             contacts = crate::contacts::apply(
                 &mut out.table,
                 &out.name,
@@ -111,9 +129,11 @@ pub fn run_well(path: &Path, models: &Models<'_>) -> Result<Interpreted, WellErr
             {
                 out.warnings.push(format!("contact audit: {}", f.note));
             }
+            times.add(Stage::Contacts, contact_start.elapsed());
         }
     }
     // the per-zone summary of the final curves
+    let summary_start = std::time::Instant::now();
     let zone_names: Vec<String> = out.report.zones.iter().map(|z| z.name.clone()).collect();
     let nan = vec![f64::NAN; out.table.n_rows()];
     let get = |c: Col| out.table.get(c).unwrap_or(&nan);
@@ -128,6 +148,7 @@ pub fn run_well(path: &Path, models: &Models<'_>) -> Result<Interpreted, WellErr
         get(Col::Class),
         &config.summary,
     );
+    times.add(Stage::ZoneSummary, summary_start.elapsed());
     Ok(Interpreted {
         well: out,
         classes,
@@ -170,6 +191,14 @@ pub struct WellReport {
     /// (not in the summary; shard states carry it beside the report).
     #[serde(skip)]
     pub pickett: Vec<PickettPoint>,
+    /// The LAS file's size and SHA-256, from the bytes the run read (for the
+    /// manifest; `None` when the file could not be read).
+    #[serde(skip)]
+    pub input: Option<crate::output::manifest::InputFile>,
+    /// Seconds per stage (for the manifest's timings; never in the summary,
+    /// which is byte-identical from run to run).
+    #[serde(skip)]
+    pub times: StageTimes,
 }
 
 impl WellReport {
@@ -190,6 +219,8 @@ impl WellReport {
             contacts: None,
             zones: Vec::new(),
             pickett: Vec::new(),
+            input: None,
+            times: StageTimes::default(),
         }
     }
 

@@ -144,14 +144,16 @@ impl RunContext {
 
 /// Read a well and run the stages.
 pub fn process(path: &Path, ctx: &RunContext) -> Result<WellOutput, WellError> {
-    let file = las::read_path(
-        path,
-        ReadOptions {
-            strict: ctx.config.input.strict,
-            limits: ctx.config.input.limits(),
-        },
-    )?;
+    let file = las::read_path(path, read_options(ctx))?;
     process_file(path, &file, ctx)
+}
+
+/// How the run's config asks LAS files to be read.
+pub fn read_options(ctx: &RunContext) -> ReadOptions {
+    ReadOptions {
+        strict: ctx.config.input.strict,
+        limits: ctx.config.input.limits(),
+    }
 }
 
 /// Elevation of the depth reference: config, else the first header mnemonic

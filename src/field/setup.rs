@@ -11,6 +11,7 @@ use crate::field::safety::{check_inputs_outside, check_out_dir};
 use crate::output::file_stem;
 use crate::output::schema::Col;
 use crate::pipeline::Models;
+use crate::pipeline::timings::{RunTimings, timed};
 use crate::sat_height::TvdssError;
 use crate::well;
 
@@ -24,6 +25,8 @@ pub struct FieldSetup {
     pub(crate) ctx: well::RunContext,
     pub(crate) prepared: Option<crate::classes::stage::Prepared>,
     pub(crate) sat: Option<crate::sat_height::SatHeightModel>,
+    /// Where the run's time went; `prepare` fills the steps before the wells.
+    pub(crate) timings: RunTimings,
 }
 
 impl FieldSetup {
@@ -52,6 +55,62 @@ impl FieldSetup {
 /// Check the output folder, load the tables, build the class model (or load
 /// it) and the saturation-height model: everything before the wells.
 pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup, Error> {
+    let mut timings = RunTimings::default();
+    let (files, ctx) = timed(&mut timings.setup, "checks, well list and tables", || {
+        checked_inputs(config, out)
+    })?;
+    let mut prepared = timed(
+        &mut timings.setup,
+        "class model (core, training or loading)",
+        || -> Result<_, Error> {
+            if config.core.is_none() && config.classes.is_none() {
+                return Ok(None);
+            }
+            Ok(Some(crate::classes::stage::prepare(
+                &ctx,
+                &files,
+                out,
+                crate::classes::stage::Mode::Run,
+                progress,
+            )?))
+        },
+    )?;
+    let sat = timed(
+        &mut timings.setup,
+        "saturation-height model",
+        || match prepared.as_ref().and_then(|p| p.setup.as_ref()) {
+            Some(s) => saturation_model(config, &files, &ctx, &s.scheme),
+            None if config.capillary.is_some() => Err(Error::Usage(
+                "[capillary] needs a class model: give [classes] with [core] or [predictor] model"
+                    .into(),
+            )),
+            None => Ok(None),
+        },
+    )?;
+    if let (Some(m), true) = (&sat, progress) {
+        report_model(m);
+    }
+    if let (Some(sat), Some(p)) = (&sat, prepared.as_mut()) {
+        timed(
+            &mut timings.setup,
+            "saturation-height evidence weight (leave-one-well-out)",
+            || choose_saturation_evidence(config, sat, p, out, progress),
+        )?;
+    }
+    let stems = unique_stems(&files);
+    Ok(FieldSetup {
+        files,
+        stems,
+        ctx,
+        prepared,
+        sat,
+        timings,
+    })
+}
+
+/// The run's LAS files, checked with every other input against the output
+/// folder, and the run context (config and tables).
+fn checked_inputs(config: &Config, out: &Path) -> Result<(Vec<PathBuf>, well::RunContext), Error> {
     let files = config.well_files()?;
     if files.is_empty() {
         return Err(Error::Usage(
@@ -69,33 +128,11 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
     every_input.push(config.source.clone());
     check_inputs_outside(out, &every_input)?;
     let ctx = well::RunContext::new(config.clone())?;
-    let mut prepared = if config.core.is_some() || config.classes.is_some() {
-        Some(crate::classes::stage::prepare(
-            &ctx,
-            &files,
-            out,
-            crate::classes::stage::Mode::Run,
-            progress,
-        )?)
-    } else {
-        None
-    };
-    let sat = match prepared.as_ref().and_then(|p| p.setup.as_ref()) {
-        Some(s) => saturation_model(config, &files, &ctx, &s.scheme)?,
-        None if config.capillary.is_some() => {
-            return Err(Error::Usage(
-                "[capillary] needs a class model: give [classes] with [core] or [predictor] model"
-                    .into(),
-            ));
-        }
-        None => None,
-    };
-    if let (Some(m), true) = (&sat, progress) {
-        report_model(m);
-    }
-    if let (Some(sat), Some(p)) = (&sat, prepared.as_mut()) {
-        choose_saturation_evidence(config, sat, p, out, progress)?;
-    }
+    Ok((files, ctx))
+}
+
+/// Each file's output stem, unique within the field.
+fn unique_stems(files: &[PathBuf]) -> Vec<String> {
     let mut stems: Vec<String> = files.iter().map(|f| file_stem(&well::stem_of(f))).collect();
     // two inputs with the same stem: suffix the later ones
     for i in 1..stems.len() {
@@ -106,13 +143,7 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
             stems[i] = format!("{base}-{k}");
         }
     }
-    Ok(FieldSetup {
-        files,
-        stems,
-        ctx,
-        prepared,
-        sat,
-    })
+    stems
 }
 
 /// A well's (MD, TVDSS) columns, or why there are none.

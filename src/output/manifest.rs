@@ -48,6 +48,8 @@ pub struct Manifest {
     /// The shard runs a `flowzone merge` combined (absent for a single run).
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub shards: Vec<ShardRun>,
+    /// Where the time went: setup, well stages, field outputs.
+    pub timings: crate::pipeline::timings::RunTimings,
 }
 
 /// One shard run (`run --shard K/N`) as the merge's manifest records it.
@@ -81,8 +83,33 @@ pub fn hash_file(path: &Path) -> std::io::Result<(u64, String)> {
         h.update(&buf[..k]);
         n += k as u64;
     }
-    let hex: String = h.finalize().iter().map(|b| format!("{b:02x}")).collect();
-    Ok((n, hex))
+    Ok((n, hex(&h.finalize())))
+}
+
+/// SHA-256 of `bytes`, hex.
+pub fn sha256_hex(bytes: &[u8]) -> String {
+    hex(&Sha256::digest(bytes))
+}
+
+fn hex(digest: &[u8]) -> String {
+    use std::fmt::Write as _;
+    let mut s = String::with_capacity(2 * digest.len());
+    for b in digest {
+        let _ = write!(s, "{b:02x}");
+    }
+    s
+}
+
+/// The record of an input the run has already read into memory: hashed
+/// from those bytes, not read again.
+pub fn input_of_bytes(role: &str, path: &Path, bytes: &[u8]) -> InputFile {
+    InputFile {
+        role: role.into(),
+        path: path.display().to_string(),
+        bytes: bytes.len() as u64,
+        sha256: sha256_hex(bytes),
+        error: None,
+    }
 }
 
 fn input(role: &str, path: &Path) -> InputFile {
@@ -135,14 +162,19 @@ pub fn table_inputs(config: &Config) -> Vec<(&'static str, PathBuf)> {
     v
 }
 
-/// Build the manifest of a finished run. `wells` are the run's LAS files.
+/// Build the manifest of a finished run. `wells` are the run's LAS files,
+/// each with its record when the run hashed the bytes it read (a well whose
+/// file could not be read, or a merge, is hashed here).
 pub fn build(
     config: &Config,
-    wells: &[PathBuf],
+    wells: &[(&Path, Option<&InputFile>)],
     started: SystemTime,
     counts: (usize, usize),
 ) -> Manifest {
-    let mut inputs: Vec<InputFile> = wells.par_iter().map(|w| input("well", w)).collect();
+    let mut inputs: Vec<InputFile> = wells
+        .par_iter()
+        .map(|(w, known)| known.cloned().unwrap_or_else(|| input("well", w)))
+        .collect();
     inputs.extend(table_inputs(config).iter().map(|(r, p)| input(r, p)));
     let finished = SystemTime::now();
     Manifest {
@@ -160,6 +192,7 @@ pub fn build(
         wells_total: counts.0,
         wells_failed: counts.1,
         shards: Vec::new(),
+        timings: crate::pipeline::timings::RunTimings::default(),
     }
 }
 
@@ -178,6 +211,7 @@ mod tests {
             hex,
             "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"
         );
+        assert_eq!(super::sha256_hex(b"abc"), hex);
         assert_eq!(
             super::utc(std::time::UNIX_EPOCH + std::time::Duration::from_secs(86_400)),
             "1970-01-02T00:00:00Z"
