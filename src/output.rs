@@ -10,13 +10,14 @@ pub mod las;
 pub(crate) mod manifest;
 pub(crate) mod messages;
 pub(crate) mod numfmt;
+pub mod parquet;
 pub mod schema;
 
 use std::fs::File;
 use std::io::{BufWriter, Write};
 use std::path::{Path, PathBuf};
 
-use polars::prelude::{Column, CsvWriter, DataFrame, ParquetCompression, ParquetWriter, SerWriter};
+use polars::prelude::{CsvWriter, DataFrame, ParquetCompression, ParquetWriter, SerWriter};
 
 use crate::config::Format;
 use crate::input::las::{CurveInfo, HeaderItem};
@@ -101,12 +102,6 @@ impl Table {
     pub fn position(&self, col: Col) -> Option<usize> {
         self.columns.iter().position(|c| c.key == Some(col))
     }
-
-    fn data_frame(&self) -> Result<DataFrame, polars::error::PolarsError> {
-        let height = self.n_rows();
-        let columns: Vec<Column> = self.columns.iter().map(OutColumn::polars).collect();
-        DataFrame::new(height, columns)
-    }
 }
 
 impl OutColumn {
@@ -127,25 +122,6 @@ impl OutColumn {
     pub fn described(mut self, description: impl Into<String>) -> OutColumn {
         self.description = description.into();
         self
-    }
-
-    /// The column for polars: integers as i64, floats as f64, NaN as null.
-    fn polars(&self) -> Column {
-        let name = self.name.as_str().into();
-        if self.integer {
-            let v: Vec<Option<i64>> = self
-                .values
-                .iter()
-                .map(|&x| x.is_finite().then(|| x.round() as i64))
-                .collect();
-            return Column::new(name, v);
-        }
-        let v: Vec<Option<f64>> = self
-            .values
-            .iter()
-            .map(|&x| x.is_finite().then_some(x))
-            .collect();
-        Column::new(name, v)
     }
 }
 
@@ -171,25 +147,38 @@ pub const FIELD_COLUMNS: [Col; 16] = [
 ];
 
 /// Write a well's rows of the field table: WELL, then [`FIELD_COLUMNS`], as
-/// Parquet (zstd). One file per well, each with the same schema, so a glob
-/// over the folder reads as one table sorted by file name and depth.
+/// Parquet ([`parquet::write_columns`]: PLAIN floats, Snappy). One file per well,
+/// each with the same schema, so a glob over the folder reads as one table
+/// sorted by file name and depth.
 pub fn write_field_part(table: &Table, well: &str, path: &Path) -> Result<(), OutputError> {
-    let table_err = |source| OutputError::Table {
-        path: path.to_path_buf(),
-        source,
-    };
     let n = table.n_rows();
-    let mut columns = vec![Column::new("WELL".into(), vec![well; n])];
+    let missing = vec![f64::NAN; n];
+    let mut columns = vec![parquet::PqColumn {
+        name: "WELL",
+        values: parquet::Values::Repeated(well),
+        min_max: true,
+    }];
     for col in FIELD_COLUMNS {
-        let column = match table.column(col) {
-            Some(c) => c.polars(),
-            // the unit is not written to Parquet
-            None => OutColumn::new(col, DepthUnit::Metre, vec![f64::NAN; n]).polars(),
-        };
-        columns.push(column);
+        let values = table.get(col).unwrap_or(&missing);
+        columns.push(parquet::PqColumn {
+            name: col.name(),
+            values: if col.integer() {
+                parquet::Values::Integer(values)
+            } else {
+                parquet::Values::Float(values)
+            },
+            // readers skip files by well and depth range
+            min_max: matches!(col, Col::Depth | Col::Tvdss),
+        });
     }
-    let mut df = DataFrame::new(n, columns).map_err(table_err)?;
-    write_frame_parquet(&mut df, path)
+    write_atomic(path, |out| {
+        parquet::write_columns(out, &columns, n)
+            .map(|_| ())
+            .map_err(|source| OutputError::Table {
+                path: path.to_path_buf(),
+                source,
+            })
+    })
 }
 
 /// Write a data frame as Parquet (zstd) through [`write_atomic`].
@@ -384,14 +373,32 @@ pub fn write_frame_csv(
     })
 }
 
-/// Write a table as Parquet (zstd).
+/// Write a table as Parquet, as the field table is ([`parquet::write_columns`]):
+/// floats as Float64, whole-number columns as Int64, missing values null.
 pub fn write_parquet(table: &Table, path: &Path) -> Result<(), OutputError> {
-    let table_err = |source| OutputError::Table {
-        path: path.to_path_buf(),
-        source,
-    };
-    let mut df = table.data_frame().map_err(table_err)?;
-    write_frame_parquet(&mut df, path)
+    let columns: Vec<parquet::PqColumn<'_>> = table
+        .columns
+        .iter()
+        .enumerate()
+        .map(|(i, c)| parquet::PqColumn {
+            name: &c.name,
+            values: if c.integer {
+                parquet::Values::Integer(&c.values)
+            } else {
+                parquet::Values::Float(&c.values)
+            },
+            // the depth index, for readers that skip files by depth range
+            min_max: i == 0,
+        })
+        .collect();
+    write_atomic(path, |out| {
+        parquet::write_columns(out, &columns, table.n_rows())
+            .map(|_| ())
+            .map_err(|source| OutputError::Table {
+                path: path.to_path_buf(),
+                source,
+            })
+    })
 }
 
 /// Write a table as LAS 2.0; `decimals` as in [`write_csv`].
@@ -485,6 +492,33 @@ mod tests {
         assert_eq!(file_stem("//"), "well");
     }
 
+    /// The table as a polars data frame: integers as i64, floats as f64,
+    /// NaN as null (how the CSV writer reads them).
+    fn polars_frame(t: &Table) -> DataFrame {
+        use polars::prelude::Column;
+        let columns: Vec<Column> = t
+            .columns
+            .iter()
+            .map(|c| {
+                let name = c.name.as_str().into();
+                let finite = |x: &f64| x.is_finite();
+                if c.integer {
+                    let v: Vec<Option<i64>> = c
+                        .values
+                        .iter()
+                        .map(|x| finite(x).then(|| x.round() as i64))
+                        .collect();
+                    Column::new(name, v)
+                } else {
+                    let v: Vec<Option<f64>> =
+                        c.values.iter().map(|x| finite(x).then_some(*x)).collect();
+                    Column::new(name, v)
+                }
+            })
+            .collect();
+        DataFrame::new(t.n_rows(), columns).expect("frame")
+    }
+
     /// The crate's CSV writer gives polars' text, byte for byte (polars'
     /// `CsvWriter` is the reference; it wrote these files before).
     #[test]
@@ -511,7 +545,7 @@ mod tests {
             let ours = dir.path().join("ours.csv");
             write_csv(&t, &ours, decimals).expect("written");
             let theirs = dir.path().join("polars.csv");
-            let mut df = t.data_frame().expect("frame");
+            let mut df = polars_frame(&t);
             write_frame_csv(&mut df, &theirs, decimals).expect("written");
             let read = |p: &Path| std::fs::read_to_string(p).expect("read back");
             assert_eq!(read(&ours), read(&theirs), "decimals {decimals:?}");
