@@ -11,6 +11,7 @@
 //! way, so that the forest has something to beat: the nearest class centroid in
 //! standardised features, and the majority class per porosity bin.
 
+mod flat;
 pub mod model_file;
 
 use rayon::prelude::*;
@@ -112,6 +113,10 @@ pub struct Forest {
     /// Class numbers seen in training, ascending.
     pub classes: Vec<u8>,
     trees: Vec<Tree>,
+    /// The trees as flat node arrays, made on first use ([`flat`]); `None`
+    /// inside when they cannot be read (prediction then goes through smartcore).
+    #[serde(skip)]
+    flat: std::sync::OnceLock<Option<Vec<flat::FlatTree>>>,
 }
 
 /// Rows per block when predicting, so the vote counts stay small.
@@ -165,7 +170,15 @@ impl Forest {
             n_features,
             classes,
             trees,
+            flat: std::sync::OnceLock::new(),
         })
+    }
+
+    /// The trees as flat node arrays, when every tree could be read.
+    fn flat_trees(&self) -> Option<&[flat::FlatTree]> {
+        self.flat
+            .get_or_init(|| self.trees.iter().map(flat::flatten).collect())
+            .as_deref()
     }
 
     /// Class and vote share of each row of row-major `x`. Rows with a value
@@ -215,11 +228,15 @@ impl Forest {
             .filter(|&r| x[r * nf..(r + 1) * nf].iter().all(|v| v.is_finite()))
             .collect();
         let total = f64::from(self.trees.len() as u32);
+        let flat = self.flat_trees();
         // blocks in parallel (each block's votes are its own, so the result is
         // the same on any thread count)
         let blocks: Vec<Vec<u16>> = ok
             .par_chunks(PREDICT_BLOCK_ROWS)
             .map(|block| -> Result<Vec<u16>, PredictError> {
+                if let Some(trees) = flat {
+                    return flat_votes(trees, x, nf, block, n_classes);
+                }
                 let mut values = Vec::with_capacity(block.len() * nf);
                 for &r in block {
                     values.extend_from_slice(&x[r * nf..(r + 1) * nf]);
@@ -246,6 +263,29 @@ impl Forest {
         }
         Ok(out)
     }
+}
+
+/// Votes of `trees` for rows `block` of row-major `x` (`nf` values per row),
+/// `n_classes` counts per row.
+fn flat_votes(
+    trees: &[flat::FlatTree],
+    x: &[f64],
+    nf: usize,
+    block: &[usize],
+    n_classes: usize,
+) -> Result<Vec<u16>, PredictError> {
+    let mut votes = vec![0u16; block.len() * n_classes];
+    for tree in trees {
+        for (i, &r) in block.iter().enumerate() {
+            let label = tree
+                .predict(&x[r * nf..(r + 1) * nf])
+                .map(|c| c as usize)
+                .filter(|&c| c < n_classes)
+                .ok_or_else(|| PredictError::Forest("a tree of the forest is malformed".into()))?;
+            votes[i * n_classes + label] += 1;
+        }
+    }
+    Ok(votes)
 }
 
 /// Samples to train and validate on: features at cored depths and the core class.
@@ -602,6 +642,51 @@ mod tests {
     /// Two classes split by the first feature at 0.5, the second feature
     /// noise: the forest learns the split (constructed case), gives the same
     /// votes twice, and refuses non-numbers in training.
+    /// The flat trees vote exactly as smartcore's own predictions do: four
+    /// noisy, overlapping classes (so trees are deep and leaves mixed), rows
+    /// on and around the training values (so ties with split values occur),
+    /// before and after the forest is saved and loaded.
+    #[test]
+    fn flat_trees_vote_as_smartcore_does() {
+        use rand::{Rng, SeedableRng};
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(5);
+        let (mut x, mut y) = (Vec::new(), Vec::new());
+        for _ in 0..600 {
+            let c: u8 = rng.random_range(1..=4);
+            let row: [f64; 3] = std::array::from_fn(|k| {
+                f64::from(c) * (k as f64 + 1.0) + rng.random_range(-2.5..2.5)
+            });
+            x.extend(row);
+            y.push(c);
+        }
+        let p = ForestParams {
+            trees: 15,
+            max_depth: 12,
+            min_samples_leaf: 1,
+            seed: 3,
+        };
+        let f = Forest::fit(&x, 3, &y, &p).expect("fit");
+        let mut probe = x.clone();
+        probe.extend((0..3000).map(|_| rng.random_range(-3.0..16.0)));
+        let loaded: Forest =
+            postcard::from_bytes(&postcard::to_allocvec(&f).expect("saved")).expect("loaded");
+        for forest in [&f, &loaded] {
+            let trees = forest
+                .flat_trees()
+                .expect("smartcore's form is the mirrored one");
+            assert_eq!(trees.len(), 15);
+            let m = matrix(&probe, 3).expect("matrix");
+            for (tree, t) in forest.trees.iter().zip(trees) {
+                let theirs = tree.predict(&m).expect("smartcore predicts");
+                let ours: Vec<u32> = probe
+                    .chunks_exact(3)
+                    .map(|r| t.predict(r).expect("leaf"))
+                    .collect();
+                assert_eq!(ours, theirs);
+            }
+        }
+    }
+
     fn two_class_set() -> (Vec<f64>, Vec<u8>) {
         let mut x = Vec::new();
         let mut y = Vec::new();
