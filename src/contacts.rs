@@ -732,6 +732,26 @@ fn near_class_change(class: &[f64], md: &[f64], edge: f64) -> Vec<bool> {
         .collect()
 }
 
+/// A depth kept for the implied FWL, with its rock's saturation-height
+/// function looked up once.
+struct KeptDepth<'a> {
+    /// TVDSS, m.
+    t_m: f64,
+    /// The class probability (1 without one).
+    weight: f64,
+    /// Log SW, v/v.
+    sw: f64,
+    rock: crate::sat_height::RockSwh<'a>,
+}
+
+impl KeptDepth<'_> {
+    /// Weighted squared SW − SWH were the FWL at `fwl_m` m TVDSS.
+    #[inline]
+    fn misfit(&self, fwl_m: f64, drho: f64) -> f64 {
+        self.weight * (self.sw - self.rock.swh(fwl_m - self.t_m, drho)).powi(2)
+    }
+}
+
 fn implied_fwl(
     p: &Profile<'_>,
     model: &SatHeightModel,
@@ -756,7 +776,6 @@ fn implied_fwl(
     if rows.len() < 10 {
         return None;
     }
-    let t_m: Vec<f64> = rows.iter().map(|&i| p.tvdss[i] * to_m).collect();
     // each depth counts as much as its class is sure (a depth without a
     // probability counts fully)
     let weight = |i: usize| {
@@ -766,28 +785,27 @@ fn implied_fwl(
             .filter(|w| w.is_finite())
             .unwrap_or(1.0)
     };
-    let sse = |fwl_m: f64| -> f64 {
-        rows.iter()
-            .zip(&t_m)
-            .map(|(&i, t)| {
-                let s = model.swh(fwl_m - t, p.class[i], p.perm[i], p.phie[i], drho);
-                weight(i) * (p.sw[i] - s).powi(2)
-            })
-            .sum()
-    };
+    // what the FWL search needs of each kept depth, looked up once (the
+    // search evaluates every depth at hundreds of trial FWLs)
+    let kept: Vec<KeptDepth<'_>> = rows
+        .iter()
+        .map(|&i| KeptDepth {
+            t_m: p.tvdss[i] * to_m,
+            weight: weight(i),
+            sw: p.sw[i],
+            rock: model.rock(p.class[i], p.perm[i], p.phie[i]),
+        })
+        .collect();
+    let t_m: Vec<f64> = kept.iter().map(|d| d.t_m).collect();
+    let sse = |fwl_m: f64| -> f64 { kept.iter().map(|d| d.misfit(fwl_m, drho)).sum() };
     let top = t_m.iter().copied().fold(f64::INFINITY, f64::min) - 20.0;
     let bottom = t_m.iter().copied().fold(f64::NEG_INFINITY, f64::max) + 200.0;
     // coarse pass: 2 m steps on at most ~1000 rows
     let stride = (rows.len() / 1000).max(1);
     let sse_coarse = |fwl_m: f64| -> f64 {
-        rows.iter()
-            .zip(&t_m)
+        kept.iter()
             .step_by(stride)
-            .map(|(&i, t)| {
-                weight(i)
-                    * (p.sw[i] - model.swh(fwl_m - t, p.class[i], p.perm[i], p.phie[i], drho))
-                        .powi(2)
-            })
+            .map(|d| d.misfit(fwl_m, drho))
             .sum()
     };
     let coarse = (0..)
@@ -801,7 +819,7 @@ fn implied_fwl(
         .filter(|f| *f >= top && *f <= bottom)
         .map(|f| (f, sse(f)))
         .min_by(|a, b| a.1.total_cmp(&b.1))?;
-    let n: f64 = rows.iter().map(|&i| weight(i)).sum::<f64>().max(1e-9);
+    let n: f64 = kept.iter().map(|d| d.weight).sum::<f64>().max(1e-9);
     // independent values: the beds the kept depths come from (runs of
     // consecutive kept rows), never more than the segmentation found
     let runs = 1 + rows.windows(2).filter(|w| w[1] != w[0] + 1).count();
@@ -826,10 +844,11 @@ fn implied_fwl(
     // resampling the beds: the range also holds the FWLs that the well's
     // beds, drawn again with replacement, put the best fit at (16th-84th
     // percentile), so a few beds that pull the fit widen it
-    let boot = bed_bootstrap(&rows, fbest, |i, f| {
-        let t = p.tvdss[i] * to_m;
-        weight(i) * (p.sw[i] - model.swh(f - t, p.class[i], p.perm[i], p.phie[i], drho)).powi(2)
-    });
+    let mut position = vec![usize::MAX; p.sw.len()];
+    for (k, &i) in rows.iter().enumerate() {
+        position[i] = k;
+    }
+    let boot = bed_bootstrap(&rows, fbest, |i, f| kept[position[i]].misfit(f, drho));
     let upper = walk(-1.0).map(|f| f.min(boot.map_or(f, |b| b.0)) / to_m);
     let lower = walk(1.0).map(|f| f.max(boot.map_or(f, |b| b.1)) / to_m);
     let closed = upper.is_some() && lower.is_some();

@@ -803,6 +803,41 @@ fn compartments(
     Ok((out, left_out))
 }
 
+/// A rock's saturation-height function: its class curve and √(k/φ) looked
+/// up once, so that a search over free water levels (the contact audit's
+/// implied FWL) evaluates only what changes with height. Gives what
+/// [`SatHeightModel::swh`] gives, bit for bit.
+#[derive(Debug, Clone, Copy)]
+pub struct RockSwh<'a> {
+    /// The class's J-curve; `None` where the class or rock is undefined.
+    curve: Option<&'a JCurve>,
+    sqrt_k_phi: f64,
+    sigma_cos: f64,
+}
+
+impl RockSwh<'_> {
+    /// SWH at `h_m` m above the FWL with density contrast `delta_rho` (g/cm3):
+    /// 1 at or below the FWL, NaN for an undefined rock or height.
+    #[inline]
+    pub fn swh(&self, h_m: f64, delta_rho: f64) -> f64 {
+        if !h_m.is_finite() {
+            return f64::NAN;
+        }
+        if h_m <= 0.0 {
+            return 1.0;
+        }
+        let Some(curve) = self.curve else {
+            return f64::NAN;
+        };
+        let pc = pc_at_height_psi(h_m, delta_rho);
+        curve.sw(crate::sat_height::capillary::leverett_j_root(
+            pc,
+            self.sigma_cos,
+            self.sqrt_k_phi,
+        ))
+    }
+}
+
 impl SatHeightModel {
     /// A model from given class curves (class 1 first) and compartments, for
     /// audits and tests that do not read lab or pressure files.
@@ -858,21 +893,20 @@ impl SatHeightModel {
     /// (Leverett 1941; height to pressure by hydrostatics, formulas.md §8.3).
     /// NaN where the rock or class is undefined.
     pub fn swh(&self, h_m: f64, class: f64, k_md: f64, phi: f64, delta_rho: f64) -> f64 {
-        if !h_m.is_finite() {
-            return f64::NAN;
+        self.rock(class, k_md, phi).swh(h_m, delta_rho)
+    }
+
+    /// One rock's saturation-height function ([`RockSwh`]), for many heights.
+    pub fn rock(&self, class: f64, k_md: f64, phi: f64) -> RockSwh<'_> {
+        let defined = class.is_finite() && class >= 1.0 && k_md > 0.0 && phi > 0.0;
+        RockSwh {
+            curve: defined
+                .then(|| self.classes.get(class as usize - 1))
+                .flatten()
+                .map(|c| &c.curve),
+            sqrt_k_phi: (k_md / phi).sqrt(),
+            sigma_cos: self.sigma_cos_reservoir,
         }
-        if h_m <= 0.0 {
-            return 1.0;
-        }
-        if !(class.is_finite() && class >= 1.0 && k_md > 0.0 && phi > 0.0) {
-            return f64::NAN;
-        }
-        let Some(cj) = self.classes.get(class as usize - 1) else {
-            return f64::NAN;
-        };
-        let pc = pc_at_height_psi(h_m, delta_rho);
-        cj.curve
-            .sw(leverett_j(pc, self.sigma_cos_reservoir, k_md, phi))
     }
 
     /// Give a well's table HAFWL, SWH and SW_RESID (before FLAG). `None`, with

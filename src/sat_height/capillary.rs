@@ -34,7 +34,14 @@ pub fn leverett_constant() -> f64 {
 /// 142, 152-169 (field-unit form read via formulas.md §8.1).
 #[inline]
 pub fn leverett_j(pc_psi: f64, sigma_cos: f64, k_md: f64, phi: f64) -> f64 {
-    leverett_constant() * pc_psi / sigma_cos * (k_md / phi).sqrt()
+    leverett_j_root(pc_psi, sigma_cos, (k_md / phi).sqrt())
+}
+
+/// [`leverett_j`] with √(k/φ) (mD, v/v) already taken, for one rock at many
+/// pressures: the same arithmetic, so the same bits.
+#[inline]
+pub fn leverett_j_root(pc_psi: f64, sigma_cos: f64, sqrt_k_phi: f64) -> f64 {
+    leverett_constant() * pc_psi / sigma_cos * sqrt_k_phi
 }
 
 /// Capillary pressure (psi) of a rock of k (mD) and φ (v/v) at Leverett J:
