@@ -131,9 +131,10 @@ fn write_well_las(out: &Path, w: &SynthWell) -> Result<(), crate::output::Output
 }
 
 /// Write a synthetic bench field into `out`: `wells` LAS files
-/// (`synth-0001.las`, ...) of about `depths` samples each, `zones.csv`, and
+/// (`synth-0001.las`, ...) of about `depths` samples each, `zones.csv`,
 /// `field.toml`, which runs the stages read, shale volume, porosity and
-/// saturation on them. Wells are generated in parallel; the files depend only
+/// saturation on them, and the core, capillary and pressure tables of a few
+/// cored wells with `field-full.toml`, which runs every stage. Wells are generated in parallel; the files depend only
 /// on `seed`, `wells` and `depths`.
 pub fn write_field(out: &Path, wells: usize, depths: usize, seed: u64) -> Result<(), Error> {
     if wells == 0 {
@@ -167,6 +168,13 @@ pub fn write_field(out: &Path, wells: usize, depths: usize, seed: u64) -> Result
         &out.join("field.toml"),
         &synth::field_config(wells, depths, seed),
     )?;
+    for (name, text) in synth::field_tables(seed, wells, depths) {
+        write_text(&out.join(name), &text)?;
+    }
+    write_text(
+        &out.join("field-full.toml"),
+        &synth::field_full_config(wells, depths, seed),
+    )?;
     let ours: std::collections::BTreeSet<&str> = written.iter().map(|w| w.0.as_str()).collect();
     let others = std::fs::read_dir(out)
         .map(|rd| {
@@ -183,7 +191,7 @@ pub fn write_field(out: &Path, wells: usize, depths: usize, seed: u64) -> Result
         );
     }
     note!(
-        "wrote a synthetic field ({wells} wells of ~{depths} samples, seed {seed}) and field.toml to {}",
+        "wrote a synthetic field ({wells} wells of ~{depths} samples, seed {seed}), field.toml and field-full.toml to {}",
         out.display()
     );
     Ok(())

@@ -875,8 +875,10 @@ struct Plug {
 
 /// Cored intervals: (well index, from, to) in m TVD below top Upper Kell.
 const CORE_PLAN: [(usize, f64, f64); 3] = [(1, 2.0, 34.0), (2, -1.0, 55.0), (4, 36.0, 75.0)];
-/// Pressure surveys: (well index, oil points, water points, index of the one poor test).
-const PRESSURE_PLAN: [(usize, usize, usize, Option<usize>); 5] = [
+/// A pressure survey: (well index, oil points, water points, index of the one poor test).
+type PressureSurvey = (usize, usize, usize, Option<usize>);
+/// The demo's pressure surveys.
+const PRESSURE_PLAN: [PressureSurvey; 5] = [
     (0, 7, 5, None),
     (1, 7, 4, Some(2)),
     (2, 6, 6, None),
@@ -894,14 +896,22 @@ fn probe_ok(b: &Bed, tv: f64, min_class: u8) -> bool {
     b.class >= min_class && tv - b.top > PLUG_EDGE_M && b.base - tv > PLUG_EDGE_M
 }
 
-/// Core plugs along CORE_PLAN; pushes the core.csv rows and returns the plugs.
-fn core_plugs(seed: u64, models: &[WellModel], rows: &mut Vec<String>) -> Vec<Plug> {
+/// Core plugs along `plan` ((well index into `models`, from, to) in m TVD
+/// below top Upper Kell), the core of well `shifted` reported
+/// CORE_SHIFT_M deep; pushes the core.csv rows and returns the plugs.
+fn core_plugs(
+    seed: u64,
+    models: &[WellModel],
+    plan: &[(usize, f64, f64)],
+    shifted: Option<usize>,
+    rows: &mut Vec<String>,
+) -> Vec<Plug> {
     let mut rng = sub_rng(seed, STREAM_CORE);
     let mut plugs = Vec::new();
-    for &(wi, from, to) in &CORE_PLAN {
+    for &(wi, from, to) in plan {
         let Some(m) = models.get(wi) else { continue };
         let (f, name, unit) = (unit_factor(&m.spec), &m.spec.name, unit_name(&m.spec));
-        let shift = if wi == CORE_SHIFT_WELL {
+        let shift = if shifted == Some(wi) {
             CORE_SHIFT_M / f
         } else {
             0.0
@@ -978,10 +988,10 @@ fn capillary_rows(seed: u64, plugs: &[Plug], models: &[WellModel]) -> Vec<String
 }
 
 /// Formation-pressure points on the compartment's oil and water gradients.
-fn pressure_rows(seed: u64, models: &[WellModel]) -> Vec<String> {
+fn pressure_rows(seed: u64, models: &[WellModel], plan: &[PressureSurvey]) -> Vec<String> {
     let mut rng = sub_rng(seed, STREAM_PRESSURE);
     let mut rows = Vec::new();
-    for &(wi, n_oil, n_water, poor) in &PRESSURE_PLAN {
+    for &(wi, n_oil, n_water, poor) in plan {
         let Some(m) = models.get(wi) else { continue };
         let Compartment(_, fwl, p_fwl) = m.spec.compartment;
         let [top, _, base] = m.spec.tops;
@@ -1034,7 +1044,13 @@ pub fn generate(seed: u64) -> SynthField {
     let models: Vec<WellModel> = (0..8).map(|i| plan_well(seed, well_spec(i))).collect();
     let wells = models.iter().map(|m| render_well(seed, m)).collect();
     let mut core_rows = Vec::new();
-    let plugs = core_plugs(seed, &models, &mut core_rows);
+    let plugs = core_plugs(
+        seed,
+        &models,
+        &CORE_PLAN,
+        Some(CORE_SHIFT_WELL),
+        &mut core_rows,
+    );
     let mut zone_rows = Vec::new();
     for m in &models {
         let (name, unit) = (&m.spec.name, unit_name(&m.spec));
@@ -1047,7 +1063,7 @@ pub fn generate(seed: u64) -> SynthField {
     let survey = survey.map(|[md, inc, azi]| format!("{md:.2},{inc:.2},{azi:.2}"));
     let (cap, pres) = (
         capillary_rows(seed, &plugs, &models),
-        pressure_rows(seed, &models),
+        pressure_rows(seed, &models, &PRESSURE_PLAN),
     );
     let tables = vec![
         table("core.csv", CORE_HEADER, core_rows),
@@ -1210,6 +1226,17 @@ const FIELD_EKB_M: (f64, f64) = (24.0, 36.0);
 const FIELD_UPPER_SHARE: (f64, f64) = (0.40, 0.50);
 /// The field's FWL lies this share of the reservoir thickness below the crest's top.
 const FIELD_FWL_SHARE: f64 = 0.55;
+/// Pressure at the surface, psi: the bench field is normally pressured, water
+/// gradient from the surface to its FWL (scenario choice).
+const FIELD_SURFACE_PSI: f64 = 14.7;
+/// One bench well in this many is cored (the first included), at most
+/// FIELD_CORED_MAX wells; each cored well also has a pressure survey.
+const FIELD_CORED_EVERY: usize = 20;
+const FIELD_CORED_MAX: usize = 12;
+/// A bench well's cored interval, m TVD below top Upper Kell.
+const FIELD_CORE_M: (f64, f64) = (2.0, 40.0);
+/// Pressure points per bench survey above and below the FWL.
+const FIELD_PRESSURE_POINTS: (usize, usize) = (6, 4);
 /// SP: shale baseline 0 mV, clean-sand deflection and noise (1σ), mV (scenario choices).
 const SP_CLEAN_MV: f64 = -70.0;
 const SP_NOISE_MV: f64 = 1.5;
@@ -1252,7 +1279,11 @@ fn field_spec(seed: u64, idx: usize, depths: usize) -> WellSpec {
         name: format!("Synth-{:04}", idx + 1),
         feet: false,
         deviated: false,
-        compartment: Compartment("Field", fwl, f64::NAN),
+        compartment: Compartment(
+            "Field",
+            fwl,
+            FIELD_SURFACE_PSI + PSI_PER_M_PER_GCC * RHO_W * fwl,
+        ),
         ekb,
         tops: [top, top + upper, top + thick],
         grid_en: (east, north),
@@ -1297,6 +1328,78 @@ pub fn field_well(seed: u64, idx: usize, depths: usize) -> (SynthWell, Vec<Strin
     (w, zone_rows)
 }
 
+/// The cored wells of a bench field of `wells` wells (0-based indices,
+/// spread evenly, the first included).
+pub fn field_cored_wells(wells: usize) -> Vec<usize> {
+    let n = (wells / FIELD_CORED_EVERY)
+        .clamp(1, FIELD_CORED_MAX)
+        .min(wells);
+    (0..n).map(|k| k * wells / n).collect()
+}
+
+/// The bench field's core, capillary-pressure and formation-pressure tables
+/// (file name, CSV text), from its cored wells ([`field_cored_wells`]): the
+/// demo's sampling (plugs every 0.3-0.5 m, 2-3 capillary curves per class,
+/// pressure points clear of bed boundaries) on the bench wells' own beds.
+pub fn field_tables(seed: u64, wells: usize, depths: usize) -> Vec<(String, String)> {
+    let cored = field_cored_wells(wells);
+    let models: Vec<WellModel> = cored
+        .iter()
+        .map(|&i| plan_well(seed, field_spec(seed, i, depths)))
+        .collect();
+    let core_plan: Vec<(usize, f64, f64)> = (0..models.len())
+        .map(|k| (k, FIELD_CORE_M.0, FIELD_CORE_M.1))
+        .collect();
+    let pressure_plan: Vec<PressureSurvey> = (0..models.len())
+        .map(|k| (k, FIELD_PRESSURE_POINTS.0, FIELD_PRESSURE_POINTS.1, None))
+        .collect();
+    let mut core_rows = Vec::new();
+    let plugs = core_plugs(seed, &models, &core_plan, None, &mut core_rows);
+    vec![
+        table("core.csv", CORE_HEADER, core_rows),
+        table(
+            "capillary.csv",
+            CAP_HEADER,
+            capillary_rows(seed, &plugs, &models),
+        ),
+        table(
+            "pressures.csv",
+            PRESSURE_HEADER,
+            pressure_rows(seed, &models, &pressure_plan),
+        ),
+    ]
+}
+
+/// Text of a bench field's `field-full.toml`: `field.toml`'s stages, then
+/// classes from core (the FZI ladder the demo uses, a random forest on the
+/// logs), Archie exponents per class (the forward model's), the
+/// saturation-height model from the capillary curves and the pressures, and
+/// the contact audit.
+pub fn field_full_config(wells: usize, depths: usize, seed: u64) -> String {
+    let mut s = String::from(
+        "# field-full.toml: the whole pipeline on the bench field (the stages of\n\
+# field.toml, then hydraulic classes from core, class-aware SW, the\n\
+# saturation-height model and the contact audit).\n",
+    );
+    s += &field_config(wells, depths, seed);
+    s += "\n[core]\nfile = \"core.csv\"\n\n\
+[classes]\nuse = \"fzi\"\nperm-method = \"fzi\"\n\n\
+[classes.scheme.fzi]\nkind = \"fzi-ladder\"\nbounds = [0.63, 1.58, 3.7]\n\n\
+[predictor]\nfeatures = [\"VSH\", \"PHIE\", \"RHOB\", \"NPHI\", \"DT\", \"LOG10_RT\"]\n";
+    for (k, c) in CLASSES.iter().enumerate() {
+        s += &format!(
+            "\n[parameters.class.\"{}\"]\narchie-m = {:.1}\narchie-n = {:.1}\n",
+            k + 1,
+            c.m,
+            c.n
+        );
+    }
+    s += "\n[capillary]\nfile = \"capillary.csv\"\n\n\
+[pressures]\nfile = \"pressures.csv\"\n\n\
+[compartments.\"Field\"]\n# every well\n";
+    s
+}
+
 /// Text of a bench field's `field.toml`: the stages read, shale volume, porosity and
 /// water saturation only (no core, classes or capillary data), with the values the
 /// model was built with; `wells` and `depths` only go into the comments.
@@ -1317,7 +1420,7 @@ depth-unit = \"m\"\n\
 wells = [\".\"]\n\
 \n\
 [output]\n\
-formats = [\"las\"]\n\
+formats = [\"csv\"]\n\
 decimals = 4\n\
 # the HTML report is left out of the pipeline benchmark (its cost is measured apart)\n\
 report = false\n\

@@ -6,7 +6,7 @@ use std::path::{Path, PathBuf};
 
 use polars::prelude::{DataType, ParquetReader, SerReader};
 
-use crate::common::{col, files, read_table, root, run_config, run_demo_field};
+use crate::common::{col, files, flowzone, read_table, root, run_config, run_demo_field};
 
 /// `dir`'s files (shard states aside) are `expected`'s, byte for byte.
 #[track_caller]
@@ -393,4 +393,93 @@ fn zone_summary_against_tops_and_truth() {
         }
     }
     assert!(checked >= 16, "{checked} zones checked");
+}
+
+/// The bench field's whole pipeline (`demo --wells`, then field-full.toml:
+/// classes from core, saturation-height, contacts): every well succeeds, the
+/// outputs are the same bytes on 1 and 2 threads, and the manifest's timings
+/// name every stage of the chain (what `benches/field.sh` reads).
+#[test]
+fn bench_field_full_pipeline_is_the_same_on_any_thread_count() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let wells = dir.path().join("wells");
+    let made = flowzone()
+        .args(["demo", "--wells", "24", "--depths", "2500", "--out"])
+        .arg(&wells)
+        .output()
+        .expect("runs");
+    assert!(
+        made.status.success(),
+        "{}",
+        String::from_utf8_lossy(&made.stderr)
+    );
+    for table in [
+        "core.csv",
+        "capillary.csv",
+        "pressures.csv",
+        "field-full.toml",
+    ] {
+        assert!(wells.join(table).is_file(), "no {table}");
+    }
+    let cfg = wells.join("field-full.toml");
+    let (one, two) = (dir.path().join("t1"), dir.path().join("t2"));
+    let run = run_config(&cfg, &one, &["--threads", "1", "--timings"]);
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+    assert!(String::from_utf8_lossy(&run.stderr).contains("timings (s):"));
+    let run = run_config(&cfg, &two, &["--threads", "2"]);
+    assert!(
+        run.status.success(),
+        "{}",
+        String::from_utf8_lossy(&run.stderr)
+    );
+    let summary: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(one.join("run-summary.json")).expect("summary"))
+            .expect("json");
+    assert_eq!(summary["wells_failed"], 0);
+    assert!(summary["classes"].is_object() && summary["saturation_height"].is_object());
+    assert!(one.join("contacts.csv").is_file());
+    assert_same_files(&files(&one), &two, "2 threads against 1");
+    let manifest: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(one.join("run-manifest.json")).expect("manifest"))
+            .expect("json");
+    let t = &manifest["timings"];
+    let steps = |key: &str| -> Vec<(String, f64)> {
+        t[key]
+            .as_array()
+            .expect("steps")
+            .iter()
+            .map(|s| {
+                (
+                    s["step"].as_str().unwrap_or("").to_string(),
+                    s["seconds"].as_f64().unwrap_or(-1.0),
+                )
+            })
+            .collect()
+    };
+    let stages = steps("well_stages");
+    let names: Vec<&str> = stages.iter().map(|s| s.0.as_str()).collect();
+    for stage in [
+        "read",
+        "logs",
+        "classes",
+        "saturation-height",
+        "contacts",
+        "well files",
+        "field table",
+    ] {
+        assert!(names.contains(&stage), "no stage {stage} in {names:?}");
+    }
+    assert!(stages.iter().all(|s| s.1 >= 0.0));
+    let worked = |name: &str| stages.iter().any(|s| s.0 == name && s.1 > 0.0);
+    assert!(worked("read") && worked("classes") && worked("contacts"));
+    assert!(
+        steps("setup")
+            .iter()
+            .any(|s| s.0.starts_with("class model"))
+    );
+    assert!(t["wells_wall_seconds"].as_f64().is_some_and(|s| s > 0.0));
 }
