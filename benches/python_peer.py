@@ -1,6 +1,6 @@
 """Plain-Python peer of `flowzone run` on a synthetic bench field.
 
-Usage: .venv/bin/python benches/python_peer.py FIELD_DIR [--limit K] [--compare RUN_OUT/wells]
+Usage: .venv/bin/python benches/python_peer.py FIELD_DIR [--limit K] [--write DIR] [--compare RUN_OUT/wells]
 
 FIELD_DIR is a folder written by `flowzone demo --out FIELD_DIR --wells N`.
 For every LAS file of the folder, in name order, in one process and one thread
@@ -16,10 +16,13 @@ interpreted, as in flowzone), leaving out samples whose inputs are outside
 flowzone's physical ranges. Every parameter is read from FIELD_DIR/field.toml
 ([parameters.field]), so both tools use the same values. The curve names are the
 ones the synthetic field uses (GR, RHOB, NPHI, RT, CALI, BS; no alias or unit
-resolution). Nothing big is written: it prints the elapsed time and a one-line
-summary.
+resolution). It prints the elapsed time and a one-line summary.
 
---compare DIR reads flowzone's output LAS files of the same wells from DIR and
+--write DIR writes each well's table as CSV to DIR (numpy.savetxt, 4 decimals:
+DEPTH, the computed VSH, PHIT, PHIE, SW, BVW and the eight logs, 14 columns
+against flowzone's 16), the same work flowzone's per-well CSV does.
+
+--compare DIR reads flowzone's per-well CSV files of the same wells from DIR and
 prints the largest difference of VSH, PHIE and SW (flowzone writes 4 decimals).
 """
 import argparse
@@ -105,6 +108,7 @@ def main():
     ap = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     ap.add_argument("field_dir")
     ap.add_argument("--limit", type=int, default=None, help="only the first K wells")
+    ap.add_argument("--write", default=None, help="write each well's CSV to this folder")
     ap.add_argument("--compare", default=None, help="flowzone run's OUT/wells folder")
     args = ap.parse_args()
 
@@ -116,6 +120,8 @@ def main():
         files = files[: args.limit]
     if not files:
         sys.exit(f"python_peer: no LAS files in {args.field_dir}")
+    if args.write:
+        os.makedirs(args.write, exist_ok=True)
     wells = samples = interpreted = 0
     sum_phie = sum_sw = 0.0
     worst = {"VSH": 0.0, "PHIE": 0.0, "SW": 0.0}
@@ -130,8 +136,25 @@ def main():
             interpreted += int(good.sum())
             sum_phie += float(np.nansum(out["PHIE"]))
             sum_sw += float(np.nansum(out["SW"]))
+            if args.write:
+                logs = [c.mnemonic for c in las.curves[1:]]
+                table = np.column_stack(
+                    [las.index] + [out[c] for c in ("VSH", "PHIT", "PHIE", "SW", "BVW")] + [las[m] for m in logs]
+                )
+                np.savetxt(
+                    os.path.join(args.write, name[:-4] + ".csv"),
+                    table,
+                    fmt="%.4f",
+                    delimiter=",",
+                    header=",".join(["DEPTH", "VSH", "PHIT", "PHIE", "SW", "BVW"] + logs),
+                    comments="",
+                )
             if args.compare:
-                theirs = lasio.read(os.path.join(args.compare, name))
+                theirs = np.genfromtxt(
+                    os.path.join(args.compare, name[:-4].lower() + ".csv"),
+                    delimiter=",",
+                    names=True,
+                )
                 for c in worst:
                     d = np.abs(out[c] - theirs[c])
                     both_nan = np.isnan(out[c]) & np.isnan(theirs[c])
