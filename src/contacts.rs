@@ -160,14 +160,20 @@ pub fn segment(x: &[f64], min_len: usize, penalty: f64) -> Vec<usize> {
     // (t, T] to be a valid segment, so with a minimum length a candidate
     // pruned at t still serves every T < t + min_len
     let mut cands: Vec<(usize, usize)> = vec![(0, usize::MAX)];
+    // F(s) + C(s, t) of each candidate at this t, kept for the pruning test
+    // (one cost evaluation per candidate, not two: the search's inner loop)
+    let mut fc: Vec<f64> = Vec::new();
     for t in min_len..=n {
         if t >= 2 * min_len && f[t - min_len].is_finite() {
             cands.push((t - min_len, usize::MAX));
         }
         cands.retain(|&(_, drop_at)| t < drop_at);
+        fc.clear();
         let (mut best, mut arg) = (f64::INFINITY, 0);
         for &(s, _) in &cands {
-            let v = f[s] + cost(s, t) + penalty;
+            let here = f[s] + cost(s, t);
+            fc.push(here);
+            let v = here + penalty;
             if v < best {
                 best = v;
                 arg = s;
@@ -175,8 +181,8 @@ pub fn segment(x: &[f64], min_len: usize, penalty: f64) -> Vec<usize> {
         }
         f[t] = best;
         last[t] = arg;
-        for c in &mut cands {
-            if c.1 == usize::MAX && f[c.0] + cost(c.0, t) > f[t] {
+        for (c, &here) in cands.iter_mut().zip(&fc) {
+            if c.1 == usize::MAX && here > best {
                 c.1 = t + min_len;
             }
         }
