@@ -15,14 +15,13 @@
 #   python  benches/python_peer.py: lasio + numpy, the logs stages and per-well
 #           CSV, sequential in one process.
 # Every run writes into a fresh folder, after `sync`, so dirty pages from the
-# run before do not slow the next. Where the page cache can be dropped (root
-# on Linux), it is dropped before each timed run and the inputs, the binary
-# and the Python stack read again, so every run starts with its inputs in
-# memory and the earlier runs' outputs out of it (writing gigabytes into a
-# full cache otherwise made the kernel's share of a run grow with the field:
-# 0.2 s of system time at 200 wells, 3.5 s at 1 000). Elsewhere the files are
-# read once before timing. Per-stage seconds come from each run's
-# run-manifest.json (`run --timings` prints the same).
+# run before do not slow the next; the files are read once before timing, so
+# every tool reads from the page cache. User and system CPU are shown apart:
+# the system share is the kernel copying the outputs into the page cache,
+# and on a virtual machine it grows with the memory the guest touches for
+# the first time (0.16 s of 1.08 s at 200 wells, 3.5-7.7 s of 8-12 s at
+# 1 000 wells on the VM of the README's table; dropping the page cache
+# between runs made it worse there, as freed pages go back to the host).
 #
 # Usage: benches/field.sh [N...]          (default: 200 1000)
 # Environment: DEPTHS (samples per well, 10000), SEED (20250611),
@@ -79,11 +78,6 @@ timed() {
     local name=$1
     shift
     sync
-    if [ -w /proc/sys/vm/drop_caches ] && [ -n "${WARM_DIR:-}" ]; then
-        echo 1 >/proc/sys/vm/drop_caches
-        cat "$WARM_DIR"/* "$RUN_BIN" "$BARE" >/dev/null 2>&1 || true
-        "$PYTHON" -c 'import lasio, numpy' >/dev/null 2>&1 || true
-    fi
     if ! /usr/bin/time -f '%e %U %S %M' -o "$tmp/$name" "$@"; then
         echo "benches/field.sh: $name failed: $(head -1 "$tmp/$name")" >&2
         exit 1
@@ -123,7 +117,6 @@ for n in "${SIZES[@]}"; do
     dir=$BENCH_OUT/n$n
     rm -rf "$dir"
     mkdir -p "$dir"
-    WARM_DIR=''
     echo
     echo "== N = $n (load average before: $(cut -d' ' -f1-3 /proc/loadavg))"
     timed gen "$BIN" demo --out "$dir/wells" --wells "$n" --depths "$DEPTHS" --seed "$SEED"
@@ -131,7 +124,6 @@ for n in "${SIZES[@]}"; do
     bytes=$(cat "${files[@]}" | wc -c) # also warms the page cache
     mb=$(awk -v b="$bytes" 'BEGIN {printf "%.1f", b / 1e6}')
     echo "generated ${#files[@]} wells, $mb MB in $gen_wall s"
-    WARM_DIR=$dir/wells
 
     timed bare "$BARE" "$dir/wells" >/dev/null
     echo "bare parse (1 process): $bare_wall s wall, $bare_cpu s CPU"
@@ -158,8 +150,9 @@ for n in "${SIZES[@]}"; do
     # not timed: the peer's numbers against flowzone's CSV on the first wells
     "$PYTHON" benches/python_peer.py "$dir/wells" --limit 3 --compare "$dir/logs-t1/wells" | tail -1
 
-    logs_rows+=("$(printf '| %s | %s | %s | %s | %s (%s + %s) | %s | %s | %s | %s | %s | %s | %s |' \
-        "$n" "$mb" "$bare_cpu" "$read_cpu" "$logs1_cpu" "$logs1_user" "$logs1_sys" "$(ratio "$logs1_cpu" "$bare_cpu")" \
+    logs_rows+=("$(printf '| %s | %s | %s | %s | %s (%s + %s) | %s (%s) | %s | %s | %s | %s | %s | %s |' \
+        "$n" "$mb" "$bare_cpu" "$read_cpu" "$logs1_cpu" "$logs1_user" "$logs1_sys" \
+        "$(ratio "$logs1_cpu" "$bare_cpu")" "$(ratio "$logs1_user" "$bare_user")" \
         "$logs1_wall" "$logs2_wall" "$(ratio "$logs1_wall" "$logs2_wall")" "$logs2_mb" \
         "$py_cpu" "$(ratio "$py_cpu" "$logs1_cpu")")")
 
@@ -185,7 +178,7 @@ done
 echo
 echo "machine: $CORES CPUs ($cpu), ${mem_gb} GiB memory; seconds; CPU = user + sys"
 echo
-echo "| wells | LAS MB | bare parse CPU | read CPU | logs 1 thread CPU (user + system) | / bare | logs 1 thread wall | logs 2 threads wall | speed-up | peak MB | Python CPU | Python / logs |"
+echo "| wells | LAS MB | bare parse CPU | read CPU | logs 1 thread CPU (user + system) | / bare (user / bare user) | logs 1 thread wall | logs 2 threads wall | speed-up | peak MB | Python CPU | Python / logs |"
 echo "|---|---|---|---|---|---|---|---|---|---|---|---|"
 for r in "${logs_rows[@]}"; do echo "$r"; done
 if [ "${#full_rows[@]}" -gt 0 ]; then

@@ -24,8 +24,8 @@ use crate::field::outputs::{contact_outputs, saturation_outputs};
 use crate::field::setup::FieldSetup;
 use crate::output;
 use crate::output::write_json;
-use crate::pipeline::timings::{RunTimings, Stage, StageTimes, timed};
 use crate::pipeline::{self, Models, WellReport};
+use crate::timings::{RunTimings, Stage, StageTimes, timed};
 use crate::well::WellError;
 
 /// The run summary (also written as run-summary.json).
@@ -217,7 +217,7 @@ pub fn finish(
         if progress {
             note!("report: {}", out.join(page).display());
         }
-        (timings.finish).push(crate::pipeline::timings::Timed::since(
+        (timings.finish).push(crate::timings::Timed::since(
             "field report page",
             report_start,
         ));

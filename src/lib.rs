@@ -18,7 +18,7 @@
 //! - [`pipeline`]: [`pipeline::run_well`], the one place that chains the stages for a well.
 //! - [`field`]: the field run: wells in parallel or in shards, the journal, field-level outputs.
 //! - [`config`]: the project config (TOML); [`units`]: unit spellings and conversions.
-//! - [`stats`]: the shared statistics; [`error`]: the error a command ends with.
+//! - [`stats`]: the shared statistics; [`timings`]: seconds per stage; [`error`]: the error a command ends with.
 //! - [`cli`]: the command line and the `inspect` and `export` commands.
 //! - `demo`: the synthetic forward model behind the invented demo field.
 //!
@@ -40,5 +40,6 @@ pub mod pipeline;
 pub(crate) mod report;
 pub mod sat_height;
 pub mod stats;
+pub mod timings;
 pub mod units;
 pub mod well;

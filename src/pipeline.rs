@@ -14,8 +14,6 @@
 //! no `[capillary]`) is skipped, and the well keeps what the earlier stages
 //! gave it.
 
-pub mod timings;
-
 use std::path::Path;
 
 use serde::{Deserialize, Serialize};
@@ -23,8 +21,8 @@ use serde::{Deserialize, Serialize};
 use crate::classes::stage::{ClassCounts, ClassSetup};
 use crate::contacts::WellAudit;
 use crate::output::schema::Col;
-use crate::pipeline::timings::{Stage, StageTimes};
 use crate::sat_height::{SatHeightModel, WellSatHeight};
+use crate::timings::{Stage, StageTimes};
 use crate::well::summary::ZoneSummary;
 use crate::well::{self, RunContext, WellError, WellOutput};
 

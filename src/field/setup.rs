@@ -11,8 +11,8 @@ use crate::field::safety::{check_inputs_outside, check_out_dir};
 use crate::output::file_stem;
 use crate::output::schema::Col;
 use crate::pipeline::Models;
-use crate::pipeline::timings::{RunTimings, timed};
 use crate::sat_height::TvdssError;
+use crate::timings::{RunTimings, timed};
 use crate::well;
 
 /// What every well of a run shares, made once before the wells: the files

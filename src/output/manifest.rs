@@ -49,7 +49,7 @@ pub struct Manifest {
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub shards: Vec<ShardRun>,
     /// Where the time went: setup, well stages, field outputs.
-    pub timings: crate::pipeline::timings::RunTimings,
+    pub timings: crate::timings::RunTimings,
 }
 
 /// One shard run (`run --shard K/N`) as the merge's manifest records it.
@@ -192,7 +192,7 @@ pub fn build(
         wells_total: counts.0,
         wells_failed: counts.1,
         shards: Vec::new(),
-        timings: crate::pipeline::timings::RunTimings::default(),
+        timings: crate::timings::RunTimings::default(),
     }
 }
 
