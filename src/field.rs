@@ -217,10 +217,8 @@ pub fn finish(
         if progress {
             note!("report: {}", out.join(page).display());
         }
-        (timings.finish).push(crate::timings::Timed::since(
-            "field report page",
-            report_start,
-        ));
+        let step = crate::timings::Timed::since("field report page", report_start);
+        timings.finish.push(step);
     }
     let summary = RunSummary {
         tool: format!("flowzone {}", env!("CARGO_PKG_VERSION")),
