@@ -1410,7 +1410,8 @@ pub fn field_config(wells: usize, depths: usize, seed: u64) -> String {
 # Tarnby Ridge forward model (field, operator, wells and numbers are made up).\n\
 # Run: flowzone run --config field.toml --out OUT   (OUT outside this folder)\n\
 # Stages: read, shale volume, porosity, water saturation. The parameters are the\n\
-# ones the model was built with (Archie m = n = 2 for every rock).\n\
+# ones the model was built with, except Archie m and n: the model's rock classes\n\
+# have 1.8-2.1, which field-full.toml sets per class; here m = n = 2 throughout.\n\
 \n\
 [project]\n\
 name = \"Tarnby Ridge synthetic field ({wells} wells, seed {seed})\"\n\
