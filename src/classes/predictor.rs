@@ -177,7 +177,12 @@ impl Forest {
     /// The trees as flat node arrays, when every tree could be read.
     fn flat_trees(&self) -> Option<&[flat::FlatTree]> {
         self.flat
-            .get_or_init(|| self.trees.iter().map(flat::flatten).collect())
+            .get_or_init(|| {
+                self.trees
+                    .iter()
+                    .map(|t| flat::flatten(t, self.n_features))
+                    .collect()
+            })
             .as_deref()
     }
 
@@ -274,15 +279,26 @@ fn flat_votes(
     block: &[usize],
     n_classes: usize,
 ) -> Result<Vec<u16>, PredictError> {
+    let row = |r: usize| &x[r * nf..(r + 1) * nf];
     let mut votes = vec![0u16; block.len() * n_classes];
+    let mut vote = |i: usize, label: u32| -> Result<(), PredictError> {
+        let slot = votes
+            .get_mut(i * n_classes + label as usize)
+            .filter(|_| (label as usize) < n_classes)
+            .ok_or_else(|| PredictError::Forest(format!("a tree voted for class {label}")))?;
+        *slot += 1;
+        Ok(())
+    };
+    let lanes = block.len() / flat::LANES * flat::LANES;
     for tree in trees {
-        for (i, &r) in block.iter().enumerate() {
-            let label = tree
-                .predict(&x[r * nf..(r + 1) * nf])
-                .map(|c| c as usize)
-                .filter(|&c| c < n_classes)
-                .ok_or_else(|| PredictError::Forest("a tree of the forest is malformed".into()))?;
-            votes[i * n_classes + label] += 1;
+        for (g, group) in block[..lanes].chunks_exact(flat::LANES).enumerate() {
+            let labels = tree.predict_lanes(std::array::from_fn(|k| row(group[k])));
+            for (k, label) in labels.into_iter().enumerate() {
+                vote(g * flat::LANES + k, label)?;
+            }
+        }
+        for (i, &r) in block.iter().enumerate().skip(lanes) {
+            vote(i, tree.predict(row(r)))?;
         }
     }
     Ok(votes)
@@ -678,11 +694,13 @@ mod tests {
             let m = matrix(&probe, 3).expect("matrix");
             for (tree, t) in forest.trees.iter().zip(trees) {
                 let theirs = tree.predict(&m).expect("smartcore predicts");
-                let ours: Vec<u32> = probe
-                    .chunks_exact(3)
-                    .map(|r| t.predict(r).expect("leaf"))
-                    .collect();
+                let ours: Vec<u32> = probe.chunks_exact(3).map(|r| t.predict(r)).collect();
                 assert_eq!(ours, theirs);
+                let lanes: Vec<u32> = probe
+                    .chunks_exact(3 * flat::LANES)
+                    .flat_map(|g| t.predict_lanes(std::array::from_fn(|k| &g[3 * k..3 * k + 3])))
+                    .collect();
+                assert_eq!(lanes, theirs[..lanes.len()]);
             }
         }
     }
