@@ -231,3 +231,25 @@ pub fn files(dir: &Path) -> std::collections::BTreeMap<PathBuf, Vec<u8>> {
     }
     out
 }
+
+/// `flowzone demo --wells N --depths M --out DIR`, which must succeed: a
+/// synthetic bench field (LAS files, tables, field.toml, field-full.toml).
+pub fn bench_field(dir: &Path, wells: usize, depths: usize) {
+    let made = flowzone()
+        .args([
+            "demo",
+            "--wells",
+            &wells.to_string(),
+            "--depths",
+            &depths.to_string(),
+            "--out",
+        ])
+        .arg(dir)
+        .output()
+        .expect("runs");
+    assert!(
+        made.status.success(),
+        "{}",
+        String::from_utf8_lossy(&made.stderr)
+    );
+}

@@ -6,7 +6,7 @@ use std::path::{Path, PathBuf};
 
 use polars::prelude::{DataType, ParquetReader, SerReader};
 
-use crate::common::{col, files, flowzone, read_table, root, run_config, run_demo_field};
+use crate::common::{bench_field, col, files, read_table, root, run_config, run_demo_field};
 
 /// `dir`'s files (shard states aside) are `expected`'s, byte for byte.
 #[track_caller]
@@ -403,16 +403,7 @@ fn zone_summary_against_tops_and_truth() {
 fn bench_field_full_pipeline_is_the_same_on_any_thread_count() {
     let dir = tempfile::tempdir().expect("temp dir");
     let wells = dir.path().join("wells");
-    let made = flowzone()
-        .args(["demo", "--wells", "24", "--depths", "2500", "--out"])
-        .arg(&wells)
-        .output()
-        .expect("runs");
-    assert!(
-        made.status.success(),
-        "{}",
-        String::from_utf8_lossy(&made.stderr)
-    );
+    bench_field(&wells, 24, 2500);
     for table in [
         "core.csv",
         "capillary.csv",

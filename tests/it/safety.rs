@@ -6,7 +6,7 @@
 use std::path::{Path, PathBuf};
 use std::time::{Duration, Instant};
 
-use crate::common::{files, flowzone, root, run_config};
+use crate::common::{bench_field, files, flowzone, root, run_config};
 
 #[test]
 fn reruns_need_overwrite_and_inputs_are_never_written() {
@@ -75,23 +75,20 @@ fn reruns_need_overwrite_and_inputs_are_never_written() {
 fn a_killed_run_leaves_whole_files_and_a_journal() {
     let dir = tempfile::tempdir().expect("temp dir");
     let wells = dir.path().join("field");
-    let made = flowzone()
-        .args(["demo", "--wells", "60", "--depths", "8000", "--out"])
-        .arg(&wells)
-        .output()
-        .expect("runs");
-    assert!(
-        made.status.success(),
-        "{}",
-        String::from_utf8_lossy(&made.stderr)
-    );
-    // CSV and the report too, so each well takes a while to write
+    bench_field(&wells, 60, 8000);
+    // LAS and the report too, so each well takes a while to write
     let cfg = wells.join("field.toml");
     let text = std::fs::read_to_string(&cfg).expect("config");
-    let text = text
-        .replace("formats = [\"las\"]", "formats = [\"las\", \"csv\"]")
+    let edited = text
+        .replace("formats = [\"csv\"]", "formats = [\"las\", \"csv\"]")
         .replace("report = false", "report = true");
-    std::fs::write(&cfg, text).expect("config");
+    assert_eq!(
+        edited.matches("formats = [\"las\", \"csv\"]").count()
+            + edited.matches("report = true").count(),
+        2,
+        "the bench field.toml no longer has the lines this test edits"
+    );
+    std::fs::write(&cfg, edited).expect("config");
 
     let reference = dir.path().join("reference");
     let run = run_config(&cfg, &reference, &["--threads", "1"]);
