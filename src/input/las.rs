@@ -1228,6 +1228,39 @@ mod tests {
             .collect()
     }
 
+    /// LAS 2.0 puts ~A last (CWLS LAS 2.0, section ~A). A section after it
+    /// ends the data, found in the same pass as the numbers: the rows before
+    /// it are read, the rest is skipped with a warning naming the section's
+    /// line, also when the last row before it is short and dropped.
+    #[test]
+    fn a_section_after_the_data_ends_it_with_a_warning_on_its_line() {
+        let head = "~V\n VERS. 2.0 :\n WRAP. NO :\n~W\n NULL. -999.25 :\n~C\n DEPT.M :\n GR.GAPI :\n~A DEPT GR\n";
+        let read = |tail: &str| {
+            let text = format!("{head}{tail}");
+            read_bytes(text.as_bytes(), Path::new("t.las"), ReadOptions::default()).expect("read")
+        };
+        let warned_at = |f: &LasFile, line: usize| {
+            f.warnings
+                .iter()
+                .any(|w| w.line == Some(line) && w.to_string().contains("a section follows ~A"))
+        };
+        // lines 10-11 are data, line 12 the section
+        let f = read("100 1\n101 2\n  ~O other\n 7 8\n");
+        assert_eq!(f.columns[1], vec![1.0, 2.0]);
+        assert!(warned_at(&f, 12), "{:?}", f.warnings);
+        // a short row before the section: dropped, and the section still named
+        let f = read("100 1\n101 2\n102\n~O other\n");
+        assert_eq!(f.columns[0], vec![100.0, 101.0]);
+        assert!(warned_at(&f, 13), "{:?}", f.warnings);
+        // no section: no such warning
+        let f = read("100 1\n101 2\n");
+        assert!(
+            f.warnings
+                .iter()
+                .all(|w| !w.to_string().contains("section follows"))
+        );
+    }
+
     /// The hint sizes every curve's column. An honest header gives the row
     /// count exactly; a header claiming more rows than the data section's
     /// bytes can hold (two bytes a value at least) gets what the bytes allow:
