@@ -162,17 +162,22 @@ pub fn write_field_part(table: &Table, well: &str, path: &Path) -> Result<(), Ou
         let values = table.get(col).unwrap_or(&missing);
         columns.push(parquet::PqColumn {
             name: col.name(),
-            values: if col.integer() {
-                parquet::Values::Integer(values)
-            } else {
-                parquet::Values::Float(values)
-            },
+            values: parquet::Values::of(values, col.integer()),
             // readers skip files by well and depth range
             min_max: matches!(col, Col::Depth | Col::Tvdss),
         });
     }
+    write_columns_parquet(path, &columns, n)
+}
+
+/// Write `columns` (`rows` each) as Parquet to `path` through [`write_atomic`].
+fn write_columns_parquet(
+    path: &Path,
+    columns: &[parquet::PqColumn<'_>],
+    rows: usize,
+) -> Result<(), OutputError> {
     write_atomic(path, |out| {
-        parquet::write_columns(out, &columns, n)
+        parquet::write_columns(out, columns, rows)
             .map(|_| ())
             .map_err(|source| OutputError::Table {
                 path: path.to_path_buf(),
@@ -382,23 +387,12 @@ pub fn write_parquet(table: &Table, path: &Path) -> Result<(), OutputError> {
         .enumerate()
         .map(|(i, c)| parquet::PqColumn {
             name: &c.name,
-            values: if c.integer {
-                parquet::Values::Integer(&c.values)
-            } else {
-                parquet::Values::Float(&c.values)
-            },
+            values: parquet::Values::of(&c.values, c.integer),
             // the depth index, for readers that skip files by depth range
             min_max: i == 0,
         })
         .collect();
-    write_atomic(path, |out| {
-        parquet::write_columns(out, &columns, table.n_rows())
-            .map(|_| ())
-            .map_err(|source| OutputError::Table {
-                path: path.to_path_buf(),
-                source,
-            })
-    })
+    write_columns_parquet(path, &columns, table.n_rows())
 }
 
 /// Write a table as LAS 2.0; `decimals` as in [`write_csv`].

@@ -59,6 +59,17 @@ pub enum Values<'a> {
     Repeated(&'a str),
 }
 
+impl<'a> Values<'a> {
+    /// A table column's values: whole numbers as integers, else floats.
+    pub fn of(values: &'a [f64], integer: bool) -> Values<'a> {
+        if integer {
+            Values::Integer(values)
+        } else {
+            Values::Float(values)
+        }
+    }
+}
+
 /// One column to write.
 #[derive(Debug, Clone, Copy)]
 pub struct PqColumn<'a> {
