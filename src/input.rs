@@ -7,4 +7,5 @@
 pub mod core_samples;
 pub mod curves;
 pub mod las;
+pub mod location;
 pub mod tables;

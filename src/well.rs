@@ -389,8 +389,36 @@ pub fn process_file(
     }
 
     let (columns, resolved) = output_columns(depth_unit, md, tvdss, &mut out, found);
+    // identity, and the surface location (LAS 3.0 ~Well: LATI LONG GDAT or
+    // X Y GDAT HZCS), which the report's base map reads
     let keep = [
-        "WELL", "UWI", "API", "COMP", "FLD", "LOC", "CTRY", "PROV", "STAT", "SRVC", "DATE",
+        "WELL",
+        "UWI",
+        "API",
+        "COMP",
+        "FLD",
+        "LOC",
+        "CTRY",
+        "PROV",
+        "STAT",
+        "SRVC",
+        "DATE",
+        "LATI",
+        "LAT",
+        "LATITUDE",
+        "LONG",
+        "LON",
+        "LONGITUDE",
+        "X",
+        "Y",
+        "XCOORD",
+        "YCOORD",
+        "X_COORD",
+        "Y_COORD",
+        "EASTING",
+        "NORTHING",
+        "GDAT",
+        "HZCS",
     ];
     let well_items = file
         .well_items
