@@ -10,6 +10,9 @@
  WELL     .          Tarnby-1                     : Well
  FLD      .          Tarnby Ridge                 : Field
  LOC      .          E 2400 m N 3100 m (local grid, invented) : Location
+ X        .M         2400.0                       : Easting, local grid
+ Y        .M         3100.0                       : Northing, local grid
+ HZCS     .          Tarnby local grid (invented) : Coordinate system
  CTRY     .          Fictional                    : Country
  SRVC     .          Synthetic model              : Service company
  DATE     .          2016-04-12                   : Log date

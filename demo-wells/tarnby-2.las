@@ -10,6 +10,9 @@
  WELL     .          Tarnby-2                     : Well
  FLD      .          Tarnby Ridge                 : Field
  LOC      .          E 1500 m N 3900 m (local grid, invented) : Location
+ X        .M         1500.0                       : Easting, local grid
+ Y        .M         3900.0                       : Northing, local grid
+ HZCS     .          Tarnby local grid (invented) : Coordinate system
  CTRY     .          Fictional                    : Country
  SRVC     .          Synthetic model              : Service company
  DATE     .          2016-11-03                   : Log date

@@ -10,6 +10,9 @@
  WELL     .          Tarnby-3                     : Well
  FLD      .          Tarnby Ridge                 : Field
  LOC      .          E 3300 m N 2500 m (local grid, invented) : Location
+ X        .M         3300.0                       : Easting, local grid
+ Y        .M         2500.0                       : Northing, local grid
+ HZCS     .          Tarnby local grid (invented) : Coordinate system
  CTRY     .          Fictional                    : Country
  SRVC     .          Synthetic model              : Service company
  DATE     .          2017-06-21                   : Log date

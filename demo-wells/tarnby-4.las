@@ -10,6 +10,9 @@
  WELL     .          Tarnby-4                     : Well
  FLD      .          Tarnby Ridge                 : Field
  LOC      .          E 3600 m N 1600 m (local grid, invented) : Location
+ X        .FT        11811.0                      : Easting, local grid
+ Y        .FT        5249.3                       : Northing, local grid
+ HZCS     .          Tarnby local grid (invented) : Coordinate system
  CTRY     .          Fictional                    : Country
  SRVC     .          Synthetic model              : Service company
  DATE     .          2018-02-09                   : Log date

@@ -10,6 +10,9 @@
  WELL     .          Tarnby-5                     : Well
  FLD      .          Tarnby Ridge                 : Field
  LOC      .          E 900 m N 4400 m (local grid, invented) : Location
+ X        .M         900.0                        : Easting, local grid
+ Y        .M         4400.0                       : Northing, local grid
+ HZCS     .          Tarnby local grid (invented) : Coordinate system
  CTRY     .          Fictional                    : Country
  SRVC     .          Synthetic model              : Service company
  DATE     .          2018-09-30                   : Log date

@@ -10,6 +10,9 @@
  WELL     .          Tarnby-6                     : Well
  FLD      .          Tarnby Ridge                 : Field
  LOC      .          E 2900 m N 2800 m (local grid, invented) : Location
+ X        .M         2900.0                       : Easting, local grid
+ Y        .M         2800.0                       : Northing, local grid
+ HZCS     .          Tarnby local grid (invented) : Coordinate system
  CTRY     .          Fictional                    : Country
  SRVC     .          Synthetic model              : Service company
  DATE     .          2019-05-17                   : Log date

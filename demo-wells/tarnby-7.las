@@ -10,6 +10,9 @@
  WELL     .          Tarnby-7                     : Well
  FLD      .          Tarnby Ridge                 : Field
  LOC      .          E 5200 m N 3300 m (local grid, invented) : Location
+ X        .M         5200.0                       : Easting, local grid
+ Y        .M         3300.0                       : Northing, local grid
+ HZCS     .          Tarnby local grid (invented) : Coordinate system
  CTRY     .          Fictional                    : Country
  SRVC     .          Synthetic model              : Service company
  DATE     .          2020-03-04                   : Log date

@@ -10,6 +10,9 @@
  WELL     .          Tarnby-8                     : Well
  FLD      .          Tarnby Ridge                 : Field
  LOC      .          E 600 m N 5200 m (local grid, invented) : Location
+ X        .M         600.0                        : Easting, local grid
+ Y        .M         5200.0                       : Northing, local grid
+ HZCS     .          Tarnby local grid (invented) : Coordinate system
  CTRY     .          Fictional                    : Country
  SRVC     .          Synthetic model              : Service company
  DATE     .          2021-08-26                   : Log date

@@ -819,12 +819,32 @@ fn render_well(seed: u64, m: &WellModel) -> SynthWell {
     let rwt = formation_temp_c(0.5 * (s.tops[0] + s.tops[2]));
     let (east, north) = s.grid_en;
     let loc = format!("E {east:.0} m N {north:.0} m (local grid, invented)");
+    let (xy_unit, xy_m) = if s.feet { ("FT", 0.3048) } else { ("M", 1.0) };
     let date = LOG_DATES[s.idx % 8].to_string();
     let well_items = vec![
         entry("COMP", "", "Moravel Energy".into(), "Company"),
         entry("WELL", "", s.name.clone(), "Well"),
         entry("FLD", "", "Tarnby Ridge".into(), "Field"),
         entry("LOC", "", loc, "Location"),
+        // the feet well gives its location in feet too (international foot)
+        entry(
+            "X",
+            xy_unit,
+            format!("{:.1}", east / xy_m),
+            "Easting, local grid",
+        ),
+        entry(
+            "Y",
+            xy_unit,
+            format!("{:.1}", north / xy_m),
+            "Northing, local grid",
+        ),
+        entry(
+            "HZCS",
+            "",
+            "Tarnby local grid (invented)".into(),
+            "Coordinate system",
+        ),
         entry("CTRY", "", "Fictional".into(), "Country"),
         entry("SRVC", "", "Synthetic model".into(), "Service company"),
         entry("DATE", "", date, "Log date"),
