@@ -262,8 +262,7 @@ fn one_well(path: &Path, stem: &str, models: &Models<'_>, out_dir: &Path) -> Wel
             let pages =
                 crate::report::assemble::well_page(stem, path, &w, models, config, out_dir)?;
             report.outputs.extend(pages);
-            report.pickett =
-                crate::report::pickett_points(&w.well.table, crate::report::FIELD_PICKETT_PER_WELL);
+            report.view = crate::report::assemble::well_view(&w);
             times.add(Stage::ReportPage, start.elapsed());
         }
         Ok(())

@@ -185,10 +185,10 @@ pub struct WellReport {
     pub contacts: Option<WellAudit>,
     /// Gross, net, net-to-gross, averages and HPT per zone.
     pub zones: Vec<ZoneSummary>,
-    /// A sample of the well's (PHIE, RT, CLASS) for the field Pickett plot
-    /// (not in the summary; shard states carry it beside the report).
+    /// What the report's field page draws of the well (not in the summary;
+    /// shard states carry it beside the report).
     #[serde(skip)]
-    pub pickett: Vec<PickettPoint>,
+    pub view: WellView,
     /// The LAS file's size and SHA-256, from the bytes the run read (for the
     /// manifest; `None` when the file could not be read).
     #[serde(skip)]
@@ -197,6 +197,18 @@ pub struct WellReport {
     /// which is byte-identical from run to run).
     #[serde(skip)]
     pub times: StageTimes,
+}
+
+/// What the report's field page draws of a well, kept from its run: the
+/// field page is written after every well, without their logs.
+#[derive(Debug, Clone, Default, Serialize, Deserialize)]
+pub struct WellView {
+    /// A sample of the well's (PHIE, RT, CLASS) for the field Pickett plot.
+    pub pickett: Vec<PickettPoint>,
+    /// Its interpreted interval binned by TVDSS, for the cross-section.
+    pub profile: Option<crate::report::plots::Profile>,
+    /// Its surface location as the LAS header gives it.
+    pub location: crate::input::location::HeaderLocation,
 }
 
 impl WellReport {
@@ -216,7 +228,7 @@ impl WellReport {
             saturation_height: None,
             contacts: None,
             zones: Vec::new(),
-            pickett: Vec::new(),
+            view: WellView::default(),
             input: None,
             times: StageTimes::default(),
         }

@@ -10,6 +10,7 @@
 //! interpretation caution.
 
 pub mod assemble;
+pub mod field_views;
 pub mod plots;
 pub mod png;
 pub mod svg;
@@ -117,7 +118,7 @@ fn count(n: usize) -> Cell {
     Cell::Num(n.to_string())
 }
 
-fn plot(h: &mut String, svg: &str) {
+pub(crate) fn plot(h: &mut String, svg: &str) {
     h.push_str("<div class=\"plot\">");
     h.push_str(svg.trim_end());
     h.push_str("</div>\n");
@@ -167,6 +168,103 @@ pub fn pickett_points(t: &Table, max: usize) -> Vec<PickettPoint> {
         .collect();
     let stride = all.len().div_ceil(max.max(1)).max(1);
     all.into_iter().step_by(stride).collect()
+}
+
+/// Bins of a well's profile on the field cross-section.
+pub const PROFILE_BINS: usize = 160;
+
+/// A well's interpreted depths (in a zone, with TVDSS) binned by TVDSS for
+/// the field cross-section: per bin the most common class with its mean
+/// probability, mean SW and mean SWH; and each zone's top. `None` when no
+/// depth is in a zone with a TVDSS.
+pub fn profile(
+    t: &Table,
+    zone_of: &[Option<u16>],
+    zone_names: &[String],
+) -> Option<plots::Profile> {
+    let tvdss = t.get(Col::Tvdss)?;
+    let rows = || {
+        tvdss
+            .iter()
+            .zip(zone_of)
+            .enumerate()
+            .filter(|(_, (z, zone))| z.is_finite() && zone.is_some())
+    };
+    let (lo, hi) = rows().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), (_, (z, _))| {
+        (a.min(*z), b.max(*z))
+    });
+    if !lo.is_finite() {
+        return None;
+    }
+    let bins = PROFILE_BINS;
+    let step = ((hi - lo) / bins as f64).max(1e-6);
+    let bin = |z: f64| (((z - lo) / step) as usize).min(bins - 1);
+    let class_count = t
+        .get(Col::Class)
+        .map_or(0.0, |c| {
+            c.iter()
+                .filter(|v| v.is_finite())
+                .fold(0.0f64, |a: f64, b: &f64| a.max(*b))
+        })
+        .clamp(0.0, 255.0) as usize;
+    let mut votes = vec![0u32; bins * (class_count + 1)];
+    let mut prob = vec![0.0f64; bins * (class_count + 1)];
+    let mut sums = vec![[0.0f64; 4]; bins];
+    let get = |c: Col, i: usize| t.get(c).and_then(|v| v.get(i)).copied().unwrap_or(f64::NAN);
+    let mut tops: Vec<(String, f64)> = Vec::new();
+    let mut seen = vec![false; zone_names.len()];
+    for (i, (z, zone)) in rows() {
+        let b = bin(*z);
+        if let Some(k) = zone
+            .map(usize::from)
+            .filter(|&k| k < seen.len() && !seen[k])
+        {
+            seen[k] = true;
+            tops.push((zone_names[k].clone(), *z));
+        }
+        let c = get(Col::Class, i);
+        if c.is_finite() && c >= 1.0 {
+            let k = b * (class_count + 1) + (c.round() as usize).min(class_count);
+            votes[k] += 1;
+            let p = get(Col::ClassProb, i);
+            prob[k] += if p.is_finite() { p } else { 1.0 };
+        }
+        for (slot, col) in [(0, Col::Sw), (2, Col::Swh)] {
+            let v = get(col, i);
+            if v.is_finite() {
+                sums[b][slot] += v;
+                sums[b][slot + 1] += 1.0;
+            }
+        }
+    }
+    tops.sort_by(|a, b| a.1.total_cmp(&b.1));
+    let mut p = plots::Profile {
+        top: lo,
+        step,
+        class: Vec::with_capacity(bins),
+        prob: Vec::with_capacity(bins),
+        sw: Vec::with_capacity(bins),
+        swh: Vec::with_capacity(bins),
+        tops,
+    };
+    for b in 0..bins {
+        let v = &votes[b * (class_count + 1)..(b + 1) * (class_count + 1)];
+        // most votes; ties to the lower class, so the result is the same on any machine
+        let (best, n) = v.iter().enumerate().fold(
+            (0, 0),
+            |(bk, bn), (k, &n)| if n > bn { (k, n) } else { (bk, bn) },
+        );
+        p.class.push(u8::try_from(best).unwrap_or(u8::MAX));
+        p.prob.push(if n > 0 {
+            (prob[b * (class_count + 1) + best] / f64::from(n)) as f32
+        } else {
+            f32::NAN
+        });
+        let mean = |s: f64, n: f64| if n > 0.0 { (s / n) as f32 } else { f32::NAN };
+        p.sw.push(mean(sums[b][0], sums[b][1]));
+        p.swh.push(mean(sums[b][2], sums[b][3]));
+    }
+    Some(p)
 }
 
 /// The curves, zones, steps and FWL the log plot draws, from a well page.
@@ -398,6 +496,8 @@ pub struct FieldPage<'a> {
     pub archie: Vec<ArchieLine>,
     /// The field's Rw, ohm.m (NaN when set per zone only: no lines then).
     pub rw_ohmm: f64,
+    /// The views across wells: cross-sections, FWL charts, base map.
+    pub views: field_views::Views<'a>,
 }
 
 /// Write the field page, `report/index.html`; returns its path relative to `out`.
@@ -431,6 +531,7 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
     wells_section(&mut h, p);
     crossplots_section(&mut h, p);
     evidence_section(&mut h, p);
+    field_views::write_section(&mut h, &dir, &p.views, p.depth_unit)?;
     steps_section(&mut h, p);
     zone_section(&mut h, p);
     page_end(&mut h);

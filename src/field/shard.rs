@@ -145,8 +145,9 @@ struct ShardState {
     fingerprint: String,
     /// This shard's wells: index into `files`, report.
     reports: Vec<(usize, WellReport)>,
-    /// Each report's Pickett sample (kept out of the report's serialised form).
-    pickett: Vec<Vec<crate::report::plots::PickettPoint>>,
+    /// What the field page draws of each report's well (kept out of the
+    /// report's serialised form).
+    views: Vec<crate::pipeline::WellView>,
 }
 
 fn state_name(spec: ShardSpec) -> String {
@@ -233,9 +234,9 @@ pub fn run_shard(
             .map_or(0.0, |d| d.as_secs_f64()),
     };
     let mut reports = reports;
-    let pickett = reports
+    let views = reports
         .iter_mut()
-        .map(|r| std::mem::take(&mut r.pickett))
+        .map(|r| std::mem::take(&mut r.view))
         .collect();
     let state = ShardState {
         run: run.clone(),
@@ -243,7 +244,7 @@ pub fn run_shard(
         config_sha256: config_sha(config),
         fingerprint: setup.fingerprint(),
         reports: indices.into_iter().zip(reports).collect(),
-        pickett,
+        views,
     };
     let path = dir.join(state_name(spec));
     write_state(&path, &state)?;
@@ -458,9 +459,9 @@ pub fn merge(
             started = started.min(t);
         }
         runs.push(st.run);
-        let mut samples = st.pickett.into_iter();
+        let mut views = st.views.into_iter();
         for (i, mut r) in st.reports {
-            r.pickett = samples.next().unwrap_or_default();
+            r.view = views.next().unwrap_or_default();
             let slot = reports.get_mut(i).ok_or_else(|| {
                 Error::Usage(format!(
                     "shard state `{}`: well {i} out of range",

@@ -26,6 +26,18 @@ pub fn archie_lines(config: &Config, class_count: u8) -> Vec<crate::report::plot
         })
         .collect()
 }
+/// What the field page keeps of a well: its Pickett sample, its profile for
+/// the cross-section and its header location.
+pub fn well_view(w: &Interpreted) -> crate::pipeline::WellView {
+    let out = &w.well;
+    let names: Vec<String> = out.report.zones.iter().map(|z| z.name.clone()).collect();
+    crate::pipeline::WellView {
+        pickett: crate::report::pickett_points(&out.table, crate::report::FIELD_PICKETT_PER_WELL),
+        profile: crate::report::profile(&out.table, &out.zone_of, &names),
+        location: crate::input::location::from_items(&out.table.well_items),
+    }
+}
+
 /// Write a well's report page (log plot, Pickett plot, zones, steps, warnings).
 pub fn well_page(
     stem: &str,
@@ -198,7 +210,7 @@ pub fn field_page(
     };
     let pickett: Vec<crate::report::plots::PickettPoint> = reports
         .iter()
-        .flat_map(|r| r.pickett.iter().copied())
+        .flat_map(|r| r.view.pickett.iter().copied())
         .collect();
     let field_archie = config.parameters.field.resolve();
     let archie = archie_lines(config, class_count);
@@ -234,6 +246,7 @@ pub fn field_page(
         pickett,
         archie,
         rw_ohmm: field_archie.rw_ohmm.unwrap_or(f64::NAN),
+        views: crate::report::field_views::build(config, sat, reports),
     };
     crate::report::write_field_page(out, &page)
 }

@@ -6,10 +6,15 @@
 //! no data draws its frame and says so in place of the points, and never
 //! fails the run.
 
+pub mod basemap;
 pub mod crossplots;
+pub mod fwl_chart;
 pub mod logplot;
+pub mod section;
 
 use std::collections::BTreeMap;
+
+use serde::{Deserialize, Serialize};
 
 use crate::output::schema::Col;
 
@@ -134,3 +139,100 @@ pub enum Boundaries {
     R35(Vec<f64>),
     None,
 }
+
+/// A well's interpreted interval for the field cross-section: its depths in
+/// zones, binned by TVDSS (a field page holds a profile per well, not its
+/// logs). Empty bins hold class 0 and NaN.
+#[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
+pub struct Profile {
+    /// TVDSS of the top of the first bin, project depth unit.
+    pub top: f64,
+    /// Height of a bin, project depth unit.
+    pub step: f64,
+    /// Most common class of the bin's depths (0: none classed).
+    pub class: Vec<u8>,
+    /// Mean CLASS_PROB of the depths of that class, 0-1.
+    pub prob: Vec<f32>,
+    /// Mean SW, v/v.
+    pub sw: Vec<f32>,
+    /// Mean SWH, v/v (NaN where the model gives none).
+    pub swh: Vec<f32>,
+    /// Zone tops, (zone, TVDSS of the zone's first depth), shallowest first.
+    pub tops: Vec<(String, f64)>,
+}
+
+impl Profile {
+    /// TVDSS of the base of the last bin.
+    pub fn base(&self) -> f64 {
+        self.top + self.step * self.class.len() as f64
+    }
+}
+
+/// The FWL a well's logs imply, as the field views draw it (TVDSS).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ImpliedMark {
+    /// Best fit; `None` when the logs only bound it.
+    pub best: Option<f64>,
+    /// Deep end of the one-standard-error range (`None`: open).
+    pub lower: Option<f64>,
+    /// Shallow end of the range (`None`: open).
+    pub upper: Option<f64>,
+}
+
+/// One well in the field views.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FieldWell<'a> {
+    pub name: &'a str,
+    /// `None`: the well has no TVDSS or no interpreted depth.
+    pub profile: Option<&'a Profile>,
+    /// Audited steps: (TVDSS, kind as in contacts.csv).
+    pub steps: Vec<(f64, &'a str)>,
+    pub implied: Option<ImpliedMark>,
+    /// The well's implied FWL or its contacts do not line up with the
+    /// compartment's FWL (possibly under another FWL).
+    pub flagged: bool,
+    /// Position on the map, metres east and north in the field's frame.
+    pub position: Option<(f64, f64)>,
+    /// Distance along the cross-section's line, metres (when ordered by it).
+    pub along: Option<f64>,
+}
+
+/// A compartment's wells for the cross-section and the FWL chart, in the
+/// order they are drawn.
+#[derive(Debug, Clone, PartialEq)]
+pub struct CompartmentWells<'a> {
+    pub name: &'a str,
+    /// The compartment's FWL, TVDSS, and its one standard error when known.
+    pub fwl: f64,
+    pub fwl_sigma: Option<f64>,
+    /// "config" or "pressures".
+    pub fwl_source: &'a str,
+    pub wells: Vec<FieldWell<'a>>,
+    /// How the wells are ordered, in words.
+    pub order: String,
+}
+
+/// Step kinds with their colour and marker shape (the same colours as the
+/// well page's step lines).
+pub const STEP_MARKS: [(&str, &str, crate::report::svg::Shape); 4] = [
+    (
+        "rock-quality",
+        crate::report::svg::palette::ORANGE,
+        crate::report::svg::Shape::TriangleUp,
+    ),
+    (
+        "fluid-contact",
+        crate::report::svg::palette::BLUE,
+        crate::report::svg::Shape::Square,
+    ),
+    (
+        "unexplained",
+        crate::report::svg::palette::VERMILLION,
+        crate::report::svg::Shape::Diamond,
+    ),
+    (
+        "flagged",
+        crate::report::svg::palette::REDDISH_PURPLE,
+        crate::report::svg::Shape::TriangleDown,
+    ),
+];

@@ -156,6 +156,16 @@ impl<'a> Stroke<'a> {
     }
 }
 
+/// The shape of a point marker: the second cue beside colour.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Shape {
+    Circle,
+    Square,
+    Diamond,
+    TriangleUp,
+    TriangleDown,
+}
+
 /// An SVG document being drawn.
 #[derive(Debug, Clone)]
 pub struct Svg {
@@ -270,6 +280,44 @@ impl Svg {
             num(cx),
             num(cy),
             num(r),
+            escape(fill),
+            stroke.map_or_else(String::new, |s| s.attrs())
+        );
+    }
+
+    /// A marker of `shape` centred on (cx, cy), `r` px from centre to its
+    /// corners (a circle's radius); nothing for a non-finite centre.
+    pub fn marker(
+        &mut self,
+        shape: Shape,
+        cx: f64,
+        cy: f64,
+        r: f64,
+        fill: &str,
+        stroke: Option<Stroke>,
+    ) {
+        if !cx.is_finite() || !cy.is_finite() {
+            return;
+        }
+        let corners: &[(f64, f64)] = match shape {
+            Shape::Circle => return self.circle(cx, cy, r, fill, stroke),
+            Shape::Square => &[(-0.8, -0.8), (0.8, -0.8), (0.8, 0.8), (-0.8, 0.8)],
+            Shape::Diamond => &[(0.0, -1.0), (1.0, 0.0), (0.0, 1.0), (-1.0, 0.0)],
+            Shape::TriangleUp => &[(0.0, -1.0), (0.95, 0.7), (-0.95, 0.7)],
+            Shape::TriangleDown => &[(0.0, 1.0), (0.95, -0.7), (-0.95, -0.7)],
+        };
+        self.body.push_str("<polygon points=\"");
+        for (i, (dx, dy)) in corners.iter().enumerate() {
+            if i > 0 {
+                self.body.push(' ');
+            }
+            push_num(&mut self.body, cx + dx * r);
+            self.body.push(',');
+            push_num(&mut self.body, cy + dy * r);
+        }
+        let _ = write!(
+            self.body,
+            "\" fill=\"{}\"{}/>",
             escape(fill),
             stroke.map_or_else(String::new, |s| s.attrs())
         );

@@ -295,7 +295,7 @@ fn boxed_label(s: &mut Svg, x: f64, y: f64, text: &str, anchor: Anchor, colour: 
 }
 
 /// `text` in lines of at most about `width` characters, broken at spaces.
-fn wrap(text: &str, width: usize) -> Vec<String> {
+pub(super) fn wrap(text: &str, width: usize) -> Vec<String> {
     let mut lines: Vec<String> = Vec::new();
     let mut cur = String::new();
     for word in text.split(' ') {

@@ -1,0 +1,318 @@
+//! The FWL agreement chart of a compartment: per well, the free water level
+//! its logs imply with its range, against the compartment's FWL and its
+//! standard error. Wells flagged as possibly under another FWL stand out by
+//! shape (a diamond, not a circle), colour and a marked label.
+
+use crate::report::plots::section::agreement_mark;
+use crate::report::plots::{CompartmentWells, FieldWell};
+use crate::report::svg::{Anchor, Scale, Stroke, Svg, nice_ticks, num, palette, tick_label};
+
+const W: f64 = 1360.0;
+const H: f64 = 470.0;
+const L: f64 = 70.0;
+const R: f64 = 1150.0;
+const T: f64 = 130.0;
+const B: f64 = 420.0;
+const LEG_X: f64 = 1168.0;
+/// Widest slot per well, px.
+const MAX_SLOT: f64 = 60.0;
+/// Narrowest slot at which every well is labelled, px.
+const LABEL_EVERY_SLOT: f64 = 9.0;
+
+/// The TVDSS span of the chart: the FWL band and every closed range end and
+/// best fit, padded.
+fn span(c: &CompartmentWells<'_>) -> (f64, f64) {
+    let sd = c.fwl_sigma.unwrap_or(0.0);
+    let mut lo = c.fwl - sd.max(1.0);
+    let mut hi = c.fwl + sd.max(1.0);
+    for m in c.wells.iter().filter_map(|w| w.implied) {
+        for v in [m.best, m.lower, m.upper].into_iter().flatten() {
+            if v.is_finite() {
+                lo = lo.min(v);
+                hi = hi.max(v);
+            }
+        }
+    }
+    let pad = 0.08 * (hi - lo).max(2.0);
+    (lo - pad, hi + pad)
+}
+
+/// The agreement chart of a compartment, as an SVG document.
+pub fn fwl_agreement(c: &CompartmentWells<'_>, depth_unit: &str) -> String {
+    let mut s = Svg::new(W, H);
+    s.group("fwl-agreement", None);
+    let flagged: Vec<&str> = c
+        .wells
+        .iter()
+        .filter(|w| w.flagged)
+        .map(|w| w.name)
+        .collect();
+    s.group("title", None);
+    s.text(
+        L,
+        20.0,
+        &format!("Compartment {}: the FWL each well's logs imply", c.name),
+        15.0,
+        Anchor::Start,
+    );
+    let fwl = match c.fwl_sigma {
+        Some(sd) => format!(
+            "compartment FWL {} ± {} {depth_unit} TVDSS ({})",
+            num(c.fwl),
+            num(sd),
+            c.fwl_source
+        ),
+        None => format!(
+            "compartment FWL {} {depth_unit} TVDSS ({})",
+            num(c.fwl),
+            c.fwl_source
+        ),
+    };
+    s.text_styled(L, 36.0, &fwl, 10.0, Anchor::Start, palette::FRAME, 0.0);
+    let verdict = if flagged.is_empty() {
+        "no well flagged".to_string()
+    } else {
+        format!(
+            "{} flagged, possibly under another FWL: {}",
+            flagged.len(),
+            flagged.join(", ")
+        )
+    };
+    s.text_styled(
+        L,
+        50.0,
+        &verdict,
+        10.0,
+        Anchor::Start,
+        if flagged.is_empty() {
+            palette::FRAME
+        } else {
+            palette::VERMILLION
+        },
+        0.0,
+    );
+    s.end_group();
+
+    let (lo, hi) = span(c);
+    let depth = Scale::linear(lo, hi, T, B);
+    s.group("axis", None);
+    for t in nice_ticks(lo, hi, 6) {
+        let y = depth.px(t);
+        s.line(L, y, R, y, Stroke::solid(palette::GRID, 0.6));
+        s.text(L - 6.0, y + 3.5, &tick_label(t), 10.0, Anchor::End);
+    }
+    s.text_styled(
+        16.0,
+        (T + B) / 2.0,
+        &format!("TVDSS {depth_unit}"),
+        11.0,
+        Anchor::Middle,
+        "#000000",
+        -90.0,
+    );
+    s.rect(
+        L,
+        T,
+        R - L,
+        B - T,
+        "none",
+        Some(Stroke::solid(palette::FRAME, 0.8)),
+    );
+    s.end_group();
+
+    s.group("fwl-band", None);
+    if let Some(sd) = c.fwl_sigma.filter(|v| *v > 0.0) {
+        let (a, b) = (depth.px(c.fwl - sd), depth.px(c.fwl + sd));
+        s.rect_faint(L, a, R - L, b - a, palette::SKY_BLUE, 0.35);
+    }
+    let y = depth.px(c.fwl);
+    s.line(L, y, R, y, Stroke::dashed(palette::BLUE, 1.5, "8 4"));
+    s.end_group();
+
+    let n = c.wells.len().max(1);
+    let slot = ((R - L) / n as f64).min(MAX_SLOT);
+    let every = if slot >= LABEL_EVERY_SLOT {
+        1
+    } else {
+        (LABEL_EVERY_SLOT / slot).ceil() as usize
+    };
+    for (i, w) in c.wells.iter().enumerate() {
+        let x = L + slot * (i as f64 + 0.5);
+        well(&mut s, w, x, &depth, depth_unit);
+        if w.flagged || i % every == 0 {
+            let (colour, label) = if w.flagged {
+                (palette::VERMILLION, format!("{} ◆", w.name))
+            } else {
+                ("#000000", w.name.to_string())
+            };
+            s.text_styled(
+                x + 3.0,
+                T - 6.0,
+                &label,
+                if slot < 14.0 { 8.0 } else { 10.0 },
+                Anchor::Start,
+                colour,
+                -55.0,
+            );
+        }
+    }
+    if every > 1 {
+        s.text_styled(
+            L,
+            B + 22.0,
+            &format!("one well in {every} named; flagged wells always"),
+            9.0,
+            Anchor::Start,
+            palette::FRAME,
+            0.0,
+        );
+    }
+    legend(&mut s);
+    s.end_group();
+    s.finish()
+}
+
+fn well(s: &mut Svg, w: &FieldWell<'_>, x: f64, depth: &Scale, depth_unit: &str) {
+    let Some(m) = w.implied else {
+        s.group(
+            "no-estimate",
+            Some(&format!("{}: the logs do not give an FWL", w.name)),
+        );
+        s.text_styled(x, B - 4.0, "–", 10.0, Anchor::Middle, palette::FRAME, 0.0);
+        s.end_group();
+        return;
+    };
+    let (colour, shape) = agreement_mark(w.flagged);
+    let range = match (m.upper, m.lower) {
+        (Some(u), Some(l)) => format!("{}-{}", num(u), num(l)),
+        (None, Some(l)) => format!("above {}", num(l)),
+        (Some(u), None) => format!("below {}", num(u)),
+        (None, None) => "open".into(),
+    };
+    let best = m.best.map_or_else(|| "bounded only".into(), num);
+    s.group(
+        if w.flagged {
+            "implied-fwl flagged"
+        } else {
+            "implied-fwl"
+        },
+        Some(&format!(
+            "{}: logs imply FWL {best} (range {range}) {depth_unit} TVDSS{}",
+            w.name,
+            if w.flagged {
+                "; possibly under another FWL"
+            } else {
+                ""
+            }
+        )),
+    );
+    let y_up = m.upper.map_or(T, |v| depth.px_clamped(v));
+    let y_lo = m.lower.map_or(B, |v| depth.px_clamped(v));
+    let closed = m.upper.is_some() && m.lower.is_some();
+    let stroke = if closed {
+        Stroke::solid(colour, 1.8)
+    } else {
+        Stroke::dashed(colour, 1.4, "1 2")
+    };
+    s.line(x, y_up, x, y_lo, stroke);
+    for (end, y) in [(m.upper, y_up), (m.lower, y_lo)] {
+        if end.is_some() {
+            s.line(x - 4.0, y, x + 4.0, y, Stroke::solid(colour, 1.8));
+        }
+    }
+    if let Some(b) = m.best {
+        s.marker(
+            shape,
+            x,
+            depth.px_clamped(b),
+            if w.flagged { 6.0 } else { 4.5 },
+            colour,
+            Some(Stroke::solid("#FFFFFF", 0.8)),
+        );
+    }
+    s.end_group();
+}
+
+fn legend(s: &mut Svg) {
+    s.group("legend", None);
+    let x0 = LEG_X;
+    let mut y = T + 6.0;
+    let text = |s: &mut Svg, y: f64, t: &str| s.text(x0 + 20.0, y + 3.5, t, 10.0, Anchor::Start);
+    s.rect_faint(x0, y - 5.0, 14.0, 10.0, palette::SKY_BLUE, 0.35);
+    s.line(
+        x0,
+        y,
+        x0 + 14.0,
+        y,
+        Stroke::dashed(palette::BLUE, 1.5, "8 4"),
+    );
+    text(s, y, "compartment FWL ± 1 s.e.");
+    y += 20.0;
+    for flagged in [false, true] {
+        let (col, shape) = agreement_mark(flagged);
+        s.line(
+            x0 + 7.0,
+            y - 7.0,
+            x0 + 7.0,
+            y + 7.0,
+            Stroke::solid(col, 1.8),
+        );
+        s.marker(
+            shape,
+            x0 + 7.0,
+            y,
+            if flagged { 6.0 } else { 4.5 },
+            col,
+            None,
+        );
+        text(
+            s,
+            y,
+            if flagged {
+                "flagged: another FWL?"
+            } else {
+                "implied FWL, ± 1 s.e."
+            },
+        );
+        y += 20.0;
+    }
+    s.line(
+        x0 + 7.0,
+        y - 7.0,
+        x0 + 7.0,
+        y + 7.0,
+        Stroke::dashed(palette::BLACK, 1.4, "1 2"),
+    );
+    text(s, y, "open range (bound only)");
+    y += 20.0;
+    s.text_styled(
+        x0 + 3.0,
+        y + 3.5,
+        "–",
+        10.0,
+        Anchor::Start,
+        palette::FRAME,
+        0.0,
+    );
+    text(s, y, "no estimate from logs");
+    y += 26.0;
+    s.text_styled(
+        x0,
+        y,
+        "colours: Okabe-Ito palette",
+        10.0,
+        Anchor::Start,
+        palette::FRAME,
+        0.0,
+    );
+    s.text_styled(
+        x0,
+        y + 14.0,
+        "(colour-blind safe)",
+        10.0,
+        Anchor::Start,
+        palette::FRAME,
+        0.0,
+    );
+    s.end_group();
+}
