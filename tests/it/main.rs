@@ -17,6 +17,8 @@ mod core_spwla;
 mod demo;
 /// The batch engine: thread-count independence, the field table, the manifest.
 mod field_run;
+/// The report's views across wells: cross-sections, FWL charts, the base map; a well under another FWL.
+mod field_views;
 mod fwl_demo;
 /// Hostile and huge input: limits, link loops, odd NULLs, NaN and infinity.
 mod hostile;

@@ -84,8 +84,9 @@ fn report_pages_render_in_a_browser() {
     assert!(!log.contains("CONSOLE"), "console output: {log}");
     assert!(dom.contains("id=\"caution\""), "caution missing");
     // the five field crossplots, each with data (the demo has core,
-    // capillary plugs, pressures, a trained predictor and a field Rw)
-    assert_eq!(dom.matches("<svg").count(), 5, "crossplots");
+    // capillary plugs, pressures, a trained predictor and a field Rw), the
+    // base map, and per compartment (East, Main) a cross-section and an FWL chart
+    assert_eq!(dom.matches("<svg").count(), 5 + 1 + 2 * 2, "plots");
     for group in [
         "class=\"points\"",
         "class=\"j-class\"",
@@ -96,10 +97,28 @@ fn report_pages_render_in_a_browser() {
         assert!(dom.contains(group), "{group} not rendered");
     }
     assert!(!dom.contains("class=\"no-data\""));
+    // the views across wells, rendered: every well on the map, each
+    // compartment's wells in its section and chart
+    assert_eq!(dom.matches("class=\"cross-section\"").count(), 2);
+    assert_eq!(dom.matches("class=\"fwl-agreement\"").count(), 2);
+    assert_eq!(dom.matches("class=\"base-map\"").count(), 1);
+    assert!(!dom.contains("class=\"no-map\""));
+    assert_eq!(dom.matches("<g class=\"map-well").count(), 8);
+    assert_eq!(dom.matches("<g class=\"section-well").count(), 8);
+    assert_eq!(dom.matches("<g class=\"implied-fwl").count(), 2 * 8);
     let links = relative_links(&std::fs::read_to_string(&index).expect("index"));
-    assert_eq!(links.len(), 8, "a link per well: {links:?}");
+    let (views, well_links): (Vec<&String>, Vec<&String>) =
+        links.iter().partition(|l| l.starts_with("field/"));
+    assert_eq!(well_links.len(), 8, "a link per well: {links:?}");
+    assert_eq!(views.len(), 1 + 2 * 2, "a link per view: {links:?}");
     for l in &links {
         assert!(out.join("report").join(l).is_file(), "broken link {l}");
+    }
+    // each standalone view opens on its own, silently
+    for l in views {
+        let (dom, log) = render(&out.join("report").join(l), &["--dump-dom"]);
+        assert!(!log.contains("CONSOLE"), "{l}: console output: {log}");
+        assert!(dom.contains("<svg"), "{l} not rendered");
     }
 
     // a well page: the seven tracks, the class band, one marker per step
@@ -107,7 +126,7 @@ fn report_pages_render_in_a_browser() {
     let w = &wells[0];
     let steps = w["contacts"]["steps"].as_array().expect("steps").len();
     assert!(steps > 0);
-    let page = out.join("report").join(&links[0]);
+    let page = out.join("report").join(well_links[0]);
     let (dom, log) = render(&page, &["--dump-dom"]);
     assert!(!log.contains("CONSOLE"), "console output: {log}");
     for track in ["depth", "gr", "rt", "dn", "phi", "class", "sw"] {
