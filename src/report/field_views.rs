@@ -21,6 +21,11 @@ use crate::sat_height::SatHeightModel;
 /// Folder of the standalone view files under the report folder.
 pub const VIEWS_DIR: &str = "field";
 
+/// Most wells' cross-section columns inline on the field page (about 21 kB
+/// each on a synthetic field of thin beds); further compartments' sections
+/// are linked, so the page stays within a few megabytes.
+pub const MAX_INLINE_SECTION_WELLS: usize = 200;
+
 /// Everything the views draw.
 pub struct Views<'a> {
     /// Per compartment, its wells in drawing order (empty without a
@@ -292,6 +297,7 @@ pub fn write_section(
     if v.compartments.is_empty() {
         h.push_str("<p class=\"note\">No saturation-height model in this run (no [capillary] with a free water level): no cross-section or FWL chart.</p>\n");
     }
+    let mut inline_wells = 0;
     for (k, c) in v.compartments.iter().enumerate() {
         let stem = format!("{}-{}", k + 1, output::file_stem(c.name));
         let section = plots::section::cross_section(c, depth_unit);
@@ -307,7 +313,20 @@ pub fn write_section(
             escape(&section_file),
             escape(&chart_file)
         );
-        crate::report::plot(h, &section);
+        // the page stays light: past MAX_INLINE_SECTION_WELLS columns, a
+        // compartment's cross-section is only in its file
+        inline_wells += c.wells.len();
+        if inline_wells <= MAX_INLINE_SECTION_WELLS {
+            crate::report::plot(h, &section);
+        } else {
+            let _ = writeln!(
+                h,
+                "<p class=\"note\">The cross-section of these {} wells ({:.1} MB) is in <a href=\"{}\">its file</a> only: this page shows at most {MAX_INLINE_SECTION_WELLS} wells' columns.</p>",
+                c.wells.len(),
+                section.len() as f64 / 1e6,
+                escape(&section_file)
+            );
+        }
         crate::report::plot(h, &chart);
     }
     Ok(written)
@@ -543,5 +562,36 @@ mod tests {
         // no TVDSS, or no depth in a zone: no profile
         let none: Vec<Option<u16>> = vec![None; n as usize];
         assert!(crate::report::profile(&table, &none, &[]).is_none());
+    }
+
+    #[test]
+    fn past_the_inline_limit_a_section_is_linked_not_inlined() {
+        let p = busy_profile(2000.0);
+        let names: Vec<String> = (0..300).map(|i| format!("W-{i}")).collect();
+        let group = |r: std::ops::Range<usize>| {
+            let mut c = compartment(names[r].iter().map(|n| well(n, Some(&p), None)).collect());
+            c.order = "run order".into();
+            c
+        };
+        let v = Views {
+            compartments: vec![group(0..150), group(150..300)],
+            frame: Frame {
+                positions: vec![None; 300],
+                description: "no coordinates".into(),
+                left_out: Vec::new(),
+            },
+            left_out: Vec::new(),
+            map_only: None,
+        };
+        let dir = tempfile::tempdir().expect("temp dir");
+        let mut h = String::new();
+        let files = write_section(&mut h, dir.path(), &v, "m").expect("written");
+        assert_eq!(files.len(), 1 + 2 * 2, "{files:?}");
+        assert_eq!(h.matches("class=\"cross-section\"").count(), 1);
+        assert_eq!(h.matches("class=\"fwl-agreement\"").count(), 2);
+        assert!(h.contains("The cross-section of these 150 wells"));
+        let linked =
+            std::fs::read_to_string(dir.path().join("field/section-2-north.svg")).expect("file");
+        assert_eq!(linked.matches("class=\"section-well\"").count(), 150);
     }
 }
