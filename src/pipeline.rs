@@ -206,7 +206,7 @@ pub struct WellView {
     /// A sample of the well's (PHIE, RT, CLASS) for the field Pickett plot.
     pub pickett: Vec<PickettPoint>,
     /// Its interpreted interval binned by TVDSS, for the cross-section.
-    pub profile: Option<crate::report::plots::Profile>,
+    pub profile: Option<crate::well::profile::Profile>,
     /// Its surface location as the LAS header gives it.
     pub location: crate::input::location::HeaderLocation,
 }

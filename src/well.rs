@@ -8,6 +8,7 @@
 
 pub mod chain;
 pub mod depth;
+pub mod profile;
 pub(crate) mod summary;
 pub mod zones;
 

@@ -33,7 +33,7 @@ pub fn well_view(w: &Interpreted) -> crate::pipeline::WellView {
     let names: Vec<String> = out.report.zones.iter().map(|z| z.name.clone()).collect();
     crate::pipeline::WellView {
         pickett: crate::report::pickett_points(&out.table, crate::report::FIELD_PICKETT_PER_WELL),
-        profile: crate::report::profile(&out.table, &out.zone_of, &names),
+        profile: crate::well::profile::profile(&out.table, &out.zone_of, &names),
         location: crate::input::location::from_items(&out.table.well_items),
     }
 }

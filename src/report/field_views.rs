@@ -346,10 +346,7 @@ impl<'a> Views<'a> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::output::schema::Col;
-    use crate::output::{OutColumn, Table};
     use crate::report::plots::Profile;
-    use crate::units::DepthUnit;
 
     fn well<'a>(
         name: &'a str,
@@ -374,7 +371,7 @@ mod tests {
     /// A profile whose class changes at every bin (the most rectangles a
     /// class band can need) and whose SW wiggles at every bin.
     fn busy_profile(top: f64) -> Profile {
-        let n = crate::report::PROFILE_BINS;
+        let n = crate::well::profile::PROFILE_BINS;
         Profile {
             top,
             step: 0.5,
@@ -524,44 +521,6 @@ mod tests {
         // only one well in N is
         assert_eq!(chart.matches("class=\"implied-fwl").count(), 100);
         assert!(chart.contains("Well-058 ◆"));
-    }
-
-    #[test]
-    fn a_profile_bins_a_well_by_tvdss() {
-        // 480 depths, TVDSS 2000-2047.9 by 0.1 (3 per bin of 160): class 1
-        // above 2024, class 2 below; SW = 0.2 above, 0.8 below; one zone
-        // top at 2000, another at 2024
-        let n = 480;
-        let tvdss: Vec<f64> = (0..n).map(|i| 2000.0 + 0.1 * f64::from(i)).collect();
-        let half = |a: f64, b: f64| (0..n).map(move |i| if i < 240 { a } else { b });
-        let table = Table {
-            columns: vec![
-                OutColumn::new(
-                    Col::Depth,
-                    DepthUnit::Metre,
-                    tvdss.iter().map(|z| z + 30.0).collect(),
-                ),
-                OutColumn::new(Col::Tvdss, DepthUnit::Metre, tvdss.clone()),
-                OutColumn::new(Col::Class, DepthUnit::Metre, half(1.0, 2.0).collect()),
-                OutColumn::new(Col::ClassProb, DepthUnit::Metre, half(0.9, 0.6).collect()),
-                OutColumn::new(Col::Sw, DepthUnit::Metre, half(0.2, 0.8).collect()),
-            ],
-            well_items: Vec::new(),
-            params: Vec::new(),
-        };
-        let zone_of: Vec<Option<u16>> = (0..n).map(|i| Some(u16::from(i >= 240))).collect();
-        let p =
-            crate::report::profile(&table, &zone_of, &["A".into(), "B".into()]).expect("profile");
-        assert_eq!(p.class.len(), crate::report::PROFILE_BINS);
-        assert!((p.top - 2000.0).abs() < 1e-9 && (p.base() - 2047.9).abs() < 1e-6);
-        assert_eq!(p.tops, vec![("A".into(), 2000.0), ("B".into(), 2024.0)]);
-        assert!(p.class[..79].iter().all(|&c| c == 1) && p.class[81..].iter().all(|&c| c == 2));
-        assert!((p.prob[10] - 0.9).abs() < 1e-6 && (p.prob[150] - 0.6).abs() < 1e-6);
-        assert!((p.sw[10] - 0.2).abs() < 1e-6 && (p.sw[150] - 0.8).abs() < 1e-6);
-        assert!(p.swh.iter().all(|v| v.is_nan()));
-        // no TVDSS, or no depth in a zone: no profile
-        let none: Vec<Option<u16>> = vec![None; n as usize];
-        assert!(crate::report::profile(&table, &none, &[]).is_none());
     }
 
     #[test]

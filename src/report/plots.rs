@@ -14,8 +14,6 @@ pub mod section;
 
 use std::collections::BTreeMap;
 
-use serde::{Deserialize, Serialize};
-
 use crate::output::schema::Col;
 
 /// One zone of a well, measured depths in the project unit.
@@ -73,6 +71,25 @@ pub struct CorePoint {
 }
 
 pub use crate::pipeline::PickettPoint;
+
+/// The palette note every legend ends with, its first line's baseline at `y`.
+pub fn palette_note(s: &mut crate::report::svg::Svg, x: f64, y: f64) {
+    use crate::report::svg::{Anchor, palette};
+    for (k, line) in ["colours: Okabe-Ito palette", "(colour-blind safe)"]
+        .iter()
+        .enumerate()
+    {
+        s.text_styled(
+            x,
+            y + 14.0 * k as f64,
+            line,
+            10.0,
+            Anchor::Start,
+            palette::FRAME,
+            0.0,
+        );
+    }
+}
 
 /// The Archie parameters of one class, with the Rw the lines are drawn for.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -140,33 +157,7 @@ pub enum Boundaries {
     None,
 }
 
-/// A well's interpreted interval for the field cross-section: its depths in
-/// zones, binned by TVDSS (a field page holds a profile per well, not its
-/// logs). Empty bins hold class 0 and NaN.
-#[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
-pub struct Profile {
-    /// TVDSS of the top of the first bin, project depth unit.
-    pub top: f64,
-    /// Height of a bin, project depth unit.
-    pub step: f64,
-    /// Most common class of the bin's depths (0: none classed).
-    pub class: Vec<u8>,
-    /// Mean CLASS_PROB of the depths of that class, 0-1.
-    pub prob: Vec<f32>,
-    /// Mean SW, v/v.
-    pub sw: Vec<f32>,
-    /// Mean SWH, v/v (NaN where the model gives none).
-    pub swh: Vec<f32>,
-    /// Zone tops, (zone, TVDSS of the zone's first depth), shallowest first.
-    pub tops: Vec<(String, f64)>,
-}
-
-impl Profile {
-    /// TVDSS of the base of the last bin.
-    pub fn base(&self) -> f64 {
-        self.top + self.step * self.class.len() as f64
-    }
-}
+pub use crate::well::profile::Profile;
 
 /// The FWL a well's logs imply, as the field views draw it (TVDSS).
 #[derive(Debug, Clone, Copy, PartialEq)]

@@ -351,23 +351,6 @@ fn legend(s: &mut Svg, compartments: &[CompartmentWells<'_>], left_out: usize, l
         );
         y += 14.0;
     }
-    s.text_styled(
-        x0,
-        y + 8.0,
-        "colours: Okabe-Ito palette",
-        10.0,
-        Anchor::Start,
-        palette::FRAME,
-        0.0,
-    );
-    s.text_styled(
-        x0,
-        y + 22.0,
-        "(colour-blind safe)",
-        10.0,
-        Anchor::Start,
-        palette::FRAME,
-        0.0,
-    );
+    super::palette_note(s, x0, y + 8.0);
     s.end_group();
 }

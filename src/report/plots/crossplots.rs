@@ -259,24 +259,7 @@ fn legend(s: &mut Svg, entries: &[Entry]) {
         y += 16.0;
     }
     y += 8.0;
-    s.text_styled(
-        LEG_X,
-        y + 3.5,
-        "colours: Okabe-Ito palette",
-        10.0,
-        Anchor::Start,
-        GREY,
-        0.0,
-    );
-    s.text_styled(
-        LEG_X,
-        y + 17.5,
-        "(colour-blind safe)",
-        10.0,
-        Anchor::Start,
-        GREY,
-        0.0,
-    );
+    super::palette_note(s, LEG_X, y + 3.5);
     s.end_group();
 }
 

@@ -3,7 +3,7 @@
 //! standard error. Wells flagged as possibly under another FWL stand out by
 //! shape (a diamond, not a circle), colour and a marked label.
 
-use crate::report::plots::section::agreement_mark;
+use crate::report::plots::section::{agreement_mark, implied_fwl};
 use crate::report::plots::{CompartmentWells, FieldWell};
 use crate::report::svg::{Anchor, Scale, Stroke, Svg, nice_ticks, num, palette, tick_label};
 
@@ -173,7 +173,7 @@ pub fn fwl_agreement(c: &CompartmentWells<'_>, depth_unit: &str) -> String {
 }
 
 fn well(s: &mut Svg, w: &FieldWell<'_>, x: f64, depth: &Scale, depth_unit: &str) {
-    let Some(m) = w.implied else {
+    if w.implied.is_none() {
         s.group(
             "no-estimate",
             Some(&format!("{}: the logs do not give an FWL", w.name)),
@@ -181,56 +181,8 @@ fn well(s: &mut Svg, w: &FieldWell<'_>, x: f64, depth: &Scale, depth_unit: &str)
         s.text_styled(x, B - 4.0, "–", 10.0, Anchor::Middle, palette::FRAME, 0.0);
         s.end_group();
         return;
-    };
-    let (colour, shape) = agreement_mark(w.flagged);
-    let range = match (m.upper, m.lower) {
-        (Some(u), Some(l)) => format!("{}-{}", num(u), num(l)),
-        (None, Some(l)) => format!("above {}", num(l)),
-        (Some(u), None) => format!("below {}", num(u)),
-        (None, None) => "open".into(),
-    };
-    let best = m.best.map_or_else(|| "bounded only".into(), num);
-    s.group(
-        if w.flagged {
-            "implied-fwl flagged"
-        } else {
-            "implied-fwl"
-        },
-        Some(&format!(
-            "{}: logs imply FWL {best} (range {range}) {depth_unit} TVDSS{}",
-            w.name,
-            if w.flagged {
-                "; possibly under another FWL"
-            } else {
-                ""
-            }
-        )),
-    );
-    let y_up = m.upper.map_or(T, |v| depth.px_clamped(v));
-    let y_lo = m.lower.map_or(B, |v| depth.px_clamped(v));
-    let closed = m.upper.is_some() && m.lower.is_some();
-    let stroke = if closed {
-        Stroke::solid(colour, 1.8)
-    } else {
-        Stroke::dashed(colour, 1.4, "1 2")
-    };
-    s.line(x, y_up, x, y_lo, stroke);
-    for (end, y) in [(m.upper, y_up), (m.lower, y_lo)] {
-        if end.is_some() {
-            s.line(x - 4.0, y, x + 4.0, y, Stroke::solid(colour, 1.8));
-        }
     }
-    if let Some(b) = m.best {
-        s.marker(
-            shape,
-            x,
-            depth.px_clamped(b),
-            if w.flagged { 6.0 } else { 4.5 },
-            colour,
-            Some(Stroke::solid("#FFFFFF", 0.8)),
-        );
-    }
-    s.end_group();
+    implied_fwl(s, w, x, depth, T, B, depth_unit, 4.6);
 }
 
 fn legend(s: &mut Svg) {
@@ -296,23 +248,6 @@ fn legend(s: &mut Svg) {
     );
     text(s, y, "no estimate from logs");
     y += 26.0;
-    s.text_styled(
-        x0,
-        y,
-        "colours: Okabe-Ito palette",
-        10.0,
-        Anchor::Start,
-        palette::FRAME,
-        0.0,
-    );
-    s.text_styled(
-        x0,
-        y + 14.0,
-        "(colour-blind safe)",
-        10.0,
-        Anchor::Start,
-        palette::FRAME,
-        0.0,
-    );
+    super::palette_note(s, x0, y);
     s.end_group();
 }

@@ -352,7 +352,7 @@ fn well_column(
         Some(Stroke::solid(palette::FRAME, 0.8)),
     );
     step_marks(s, w, x + cw, depth, panel_top, panel_bottom, depth_unit);
-    implied(
+    implied_fwl(
         s,
         w,
         x + cw + 0.12 * slot.min(40.0) + 2.0,
@@ -360,6 +360,7 @@ fn well_column(
         panel_top,
         panel_bottom,
         depth_unit,
+        4.0,
     );
     s.end_group();
 }
@@ -464,10 +465,13 @@ fn curves(s: &mut Svg, p: &Profile, x: f64, w: f64, depth: &Scale) {
     s.end_group();
 }
 
-/// The well's implied FWL: its range as a bar (an open end runs to the
-/// panel's edge, dotted), its best fit as a marker; flagged wells in
-/// vermillion with a diamond, the others black with a circle.
-fn implied(
+/// A well's implied FWL at `x` between `top` and `bottom` px: its range as
+/// a bar (an open end runs to the edge, dotted), its best fit as a marker of
+/// radius `r` (1.3 `r` when flagged); flagged wells in vermillion with a
+/// diamond, the others black with a circle. Shared by the cross-section and
+/// the FWL chart.
+#[allow(clippy::too_many_arguments)]
+pub fn implied_fwl(
     s: &mut Svg,
     w: &FieldWell<'_>,
     x: f64,
@@ -475,6 +479,7 @@ fn implied(
     top: f64,
     bottom: f64,
     depth_unit: &str,
+    r: f64,
 ) {
     let Some(m) = w.implied else { return };
     let (colour, shape) = agreement_mark(w.flagged);
@@ -492,43 +497,36 @@ fn implied(
             "implied-fwl"
         },
         Some(&format!(
-            "{}: logs imply FWL {best} (range {range}) {depth_unit} TVDSS",
-            w.name
+            "{}: logs imply FWL {best} (range {range}) {depth_unit} TVDSS{}",
+            w.name,
+            if w.flagged {
+                "; possibly under another FWL"
+            } else {
+                ""
+            }
         )),
     );
     let px = |v: Option<f64>, open: f64| v.map_or(open, |v| depth.px(v).clamp(top, bottom));
-    let y_up = px(m.upper, top);
-    let y_lo = px(m.lower, bottom);
-    let solid = Stroke::solid(colour, 1.6);
-    let open = Stroke::dashed(colour, 1.2, "1 2");
-    s.line(
-        x,
-        y_up,
-        x,
-        y_lo,
-        if m.upper.is_some() && m.lower.is_some() {
-            solid
-        } else {
-            open
-        },
-    );
+    let (y_up, y_lo) = (px(m.upper, top), px(m.lower, bottom));
+    let solid = Stroke::solid(colour, 1.7);
+    let bar = if m.upper.is_some() && m.lower.is_some() {
+        solid
+    } else {
+        Stroke::dashed(colour, 1.3, "1 2")
+    };
+    s.line(x, y_up, x, y_lo, bar);
     for (end, y) in [(m.upper, y_up), (m.lower, y_lo)] {
         if end.is_some() {
-            s.line(x - 3.0, y, x + 3.0, y, solid);
+            s.line(x - 0.8 * r, y, x + 0.8 * r, y, solid);
         }
     }
-    if let Some(b) = m.best {
-        let y = depth.px(b);
-        if (top..=bottom).contains(&y) {
-            s.marker(
-                shape,
-                x,
-                y,
-                4.0,
-                colour,
-                Some(Stroke::solid("#FFFFFF", 0.8)),
-            );
-        }
+    if let Some(y) = m
+        .best
+        .map(|b| depth.px(b))
+        .filter(|y| (top..=bottom).contains(y))
+    {
+        let r = if w.flagged { 1.3 * r } else { r };
+        s.marker(shape, x, y, r, colour, Some(Stroke::solid("#FFFFFF", 0.8)));
     }
     s.end_group();
 }
@@ -624,24 +622,7 @@ fn legend(s: &mut Svg, c: &CompartmentWells<'_>) {
         y += 14.0;
     }
     y += 8.0;
-    s.text_styled(
-        x0,
-        y + 3.5,
-        "colours: Okabe-Ito palette",
-        10.0,
-        Anchor::Start,
-        palette::FRAME,
-        0.0,
-    );
-    s.text_styled(
-        x0,
-        y + 17.5,
-        "(colour-blind safe)",
-        10.0,
-        Anchor::Start,
-        palette::FRAME,
-        0.0,
-    );
+    super::palette_note(s, x0, y + 3.5);
     if c.wells.iter().any(|w| w.along.is_some()) {
         s.text_styled(
             x0,
