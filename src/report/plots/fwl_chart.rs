@@ -3,9 +3,9 @@
 //! standard error. Wells flagged as possibly under another FWL stand out by
 //! shape (a diamond, not a circle), colour and a marked label.
 
-use crate::report::plots::section::{agreement_mark, implied_fwl};
+use crate::report::plots::section::{agreement_mark, fwl_band, implied_fwl, tvdss_axis};
 use crate::report::plots::{CompartmentWells, FieldWell};
-use crate::report::svg::{Anchor, Scale, Stroke, Svg, nice_ticks, num, palette, tick_label};
+use crate::report::svg::{Anchor, Scale, Stroke, Svg, num, palette};
 
 const W: f64 = 1360.0;
 const H: f64 = 470.0;
@@ -95,21 +95,7 @@ pub fn fwl_agreement(c: &CompartmentWells<'_>, depth_unit: &str) -> String {
 
     let (lo, hi) = span(c);
     let depth = Scale::linear(lo, hi, T, B);
-    s.group("axis", None);
-    for t in nice_ticks(lo, hi, 6) {
-        let y = depth.px(t);
-        s.line(L, y, R, y, Stroke::solid(palette::GRID, 0.6));
-        s.text(L - 6.0, y + 3.5, &tick_label(t), 10.0, Anchor::End);
-    }
-    s.text_styled(
-        16.0,
-        (T + B) / 2.0,
-        &format!("TVDSS {depth_unit}"),
-        11.0,
-        Anchor::Middle,
-        "#000000",
-        -90.0,
-    );
+    tvdss_axis(&mut s, &depth, T, B, 6, depth_unit);
     s.rect(
         L,
         T,
@@ -118,16 +104,7 @@ pub fn fwl_agreement(c: &CompartmentWells<'_>, depth_unit: &str) -> String {
         "none",
         Some(Stroke::solid(palette::FRAME, 0.8)),
     );
-    s.end_group();
-
-    s.group("fwl-band", None);
-    if let Some(sd) = c.fwl_sigma.filter(|v| *v > 0.0) {
-        let (a, b) = (depth.px(c.fwl - sd), depth.px(c.fwl + sd));
-        s.rect_faint(L, a, R - L, b - a, palette::SKY_BLUE, 0.35);
-    }
-    let y = depth.px(c.fwl);
-    s.line(L, y, R, y, Stroke::dashed(palette::BLUE, 1.5, "8 4"));
-    s.end_group();
+    fwl_band(&mut s, c, &depth, T, B);
 
     let n = c.wells.len().max(1);
     let slot = ((R - L) / n as f64).min(MAX_SLOT);

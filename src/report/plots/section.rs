@@ -155,12 +155,31 @@ fn panel(
     });
     let bottom = top + DATA_H;
     s.group("panel", None);
-    // depth grid and axis
+    tvdss_axis(s, depth, top, bottom, 8, depth_unit);
+    fwl_band(s, c, depth, top, bottom);
+    zone_ties(s, wells, depth, top, bottom);
+    for (i, w) in wells.iter().enumerate() {
+        let (x, cw, slot) = column(i, wells.len());
+        well_column(s, w, x, cw, slot, depth, top, bottom, depth_unit);
+    }
+    s.end_group();
+}
+
+/// The TVDSS grid across the data area, its labels and the axis title;
+/// `top` and `bottom` are the pixels of the scale's ends.
+pub(super) fn tvdss_axis(
+    s: &mut Svg,
+    depth: &Scale,
+    top: f64,
+    bottom: f64,
+    ticks: usize,
+    depth_unit: &str,
+) {
     let (lo, hi) = match *depth {
         Scale::Linear { lo, hi, .. } | Scale::Log { lo, hi, .. } => (lo, hi),
     };
     s.group("axis", None);
-    for t in nice_ticks(lo, hi, 8) {
+    for t in nice_ticks(lo, hi, ticks) {
         let y = depth.px(t);
         s.line(L, y, R, y, Stroke::solid(palette::GRID, 0.6));
         s.text(L - 6.0, y + 3.5, &tick_label(t), 10.0, Anchor::End);
@@ -175,7 +194,17 @@ fn panel(
         -90.0,
     );
     s.end_group();
-    // the compartment's FWL: band of one standard error, then the line
+}
+
+/// The compartment's FWL across the data area: a band of one standard
+/// error, then the dashed line, labelled.
+pub(super) fn fwl_band(
+    s: &mut Svg,
+    c: &CompartmentWells<'_>,
+    depth: &Scale,
+    top: f64,
+    bottom: f64,
+) {
     let fwl_y = depth.px(c.fwl);
     s.group("fwl-band", Some(&format!("compartment FWL {}", num(c.fwl))));
     if let Some(sd) = c.fwl_sigma.filter(|v| *v > 0.0) {
@@ -202,12 +231,6 @@ fn panel(
             palette::BLUE,
             0.0,
         );
-    }
-    s.end_group();
-    zone_ties(s, wells, depth, top, bottom);
-    for (i, w) in wells.iter().enumerate() {
-        let (x, cw, slot) = column(i, wells.len());
-        well_column(s, w, x, cw, slot, depth, top, bottom, depth_unit);
     }
     s.end_group();
 }
