@@ -3,14 +3,12 @@
 //! standard error. Wells flagged as possibly under another FWL stand out by
 //! shape (a diamond, not a circle), colour and a marked label.
 
-use crate::report::plots::section::{agreement_mark, fwl_band, implied_fwl, tvdss_axis};
+use crate::report::plots::section::{L, R, agreement_mark, fwl_band, implied_fwl, tvdss_axis};
 use crate::report::plots::{CompartmentWells, FieldWell};
 use crate::report::svg::{Anchor, Scale, Stroke, Svg, num, palette};
 
 const W: f64 = 1360.0;
 const H: f64 = 470.0;
-const L: f64 = 70.0;
-const R: f64 = 1150.0;
 const T: f64 = 130.0;
 const B: f64 = 420.0;
 const LEG_X: f64 = 1168.0;

@@ -14,10 +14,12 @@ use crate::report::svg::{Anchor, Scale, Shape, Stroke, Svg, nice_ticks, num, pal
 pub const PANEL_WELLS: usize = 30;
 
 const W: f64 = 1360.0;
-/// Left edge of the data area (the TVDSS axis is left of it).
-const L: f64 = 70.0;
+/// Left edge of the data area (the TVDSS axis and the zone names are left of it).
+pub(super) const L: f64 = 120.0;
+/// Longest zone name drawn whole in the margin.
+const ZONE_LABEL_CHARS: usize = 12;
 /// Right edge of the data area; the legend is right of it.
-const R: f64 = 1150.0;
+pub(super) const R: f64 = 1150.0;
 const LEG_X: f64 = 1168.0;
 /// Title block height.
 const TITLE_H: f64 = 52.0;
@@ -269,10 +271,20 @@ fn zone_ties(s: &mut Svg, wells: &[FieldWell<'_>], depth: &Scale, top: f64, bott
             if let Some((lx, ly)) = last {
                 s.line(lx, ly, x, y, Stroke::dashed(palette::FRAME, 0.8, "3 2"));
             } else {
+                // in the margin left of the depth labels (the tooltip has
+                // a long name whole)
+                let short: String = if name.chars().count() > ZONE_LABEL_CHARS {
+                    let mut t: String = name.chars().take(ZONE_LABEL_CHARS - 1).collect();
+                    t.push('…');
+                    t
+                } else {
+                    name.to_string()
+                };
+                s.line(L, y, x, y, Stroke::dashed(palette::FRAME, 0.6, "1 2"));
                 s.text_styled(
-                    x - 2.0,
-                    y - 2.0,
-                    name,
+                    L - 46.0,
+                    y + 3.0,
+                    &short,
                     9.0,
                     Anchor::End,
                     palette::FRAME,
