@@ -36,11 +36,11 @@ fn bench(c: &mut Criterion) {
     let tvd: Vec<f64> = (0..N).map(|i| 2000.0 + i as f64 * 0.15).collect();
     let zone_of: Vec<Option<u16>> = (0..N).map(|i| Some(u16::from(i >= N / 2))).collect();
     let base = ParamSet {
-        rw_ohmm: Some(0.045),
-        rho_shale_gcc: Some(2.55),
-        nphi_shale_vv: Some(0.35),
-        rsh_ohmm: Some(2.5),
-        bit_size_in: Some(8.5),
+        rw_ohmm: Some(0.045.into()),
+        rho_shale_gcc: Some(2.55.into()),
+        nphi_shale_vv: Some(0.35.into()),
+        rsh_ohmm: Some(2.5.into()),
+        bit_size_in: Some(8.5.into()),
         porosity_method: Some(PorosityMethod::NeutronDensity),
         saturation_model: Some(SaturationModel::SimandouxModified),
         ..ParamSet::default()
@@ -50,7 +50,7 @@ fn bench(c: &mut Criterion) {
         zone(
             "B",
             ParamSet {
-                archie_n: Some(2.2),
+                archie_n: Some(2.2.into()),
                 ..base.clone()
             },
         ),

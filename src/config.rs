@@ -7,6 +7,7 @@
 
 pub mod params;
 pub mod summary;
+pub mod uncertainty;
 
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
@@ -112,6 +113,12 @@ pub struct Config {
     /// Net cutoffs of the per-well, per-zone summary (field/zone-summary.csv).
     #[serde(default)]
     pub summary: crate::config::summary::SummaryConfig,
+    /// `[uncertainty]`: the Monte Carlo over the parameters given as distributions.
+    #[serde(default)]
+    pub uncertainty: crate::config::uncertainty::UncertaintyConfig,
+    /// The distributions of `[parameters.*]`, numbered: the Monte Carlo's inputs.
+    #[serde(skip)]
+    pub variables: Vec<crate::config::params::Variable>,
     /// The folder the config file is in; relative paths start here.
     #[serde(skip)]
     pub base_dir: PathBuf,
@@ -344,6 +351,7 @@ impl Config {
         })?;
         config.base_dir = base_dir;
         config.source = path.to_path_buf();
+        config.variables = config.parameters.number_distributions();
         config.validate(path)?;
         Ok(config)
     }
@@ -361,6 +369,9 @@ impl Config {
             ));
         }
         if let Err((key, message)) = self.parameters.validate() {
+            return Err(invalid(&key, message));
+        }
+        if let Err((key, message)) = self.uncertainty.validate(&self.variables) {
             return Err(invalid(&key, message));
         }
         if let Err((key, message)) = classes::validate(

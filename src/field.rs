@@ -49,12 +49,44 @@ pub struct RunSummary {
     pub contacts: Vec<crate::contacts::CompartmentView>,
     /// contacts.csv and contacts.json.
     pub contact_outputs: Vec<String>,
+    /// The Monte Carlo over the parameters given as distributions, when run.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub uncertainty: Option<crate::uncertainty::UncertaintySummary>,
     /// One report per well, failed ones included.
     pub wells: Vec<WellReport>,
     /// Where the time went (in run-manifest.json, never in the summary,
     /// which is byte-identical from run to run).
     #[serde(skip)]
     pub timings: RunTimings,
+}
+
+/// The Monte Carlo's part of the run summary, and `field/hpt-drivers.csv`.
+fn uncertainty_summary(
+    config: &Config,
+    out: &Path,
+    samples: &crate::uncertainty::Samples,
+    reports: &[WellReport],
+) -> Result<crate::uncertainty::UncertaintySummary, output::OutputError> {
+    let wells: Vec<&[(String, Vec<f64>)]> = reports
+        .iter()
+        .map(|r| r.view.hpt_realisations.as_slice())
+        .collect();
+    let drivers = crate::uncertainty::drivers(samples, &wells);
+    let path = crate::uncertainty::write_drivers(&drivers, &out.join("field"))?;
+    let u = &config.uncertainty;
+    Ok(crate::uncertainty::UncertaintySummary {
+        realisations: u.realisations,
+        seed: u.seed,
+        sampling: u.sampling,
+        variables: samples
+            .vars
+            .iter()
+            .map(|v| (v.name.clone(), v.dist))
+            .collect(),
+        convention: crate::uncertainty::CONVENTION.into(),
+        drivers,
+        outputs: vec![output::shown(out, &path)],
+    })
 }
 
 /// Run every well of the config into `out`.
@@ -192,6 +224,12 @@ pub fn finish(
             zone_outputs[0].display()
         );
     }
+    let uncertainty = match &setup.samples {
+        Some(samples) => Some(timed(&mut timings.finish, "uncertainty drivers", || {
+            uncertainty_summary(config, out, samples, &reports)
+        })?),
+        None => None,
+    };
     let failed = reports.iter().filter(|r| !r.ok).count();
     let known: Vec<(&Path, Option<&crate::output::manifest::InputFile>)> = setup
         .files
@@ -230,6 +268,7 @@ pub fn finish(
         saturation_outputs,
         contacts: contact_view,
         contact_outputs,
+        uncertainty,
         wells: reports,
         timings,
     };
@@ -264,6 +303,14 @@ fn one_well(path: &Path, stem: &str, models: &Models<'_>, out_dir: &Path) -> Wel
             report.outputs.extend(pages);
             report.view = crate::report::assemble::well_view(&w);
             times.add(Stage::ReportPage, start.elapsed());
+        }
+        if let Some(u) = &w.uncertainty {
+            report.view.hpt_realisations = u
+                .zones
+                .iter()
+                .map(|(z, _)| z.clone())
+                .zip(u.hpt.iter().cloned())
+                .collect();
         }
         Ok(())
     })();

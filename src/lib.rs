@@ -41,5 +41,6 @@ pub(crate) mod report;
 pub mod sat_height;
 pub mod stats;
 pub mod timings;
+pub mod uncertainty;
 pub mod units;
 pub mod well;

@@ -36,6 +36,8 @@ pub struct Models<'a> {
     pub classes: Option<&'a ClassSetup>,
     /// The saturation-height model (J-function per class, FWL per compartment).
     pub sat: Option<&'a SatHeightModel>,
+    /// The Monte Carlo's sampled inputs, when the config gives distributions.
+    pub samples: Option<&'a crate::uncertainty::Samples>,
 }
 
 /// A well after every stage: its table and what each stage found.
@@ -51,6 +53,8 @@ pub struct Interpreted {
     pub contacts: Option<WellAudit>,
     /// Gross, net, net-to-gross, averages and HPT per zone.
     pub zones: Vec<ZoneSummary>,
+    /// The Monte Carlo's ranges per zone and HPT per realisation, when run.
+    pub uncertainty: Option<crate::uncertainty::WellUncertainty>,
 }
 
 /// Take the well whose file `path` holds `bytes` through every stage the run
@@ -147,12 +151,29 @@ pub fn run_well(
         &config.summary,
     );
     times.add(Stage::ZoneSummary, summary_start.elapsed());
+    // low, best and high by Monte Carlo over the parameters' distributions
+    let mut zones = zones;
+    let uncertainty = models.samples.map(|samples| {
+        let names = [out.name.as_str(), file_stem.as_str()];
+        times.time(Stage::Uncertainty, || {
+            let u = crate::uncertainty::run_well(&out, &names, config, samples);
+            for z in &mut zones {
+                z.uncertainty = u
+                    .zones
+                    .iter()
+                    .find(|(name, _)| *name == z.zone)
+                    .map(|(_, r)| r.clone());
+            }
+            u
+        })
+    });
     Ok(Interpreted {
         well: out,
         classes,
         saturation_height,
         contacts,
         zones,
+        uncertainty,
     })
 }
 
@@ -199,8 +220,9 @@ pub struct WellReport {
     pub times: StageTimes,
 }
 
-/// What the report's field page draws of a well, kept from its run: the
-/// field page is written after every well, without their logs.
+/// What the field-level outputs need of a well beyond its summary, kept from
+/// its run: the report's field page and the Monte Carlo's driver ranking are
+/// made after every well, without their logs.
 #[derive(Debug, Clone, Default, Serialize, Deserialize)]
 pub struct WellView {
     /// A sample of the well's (PHIE, RT, CLASS) for the field Pickett plot.
@@ -209,6 +231,9 @@ pub struct WellView {
     pub profile: Option<crate::well::profile::Profile>,
     /// Its surface location as the LAS header gives it.
     pub location: crate::input::location::HeaderLocation,
+    /// HPT per zone and Monte Carlo realisation, `(zone, values)`, for the
+    /// field's ranking of what drives it (empty without a Monte Carlo).
+    pub hpt_realisations: Vec<(String, Vec<f64>)>,
 }
 
 impl WellReport {

@@ -214,6 +214,29 @@ pub fn correlation(pairs: &[(f64, f64)]) -> f64 {
 
 /// Assert `actual` is within `tol` of `expected`, printing both (a test
 /// helper for every module's reference checks).
+/// Ranks (0-based) of `v`, ties broken by position.
+pub fn ranks(v: &[f64]) -> Vec<usize> {
+    let mut idx: Vec<usize> = (0..v.len()).collect();
+    idx.sort_by(|&a, &b| v[a].total_cmp(&v[b]).then(a.cmp(&b)));
+    let mut r = vec![0; v.len()];
+    for (rank, &i) in idx.iter().enumerate() {
+        r[i] = rank;
+    }
+    r
+}
+
+/// Spearman's rank correlation of two samples: the Pearson correlation of
+/// their ranks (Spearman 1904; any statistics text).
+pub fn rank_correlation(a: &[f64], b: &[f64]) -> f64 {
+    let (ra, rb) = (ranks(a), ranks(b));
+    let pairs: Vec<(f64, f64)> = ra
+        .iter()
+        .zip(&rb)
+        .map(|(&x, &y)| (x as f64, y as f64))
+        .collect();
+    correlation(&pairs)
+}
+
 #[cfg(test)]
 #[track_caller]
 pub(crate) fn assert_close(actual: f64, expected: f64, tol: f64) {
@@ -336,5 +359,16 @@ mod tests {
         assert!((correlation(&[(1.0, 2.0), (2.0, 4.0), (3.0, 6.0)]) - 1.0).abs() < 1e-12);
         assert!((correlation(&[(1.0, 6.0), (2.0, 4.0), (3.0, 2.0)]) + 1.0).abs() < 1e-12);
         assert!(correlation(&[(1.0, 1.0), (2.0, 2.0)]).is_nan());
+    }
+
+    #[test]
+    fn spearman_of_known_samples() {
+        // a monotone transform has rank correlation 1; a reversal −1;
+        // [1,2,3,4,5] against [2,1,4,3,5]: d² = 1+1+1+1+0 = 4,
+        // ρ = 1 − 6·4/(5·24) = 0.8 (Spearman's formula, no ties)
+        let a = [1.0, 2.0, 3.0, 4.0, 5.0];
+        assert!((rank_correlation(&a, &[1.0, 8.0, 27.0, 64.0, 125.0]) - 1.0).abs() < 1e-12);
+        assert!((rank_correlation(&a, &[5.0, 4.0, 3.0, 2.0, 1.0]) + 1.0).abs() < 1e-12);
+        assert!((rank_correlation(&a, &[2.0, 1.0, 4.0, 3.0, 5.0]) - 0.8).abs() < 1e-12);
     }
 }

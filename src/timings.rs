@@ -25,6 +25,8 @@ pub enum Stage {
     Contacts,
     /// The per-zone summary.
     ZoneSummary,
+    /// The Monte Carlo over the parameters given as distributions.
+    Uncertainty,
     /// The per-well tables (LAS, CSV, Parquet under `wells/`).
     WellFiles,
     /// The well's part of the field table (`field/curves/`).
@@ -35,13 +37,14 @@ pub enum Stage {
 
 impl Stage {
     /// Every stage, in chain order.
-    pub const ALL: [Stage; 9] = [
+    pub const ALL: [Stage; 10] = [
         Stage::Read,
         Stage::Logs,
         Stage::Classes,
         Stage::SaturationHeight,
         Stage::Contacts,
         Stage::ZoneSummary,
+        Stage::Uncertainty,
         Stage::WellFiles,
         Stage::FieldTable,
         Stage::ReportPage,
@@ -56,6 +59,7 @@ impl Stage {
             Stage::SaturationHeight => "saturation-height",
             Stage::Contacts => "contacts",
             Stage::ZoneSummary => "zone summary",
+            Stage::Uncertainty => "uncertainty (Monte Carlo)",
             Stage::WellFiles => "well files",
             Stage::FieldTable => "field table",
             Stage::ReportPage => "report page",

@@ -118,6 +118,9 @@ pub struct WellOutput {
     pub zone_of: Vec<Option<u16>>,
     /// Rw used at each depth, ohm.m.
     pub rw: Vec<f64>,
+    /// True vertical depth below the surface of each depth, m (the chain's
+    /// temperature input; the Monte Carlo runs the chain again).
+    pub tvd_m: Vec<f64>,
 }
 
 /// What every well of a run shares: the config and the tables it names.
@@ -448,6 +451,7 @@ pub fn process_file(
         report,
         zone_of,
         rw,
+        tvd_m,
     })
 }
 

@@ -25,6 +25,8 @@ pub struct FieldSetup {
     pub(crate) ctx: well::RunContext,
     pub(crate) prepared: Option<crate::classes::stage::Prepared>,
     pub(crate) sat: Option<crate::sat_height::SatHeightModel>,
+    /// The Monte Carlo's sampled inputs (drawn once, before any well).
+    pub(crate) samples: Option<crate::uncertainty::Samples>,
     /// Where the run's time went; `prepare` fills the steps before the wells.
     pub(crate) timings: RunTimings,
 }
@@ -41,6 +43,7 @@ impl FieldSetup {
             ctx: &self.ctx,
             classes: self.prepared.as_ref().and_then(|p| p.setup.as_ref()),
             sat: self.sat.as_ref(),
+            samples: self.samples.as_ref(),
         }
     }
 
@@ -97,6 +100,16 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
             || choose_saturation_evidence(config, sat, p, out, progress),
         )?;
     }
+    let samples = if config.variables.is_empty() {
+        None
+    } else {
+        timed(
+            &mut timings.setup,
+            "uncertainty: sampling the distributions",
+            || crate::uncertainty::Samples::draw(config),
+        )
+        .map_err(|e| Error::Usage(format!("uncertainty: {e}")))?
+    };
     let stems = unique_stems(&files);
     Ok(FieldSetup {
         files,
@@ -104,6 +117,7 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
         ctx,
         prepared,
         sat,
+        samples,
         timings,
     })
 }

@@ -35,6 +35,7 @@ pub fn well_view(w: &Interpreted) -> crate::pipeline::WellView {
         pickett: crate::report::pickett_points(&out.table, crate::report::FIELD_PICKETT_PER_WELL),
         profile: crate::well::profile::profile(&out.table, &out.zone_of, &names),
         location: crate::input::location::from_items(&out.table.well_items),
+        hpt_realisations: Vec::new(),
     }
 }
 

@@ -451,6 +451,7 @@ mod tests {
     use super::*;
     use crate::config::params::ParamSet;
     use crate::stats::assert_close;
+    use crate::uncertainty::dist::Num;
 
     fn zone(p: ParamSet) -> ZoneSetup {
         ZoneSetup {
@@ -470,8 +471,8 @@ mod tests {
     #[test]
     fn one_depth_by_hand() {
         let z = zone(ParamSet {
-            rw_ohmm: Some(0.05),
-            rho_shale_gcc: Some(2.50),
+            rw_ohmm: Some(Num::from(0.05)),
+            rho_shale_gcc: Some(Num::from(2.50)),
             ..ParamSet::default()
         });
         let inputs = Inputs {
@@ -498,9 +499,9 @@ mod tests {
     #[test]
     fn flags_and_counts() {
         let z = zone(ParamSet {
-            rw_ohmm: Some(0.05),
-            rho_shale_gcc: Some(2.5),
-            bit_size_in: Some(8.5),
+            rw_ohmm: Some(Num::from(0.05)),
+            rho_shale_gcc: Some(Num::from(2.5)),
+            bit_size_in: Some(Num::from(8.5)),
             ..ParamSet::default()
         });
         let gr = [70.0, 70.0, 70.0, 70.0, 200.0];
@@ -549,10 +550,10 @@ mod tests {
     #[test]
     fn rw_temperature_in_the_chain() {
         let mut z = zone(ParamSet {
-            rw_ohmm: Some(0.10),
-            rw_temperature_c: Some((75.0 - 32.0) * 5.0 / 9.0),
-            rho_shale_gcc: Some(2.65),
-            surface_temperature_c: Some(15.0),
+            rw_ohmm: Some(Num::from(0.10)),
+            rw_temperature_c: Some(Num::from((75.0 - 32.0) * 5.0 / 9.0)),
+            rho_shale_gcc: Some(Num::from(2.65)),
+            surface_temperature_c: Some(Num::from(15.0)),
             ..ParamSet::default()
         });
         let t = (200.0 - 32.0) * 5.0 / 9.0;
@@ -576,7 +577,7 @@ mod tests {
     #[test]
     fn saturation_by_class_by_hand() {
         let z = zone(ParamSet {
-            rw_ohmm: Some(0.05),
+            rw_ohmm: Some(Num::from(0.05)),
             ..ParamSet::default()
         });
         let table = vec![vec![

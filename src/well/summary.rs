@@ -125,6 +125,12 @@ pub struct ZoneSummary {
     pub samples: usize,
     /// Samples in the zone with VSH, PHIE or SW missing (in gross, never in net).
     pub samples_not_interpreted: usize,
+    /// Net pay, PHIE and SW averages and HPT over the Monte Carlo's
+    /// realisations (P90, P50, P10, mean); only when parameters are given
+    /// as distributions. (Written as null without: shard states are
+    /// postcard, which cannot skip a field.)
+    #[serde(default)]
+    pub uncertainty: Option<crate::uncertainty::ZoneRanges>,
 }
 
 /// Running sums of one zone.
@@ -247,6 +253,7 @@ pub fn zone_summary(
             hpt: a.hpt,
             samples: a.samples,
             samples_not_interpreted: a.not_interpreted,
+            uncertainty: None,
         })
         .collect()
 }
@@ -269,7 +276,7 @@ pub fn write(
     };
     let count =
         |f: fn(&ZoneSummary) -> usize| rows.iter().map(|r| f(r) as u64).collect::<Vec<u64>>();
-    let columns = vec![
+    let mut columns = vec![
         Column::new("WELL".into(), text(|r| &r.well)),
         Column::new("ZONE".into(), text(|r| &r.zone)),
         Column::new("TOP_MD".into(), num(|r| r.top_md)),
@@ -287,6 +294,38 @@ pub fn write(
             count(|r| r.samples_not_interpreted),
         ),
     ];
+    // the Monte Carlo's ranges, when the run has them: per quantity P90 (the
+    // value exceeded in 90 % of the realisations), P50, P10 and the mean
+    if rows.iter().any(|r| r.uncertainty.is_some()) {
+        type Get = fn(&crate::uncertainty::ZoneRanges) -> &crate::uncertainty::Range;
+        let quantities: [(&str, Get); 4] = [
+            ("NET_PAY", |u| &u.net_pay),
+            ("PHIE_AVG_VV", |u| &u.phie_avg),
+            ("SW_AVG_VV", |u| &u.sw_avg),
+            ("HPT", |u| &u.hpt),
+        ];
+        type Pick = fn(&crate::uncertainty::Range) -> f64;
+        let stats: [(&str, Pick); 4] = [
+            ("P90", |r| r.p90),
+            ("P50", |r| r.p50),
+            ("P10", |r| r.p10),
+            ("MEAN", |r| r.mean),
+        ];
+        for (q, get) in quantities {
+            for (stat, pick) in stats {
+                let values: Vec<Option<f64>> = rows
+                    .iter()
+                    .map(|r| {
+                        r.uncertainty
+                            .as_ref()
+                            .map(|u| pick(get(u)))
+                            .filter(|v| v.is_finite())
+                    })
+                    .collect();
+                columns.push(Column::new(format!("{q}_{stat}").into(), values));
+            }
+        }
+    }
     let err = |path: &std::path::Path| {
         let path = path.to_path_buf();
         move |source| crate::output::OutputError::Table {

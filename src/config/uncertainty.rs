@@ -1,0 +1,136 @@
+//! `[uncertainty]`: the Monte Carlo over the parameters given as
+//! distributions in `[parameters.*]` (see [`crate::uncertainty`]).
+//!
+//! ```toml
+//! [uncertainty]
+//! realisations = 200            # default 200; 0 turns the Monte Carlo off
+//! seed = 1                      # same seed, same inputs: same results
+//! sampling = "latin-hypercube"  # or "plain"
+//! [[uncertainty.correlation]]   # rank correlation of two keys, in every
+//! keys = ["archie-m", "archie-n"]   # table that gives both a distribution
+//! r = 0.6
+//! ```
+
+use serde::Deserialize;
+
+use crate::config::params::{Variable, sampled_range};
+use crate::uncertainty::sampling::Sampling;
+
+/// `[uncertainty]`.
+#[derive(Debug, Clone, Deserialize, PartialEq)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct UncertaintyConfig {
+    /// Realisations of the Monte Carlo. Default 200; 0: no Monte Carlo.
+    #[serde(default = "default_realisations")]
+    pub realisations: usize,
+    /// Seed of the sampling. Default 1.
+    #[serde(default = "default_seed")]
+    pub seed: u64,
+    /// Latin hypercube (default) or plain.
+    #[serde(default)]
+    pub sampling: Sampling,
+    /// Rank correlations between pairs of keys.
+    #[serde(default)]
+    pub correlation: Vec<Correlation>,
+}
+
+/// `[[uncertainty.correlation]]`: the rank correlation of two keys.
+#[derive(Debug, Clone, Deserialize, PartialEq)]
+#[serde(deny_unknown_fields, rename_all = "kebab-case")]
+pub struct Correlation {
+    /// Two parameter keys, e.g. `["archie-m", "archie-n"]`.
+    pub keys: [String; 2],
+    /// Spearman rank correlation, -1 to 1.
+    pub r: f64,
+}
+
+fn default_realisations() -> usize {
+    200
+}
+
+fn default_seed() -> u64 {
+    1
+}
+
+impl Default for UncertaintyConfig {
+    fn default() -> Self {
+        UncertaintyConfig {
+            realisations: default_realisations(),
+            seed: default_seed(),
+            sampling: Sampling::default(),
+            correlation: Vec::new(),
+        }
+    }
+}
+
+/// Most realisations a run takes (memory: a number per zone, well and
+/// realisation is kept until the field outputs are written).
+pub const MAX_REALISATIONS: usize = 100_000;
+
+impl UncertaintyConfig {
+    /// The target rank-correlation matrix of `vars` (row-major): 1 on the
+    /// diagonal, each configured pair's r where both keys are distributions
+    /// of the same table. Refuses bad entries with the key's name: (key, message).
+    pub fn matrix(&self, vars: &[Variable]) -> Result<Vec<f64>, (String, String)> {
+        let k = vars.len();
+        let mut c = vec![0.0; k * k];
+        for i in 0..k {
+            c[i * k + i] = 1.0;
+        }
+        for (e, corr) in self.correlation.iter().enumerate() {
+            let key = format!("uncertainty.correlation[{e}]");
+            if !(corr.r.is_finite() && (-1.0..=1.0).contains(&corr.r)) {
+                return Err((format!("{key}.r"), format!("{} must be in -1..1", corr.r)));
+            }
+            for name in &corr.keys {
+                if sampled_range(name).is_none() {
+                    return Err((
+                        format!("{key}.keys"),
+                        format!("`{name}` is not a key that can be given as a distribution"),
+                    ));
+                }
+            }
+            if corr.keys[0] == corr.keys[1] {
+                return Err((format!("{key}.keys"), "the two keys must differ".into()));
+            }
+            for i in 0..k {
+                for j in 0..k {
+                    if vars[i].table == vars[j].table
+                        && vars[i].key == corr.keys[0]
+                        && vars[j].key == corr.keys[1]
+                    {
+                        c[i * k + j] = corr.r;
+                        c[j * k + i] = corr.r;
+                    }
+                }
+            }
+        }
+        if crate::uncertainty::sampling::cholesky(&c, k).is_none() {
+            return Err((
+                "uncertainty.correlation".into(),
+                "these correlations cannot hold together (the matrix is not positive definite): loosen one".into(),
+            ));
+        }
+        Ok(c)
+    }
+
+    /// Refuse out-of-range settings: (key, message).
+    pub fn validate(&self, vars: &[Variable]) -> Result<(), (String, String)> {
+        if self.realisations > MAX_REALISATIONS {
+            return Err((
+                "uncertainty.realisations".into(),
+                format!("{} is more than {MAX_REALISATIONS}", self.realisations),
+            ));
+        }
+        if self.realisations > 0 && self.realisations < 10 && !vars.is_empty() {
+            return Err((
+                "uncertainty.realisations".into(),
+                format!(
+                    "{} is too few for percentiles: use at least 10 (0 turns the Monte Carlo off)",
+                    self.realisations
+                ),
+            ));
+        }
+        self.matrix(vars).map(|_| ())
+    }
+}

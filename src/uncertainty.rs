@@ -1,0 +1,384 @@
+//! Uncertainty: low, best and high net pay, porosity, saturation and
+//! hydrocarbon pore thickness per zone, by Monte Carlo over the parameters
+//! the config gives as distributions ([`dist`]).
+//!
+//! What is sampled: every `[parameters.*]` key written as a distribution
+//! (Rw, Archie a, m and n at any level including per class, matrix, fluid and
+//! shale densities and transit times, shale neutron, gamma-ray clean and
+//! shale readings, shale resistivity), one value per realisation for each
+//! table that sets it: a field-wide value is the same in every well of a
+//! realisation (parameter uncertainty is systematic, not noise from depth to
+//! depth). What is held: the logs, the zone tops, the cutoffs, the classes
+//! (the run's predicted class at each depth), and every key given as a number.
+//!
+//! Each realisation runs the well's petrophysics chain
+//! ([`crate::well::chain::run`]), the class-aware saturation when the run uses
+//! it, and the zone summary ([`crate::well::summary::zone_summary`]) with the
+//! realisation's values: the same code as the deterministic run, so the two
+//! cannot drift apart.
+//!
+//! Percentiles follow the exceedance convention of reserves reporting: P90
+//! is the value exceeded in 90 % of the realisations (the 10th percentile of
+//! the realisations), P10 the value exceeded in 10 %. For net pay and
+//! hydrocarbon pore thickness P90 is the low case and P10 the high case; for
+//! water saturation the low case is its P10 (the highest SW).
+
+pub mod dist;
+pub mod sampling;
+
+use serde::{Deserialize, Serialize};
+
+use crate::config::Config;
+use crate::config::params::Variable;
+use crate::input::curves::LogicalCurve as L;
+use crate::output::schema::Col;
+use crate::petro::saturation::ArchieParams;
+use crate::well::WellOutput;
+use crate::well::chain::{self, ClassSwInputs, Inputs};
+
+/// The run's random inputs and their sampled values.
+#[derive(Debug, Clone)]
+pub struct Samples {
+    /// The random inputs, in the config's order.
+    pub vars: Vec<Variable>,
+    /// `values[var][realisation]`, in the key's unit.
+    pub values: Vec<Vec<f64>>,
+    /// Realisations of the run.
+    pub realisations: usize,
+}
+
+impl Samples {
+    /// Draw every variable's values for the run; `None` when the config has
+    /// no distribution or `realisations = 0`. The config was validated at
+    /// load (correlations possible, distributions inside their ranges).
+    pub fn draw(config: &Config) -> Result<Option<Samples>, String> {
+        let u = &config.uncertainty;
+        let vars = config.variables.clone();
+        if vars.is_empty() || u.realisations == 0 {
+            return Ok(None);
+        }
+        let target = u.matrix(&vars).map_err(|(k, m)| format!("{k}: {m}"))?;
+        let p = sampling::probabilities(vars.len(), u.realisations, &target, u.sampling, u.seed)?;
+        let values = vars
+            .iter()
+            .zip(p)
+            .map(|(v, col)| {
+                let (lo, hi) = crate::config::params::sampled_range(v.key)
+                    .unwrap_or((f64::NEG_INFINITY, f64::INFINITY));
+                col.iter()
+                    .map(|&q| v.dist.quantile_within(q, lo, hi).unwrap_or(v.dist.best()))
+                    .collect()
+            })
+            .collect();
+        Ok(Some(Samples {
+            vars,
+            values,
+            realisations: u.realisations,
+        }))
+    }
+}
+
+/// A quantity's spread over the realisations (exceedance percentiles).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct Range {
+    /// Exceeded in 90 % of the realisations (the 10th percentile).
+    pub p90: f64,
+    /// Exceeded in half the realisations (the median).
+    pub p50: f64,
+    /// Exceeded in 10 % of the realisations (the 90th percentile).
+    pub p10: f64,
+    /// Mean over the realisations.
+    pub mean: f64,
+}
+
+impl Range {
+    /// The range of `values` (NaNs left out); NaN everywhere without any.
+    pub fn of(values: &[f64]) -> Range {
+        let finite: Vec<f64> = values.iter().copied().filter(|v| v.is_finite()).collect();
+        let mean = if finite.is_empty() {
+            f64::NAN
+        } else {
+            finite.iter().sum::<f64>() / finite.len() as f64
+        };
+        Range {
+            p90: crate::stats::percentile(&finite, 10.0),
+            p50: crate::stats::percentile(&finite, 50.0),
+            p10: crate::stats::percentile(&finite, 90.0),
+            mean,
+        }
+    }
+}
+
+/// One zone of one well over the realisations.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ZoneRanges {
+    /// Net pay, depth unit.
+    pub net_pay: Range,
+    /// Thickness-weighted PHIE over net reservoir, v/v.
+    pub phie_avg: Range,
+    /// Pore-volume-weighted SW over net pay, v/v.
+    pub sw_avg: Range,
+    /// Hydrocarbon pore thickness, depth unit.
+    pub hpt: Range,
+}
+
+/// One well's Monte Carlo: per zone (in the zone summary's order) its
+/// ranges, and its HPT in every realisation (for the field's driver ranking).
+#[derive(Debug, Clone, Default, PartialEq, Serialize, Deserialize)]
+pub struct WellUncertainty {
+    /// Per zone: (zone, ranges).
+    pub zones: Vec<(String, ZoneRanges)>,
+    /// HPT per zone and realisation, `hpt[zone][r]`, depth unit.
+    pub hpt: Vec<Vec<f64>>,
+}
+
+/// The well's zone summary in every realisation.
+pub fn run_well(
+    w: &WellOutput,
+    names: &[&str],
+    config: &Config,
+    samples: &Samples,
+) -> WellUncertainty {
+    let t = &w.table;
+    let n = t.n_rows();
+    let nan = vec![f64::NAN; n];
+    let col = |c: Col| t.get(c);
+    let inputs = Inputs {
+        gr: col(Col::Input(L::GammaRay)),
+        rhob: col(Col::Input(L::BulkDensity)),
+        nphi: col(Col::Input(L::NeutronPorosity)),
+        dt: col(Col::Input(L::CompressionalSlowness)),
+        rt: col(Col::Input(L::DeepResistivity)),
+        cali: col(Col::Input(L::Caliper)),
+        bs: col(Col::Input(L::BitSize)),
+        tvd_m: &w.tvd_m,
+    };
+    let class = col(Col::Class).unwrap_or(&nan);
+    let md = col(Col::Depth).unwrap_or(&nan);
+    let zone_names: Vec<String> = w.report.zones.iter().map(|z| z.name.clone()).collect();
+    let params = &config.parameters;
+    let zone_vars: Vec<Vec<(&'static str, usize)>> = zone_names
+        .iter()
+        .map(|z| params.for_well_zone(names, z).vars())
+        .collect();
+    // the class-aware saturation, when the run applied it
+    let by_class = w.report.class_exponents.as_ref().map(|c| {
+        let max_class = c
+            .by_zone
+            .first()
+            .map_or(0, |(_, t)| u8::try_from(t.len()).unwrap_or(u8::MAX));
+        let vars: Vec<Vec<Vec<(&'static str, usize)>>> = zone_names
+            .iter()
+            .map(|z| params.class_archie_vars(z, max_class))
+            .collect();
+        (max_class, vars)
+    });
+    let mut per_zone: Vec<(String, Vec<[f64; 4]>)> = Vec::new();
+    for r in 0..samples.realisations {
+        let value = |var: usize| samples.values[var][r];
+        let mut setups = w.report.zones.clone();
+        for (s, vars) in setups.iter_mut().zip(&zone_vars) {
+            for &(key, var) in vars {
+                match key {
+                    "gr-clean-gapi" => s.gr_clean_gapi = value(var),
+                    "gr-shale-gapi" => s.gr_shale_gapi = value(var),
+                    _ => s.params.set(key, value(var)),
+                }
+            }
+        }
+        let out = chain::run(&inputs, &w.zone_of, &setups);
+        let sw = match &by_class {
+            Some((max_class, vars)) => {
+                let archie: Vec<Vec<ArchieParams>> = setups
+                    .iter()
+                    .zip(vars)
+                    .map(|(s, class_vars)| {
+                        let mut table = params.class_archie(&s.name, s.params.archie, *max_class);
+                        for (a, cv) in table.iter_mut().zip(class_vars) {
+                            for &(key, var) in cv {
+                                let v = value(var);
+                                match key {
+                                    "archie-a" => a.a = v,
+                                    "archie-m" => a.m = v,
+                                    _ => a.n = v,
+                                }
+                            }
+                        }
+                        table
+                    })
+                    .collect();
+                let inp = ClassSwInputs {
+                    zone_of: &w.zone_of,
+                    rw: &out.rw,
+                    rt: inputs.rt.unwrap_or(&nan),
+                    vsh: &out.vsh,
+                    phie: &out.phie,
+                    sw_fixed: &out.sw,
+                    class,
+                };
+                let mut flag = out.flag.clone();
+                chain::saturation_by_class(&inp, &setups, &archie, &mut flag).sw
+            }
+            None => out.sw.clone(),
+        };
+        let zones = crate::well::summary::zone_summary(
+            &w.name,
+            md,
+            &w.zone_of,
+            &zone_names,
+            &out.vsh,
+            &out.phie,
+            &sw,
+            class,
+            &config.summary,
+        );
+        for z in zones {
+            let row = [z.net_pay, z.phie_avg, z.sw_avg, z.hpt];
+            match per_zone.iter_mut().find(|(name, _)| *name == z.zone) {
+                Some((_, rows)) => rows.push(row),
+                None => per_zone.push((z.zone, vec![row])),
+            }
+        }
+    }
+    let pick = |rows: &[[f64; 4]], k: usize| -> Vec<f64> { rows.iter().map(|r| r[k]).collect() };
+    WellUncertainty {
+        zones: per_zone
+            .iter()
+            .map(|(z, rows)| {
+                (
+                    z.clone(),
+                    ZoneRanges {
+                        net_pay: Range::of(&pick(rows, 0)),
+                        phie_avg: Range::of(&pick(rows, 1)),
+                        sw_avg: Range::of(&pick(rows, 2)),
+                        hpt: Range::of(&pick(rows, 3)),
+                    },
+                )
+            })
+            .collect(),
+        hpt: per_zone.iter().map(|(_, rows)| pick(rows, 3)).collect(),
+    }
+}
+
+/// One driver of a zone's field-wide HPT: a variable and the Spearman rank
+/// correlation between its samples and the zone's HPT summed over wells.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Driver {
+    /// The zone.
+    pub zone: String,
+    /// The variable's full key name.
+    pub parameter: String,
+    /// Spearman's rank correlation with the zone's HPT, -1 to 1.
+    pub rank_correlation: f64,
+}
+
+/// The drivers of each zone's HPT, strongest first: per zone, the rank
+/// correlation of every variable with the zone's HPT summed over the wells
+/// in each realisation. `wells`: each well's HPT per zone and realisation.
+/// A variable that does not change the zone's HPT (or a zone whose HPT does
+/// not vary) gets a correlation of 0.
+pub fn drivers(samples: &Samples, wells: &[&[(String, Vec<f64>)]]) -> Vec<Driver> {
+    let mut totals: Vec<(String, Vec<f64>)> = Vec::new();
+    for w in wells {
+        for (zone, hpt) in w.iter() {
+            let slot = match totals.iter().position(|(z, _)| z == zone) {
+                Some(i) => i,
+                None => {
+                    totals.push((zone.clone(), vec![0.0; samples.realisations]));
+                    totals.len() - 1
+                }
+            };
+            for (t, v) in totals[slot].1.iter_mut().zip(hpt) {
+                if v.is_finite() {
+                    *t += v;
+                }
+            }
+        }
+    }
+    let mut out = Vec::new();
+    for (zone, total) in &totals {
+        let mut ds: Vec<Driver> = samples
+            .vars
+            .iter()
+            .zip(&samples.values)
+            .map(|(v, x)| {
+                let rho = crate::stats::rank_correlation(x, total);
+                Driver {
+                    zone: zone.clone(),
+                    parameter: v.name.clone(),
+                    rank_correlation: if rho.is_finite() { rho } else { 0.0 },
+                }
+            })
+            .collect();
+        ds.sort_by(|a, b| {
+            b.rank_correlation
+                .abs()
+                .total_cmp(&a.rank_correlation.abs())
+                .then_with(|| a.parameter.cmp(&b.parameter))
+        });
+        out.extend(ds);
+    }
+    out
+}
+
+/// The Monte Carlo in the run summary: what was sampled, how, and what drives HPT.
+#[derive(Debug, Clone, Serialize)]
+pub struct UncertaintySummary {
+    /// Realisations run.
+    pub realisations: usize,
+    /// Seed of the sampling.
+    pub seed: u64,
+    /// Latin hypercube or plain.
+    pub sampling: sampling::Sampling,
+    /// Every distribution: its full key name and parameters.
+    pub variables: Vec<(String, dist::Dist)>,
+    /// The percentile convention, in words.
+    pub convention: String,
+    /// Per zone, every variable's rank correlation with the zone's HPT.
+    pub drivers: Vec<Driver>,
+    /// hpt-drivers.csv.
+    pub outputs: Vec<String>,
+}
+
+/// The convention of the P90/P50/P10 columns, in words.
+pub const CONVENTION: &str = "P90 is the value exceeded in 90 % of the realisations (the 10th percentile), P10 the value exceeded in 10 %; for net pay and HPT, P90 is the low case and P10 the high case; for SW the low case is its P10 (the highest SW)";
+
+/// Write `field/hpt-drivers.csv` (ZONE, PARAMETER, RANK_CORRELATION, RANK):
+/// per zone, each variable's rank correlation with the zone's HPT, strongest first.
+pub fn write_drivers(
+    drivers: &[Driver],
+    dir: &std::path::Path,
+) -> Result<std::path::PathBuf, crate::output::OutputError> {
+    let path = dir.join("hpt-drivers.csv");
+    let io = |source| crate::output::OutputError::Io {
+        path: path.clone(),
+        source,
+    };
+    std::fs::create_dir_all(dir).map_err(|source| crate::output::OutputError::Io {
+        path: dir.to_path_buf(),
+        source,
+    })?;
+    let mut text = String::from("ZONE,PARAMETER,RANK_CORRELATION,RANK\n");
+    let mut rank = 0;
+    let mut zone: Option<&str> = None;
+    for d in drivers {
+        rank = if zone == Some(d.zone.as_str()) {
+            rank + 1
+        } else {
+            1
+        };
+        zone = Some(&d.zone);
+        let quote = |s: &str| format!("\"{}\"", s.replace('"', "\"\""));
+        text.push_str(&format!(
+            "{},{},{:.4},{rank}\n",
+            quote(&d.zone),
+            quote(&d.parameter),
+            d.rank_correlation
+        ));
+    }
+    crate::output::write_atomic(&path, |w| {
+        use std::io::Write as _;
+        w.write_all(text.as_bytes()).map_err(io)
+    })?;
+    Ok(path)
+}
