@@ -358,9 +358,16 @@ pub fn write_drivers(
         path: dir.to_path_buf(),
         source,
     })?;
-    let mut text = String::from("ZONE,PARAMETER,RANK_CORRELATION,RANK\n");
+    // quoted where a field needs it (parameter names hold quotes)
+    let mut csv = csv::Writer::from_writer(Vec::new());
     let mut rank = 0;
     let mut zone: Option<&str> = None;
+    let mut rows = vec![[
+        "ZONE".to_string(),
+        "PARAMETER".into(),
+        "RANK_CORRELATION".into(),
+        "RANK".into(),
+    ]];
     for d in drivers {
         rank = if zone == Some(d.zone.as_str()) {
             rank + 1
@@ -368,17 +375,26 @@ pub fn write_drivers(
             1
         };
         zone = Some(&d.zone);
-        let quote = |s: &str| format!("\"{}\"", s.replace('"', "\"\""));
-        text.push_str(&format!(
-            "{},{},{:.4},{rank}\n",
-            quote(&d.zone),
-            quote(&d.parameter),
-            d.rank_correlation
-        ));
+        rows.push([
+            d.zone.clone(),
+            d.parameter.clone(),
+            format!("{:.4}", d.rank_correlation),
+            rank.to_string(),
+        ]);
     }
+    for r in &rows {
+        csv.write_record(r)
+            .map_err(|e| io(std::io::Error::other(e)))?;
+    }
+    let text = csv
+        .into_inner()
+        .map_err(|e| io(std::io::Error::other(e.to_string())))?;
     crate::output::write_atomic(&path, |w| {
         use std::io::Write as _;
-        w.write_all(text.as_bytes()).map_err(io)
+        w.write_all(&text).map_err(io)
     })?;
     Ok(path)
 }
+
+#[cfg(test)]
+mod tests;

@@ -134,3 +134,112 @@ impl UncertaintyConfig {
         self.matrix(vars).map(|_| ())
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::config::params::Parameters;
+
+    fn params(text: &str) -> Parameters {
+        toml::from_str(text).expect("parameters parse")
+    }
+
+    fn uncertainty(text: &str) -> UncertaintyConfig {
+        toml::from_str(text).expect("uncertainty parses")
+    }
+
+    /// Bad distributions are refused when the config loads, each with its
+    /// key's full name.
+    #[test]
+    fn bad_distributions_are_refused_with_the_key() {
+        for (text, key, words) in [
+            (
+                "[zone.\"Upper Kell\"]\nrw-ohmm = { normal = [0.05, -0.01] }",
+                "parameters.zone.\"Upper Kell\".rw-ohmm",
+                "standard deviation",
+            ),
+            (
+                "[field]\narchie-m = { triangular = [2.2, 2.0, 1.8] }",
+                "parameters.field.archie-m",
+                "low <= most likely",
+            ),
+            (
+                "[class.\"2\"]\narchie-n = { uniform = [2.1, 1.9] }",
+                "parameters.class.\"2\".archie-n",
+                "low < high",
+            ),
+            (
+                "[field]\nbad-hole-in = { normal = [1.0, 0.1] }",
+                "parameters.field.bad-hole-in",
+                "held exact",
+            ),
+            (
+                "[field]\nrw-ohmm = { uniform = [-2, -1] }",
+                "parameters.field.rw-ohmm",
+                "physical range",
+            ),
+        ] {
+            let (k, m) = params(text).validate().expect_err(text);
+            assert_eq!(k, key, "{text}");
+            assert!(m.contains(words), "{text}: {m}");
+        }
+    }
+
+    /// Distributions are numbered in a fixed order and keep their table, so
+    /// a correlation applies within each table that gives both keys.
+    #[test]
+    fn correlations_apply_per_table_and_impossible_sets_are_refused() {
+        let mut p = params(
+            "[field]\nrw-ohmm = { normal = [0.05, 0.005] }\n\
+             [class.\"1\"]\narchie-m = { triangular = [2.0, 2.1, 2.2] }\narchie-n = { normal = [2.1, 0.1] }\n\
+             [class.\"2\"]\narchie-m = { triangular = [1.9, 2.0, 2.1] }\narchie-n = { normal = [2.0, 0.1] }",
+        );
+        let vars = p.number_distributions();
+        let names: Vec<&str> = vars.iter().map(|v| v.name.as_str()).collect();
+        assert_eq!(
+            names,
+            [
+                "parameters.field.rw-ohmm",
+                "parameters.class.\"1\".archie-m",
+                "parameters.class.\"1\".archie-n",
+                "parameters.class.\"2\".archie-m",
+                "parameters.class.\"2\".archie-n",
+            ]
+        );
+        let u = uncertainty("[[correlation]]\nkeys = [\"archie-m\", \"archie-n\"]\nr = 0.6");
+        let c = u.matrix(&vars).expect("possible");
+        let k = vars.len();
+        // m and n correlated within class 1 and within class 2, not across
+        assert_eq!(
+            (c[k + 2], c[3 * k + 4], c[k + 4], c[1]),
+            (0.6, 0.6, 0.0, 0.0)
+        );
+        let (key, m) = uncertainty("[[correlation]]\nkeys = [\"archie-m\", \"archie-n\"]\nr = 1.5")
+            .validate(&vars)
+            .expect_err("r out of range");
+        assert_eq!(key, "uncertainty.correlation[0].r");
+        assert!(m.contains("-1..1"), "{m}");
+        let (key, _) =
+            uncertainty("[[correlation]]\nkeys = [\"archie-m\", \"bad-hole-in\"]\nr = 0.5")
+                .validate(&vars)
+                .expect_err("not a sampled key");
+        assert_eq!(key, "uncertainty.correlation[0].keys");
+        // three field keys pairwise 0.9, 0.9 and -0.9 cannot hold together
+        let mut p = params(
+            "[field]\nrw-ohmm = { normal = [0.05, 0.005] }\narchie-m = { normal = [2, 0.1] }\narchie-n = { normal = [2, 0.1] }",
+        );
+        let vars = p.number_distributions();
+        let u = uncertainty(
+            "[[correlation]]\nkeys = [\"archie-m\", \"archie-n\"]\nr = 0.9\n\
+             [[correlation]]\nkeys = [\"archie-m\", \"rw-ohmm\"]\nr = 0.9\n\
+             [[correlation]]\nkeys = [\"archie-n\", \"rw-ohmm\"]\nr = -0.9",
+        );
+        let (key, m) = u.validate(&vars).expect_err("not positive definite");
+        assert_eq!(key, "uncertainty.correlation");
+        assert!(m.contains("positive definite"), "{m}");
+        let (key, _) = uncertainty("realisations = 5")
+            .validate(&vars)
+            .expect_err("too few");
+        assert_eq!(key, "uncertainty.realisations");
+    }
+}

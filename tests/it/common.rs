@@ -164,16 +164,21 @@ pub fn crlf(bytes: &[u8]) -> Vec<u8> {
 
 /// Header and rows of a CSV file (plain comma-separated, no quoting).
 pub fn read_table(path: &Path) -> (Vec<String>, Vec<Vec<String>>) {
-    let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
-    let mut lines = text.lines();
-    let head = lines
-        .next()
-        .expect("header")
-        .split(',')
+    let mut r = csv::Reader::from_path(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
+    let head = r
+        .headers()
+        .unwrap_or_else(|e| panic!("{}: {e}", path.display()))
+        .iter()
         .map(String::from)
         .collect();
-    let rows = lines
-        .map(|l| l.split(',').map(String::from).collect())
+    let rows = r
+        .records()
+        .map(|rec| {
+            rec.unwrap_or_else(|e| panic!("{}: {e}", path.display()))
+                .iter()
+                .map(String::from)
+                .collect()
+        })
         .collect();
     (head, rows)
 }
@@ -252,4 +257,9 @@ pub fn bench_field(dir: &Path, wells: usize, depths: usize) {
         "{}",
         String::from_utf8_lossy(&made.stderr)
     );
+}
+
+/// A CSV cell as a number, NaN when empty or not a number.
+pub fn num(s: &str) -> f64 {
+    s.parse().unwrap_or(f64::NAN)
 }

@@ -25,15 +25,11 @@
 
 use std::path::Path;
 
-use crate::common::{col, demo_config_edited, read_table, root, run_demo_field, run_summary};
+use crate::common::{col, demo_config_edited, num, read_table, root, run_demo_field, run_summary};
 
 const WINDOW: usize = 4; // 0.6 m at 0.1524 m
 const MIN_STEP: f64 = 0.10;
 const MATCH_M: f64 = 0.6;
-
-fn num(s: &str) -> f64 {
-    s.parse().unwrap_or(f64::NAN)
-}
 
 /// Truth steps of one well: (TVDSS m, kind, reservoir on both sides).
 fn truth_steps(path: &Path) -> Vec<(f64, &'static str, bool)> {

@@ -44,3 +44,5 @@ mod safety;
 mod sat_height;
 /// `run` on the demo field recovers the forward model's truth within stated tolerances.
 mod truth;
+/// The Monte Carlo on the demo: low/best/high per zone, the drivers of HPT, off with 0 realisations.
+mod uncertainty;

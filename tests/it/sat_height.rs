@@ -21,12 +21,8 @@
 //!   prediction, on top of the J fit's own RMS of about 0.02-0.03.
 
 use crate::common::{
-    col, demo_config_edited, read_table, root, run_config, run_demo_field, run_summary,
+    col, demo_config_edited, num, read_table, root, run_config, run_demo_field, run_summary,
 };
-
-fn num(s: &str) -> f64 {
-    s.parse().unwrap_or(f64::NAN)
-}
 
 fn rms(d: &[f64]) -> f64 {
     (d.iter().map(|x| x * x).sum::<f64>() / d.len() as f64).sqrt()

@@ -1,0 +1,85 @@
+//! The Monte Carlo on the demo field: the low/best/high columns of the zone
+//! summary, the ranking of what drives HPT, and the switch that turns it off.
+//! (Its samplers are checked against first-order propagation and brute-force
+//! integration in `uncertainty::tests`; its independence from the thread
+//! count and from shards by the `field_run` tests, whose demo config has
+//! distributions.)
+
+use crate::common::{col, demo_config_edited, num, read_table, run_summary};
+
+#[test]
+fn demo_zone_summary_has_ordered_low_best_high_and_ranked_drivers() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("out");
+    let cfg = demo_config_edited(dir.path(), |t| t);
+    let summary = run_summary(&cfg, &out);
+    let u = &summary["uncertainty"];
+    assert_eq!(u["realisations"], 200);
+    assert_eq!(u["variables"].as_array().expect("variables").len(), 13);
+    let (h, rows) = read_table(&out.join("field/zone-summary.csv"));
+    let (pay, hpt) = (col(&h, "NET_PAY"), col(&h, "HPT"));
+    let q = |name: &str| col(&h, name);
+    let mut pay_zones = 0;
+    for r in &rows {
+        if num(&r[pay]) <= 0.0 {
+            continue;
+        }
+        pay_zones += 1;
+        for what in ["NET_PAY", "HPT", "PHIE_AVG_VV", "SW_AVG_VV"] {
+            let (p90, p50, p10) = (
+                num(&r[q(&format!("{what}_P90"))]),
+                num(&r[q(&format!("{what}_P50"))]),
+                num(&r[q(&format!("{what}_P10"))]),
+            );
+            assert!(p90 <= p50 && p50 <= p10, "{what} {r:?}");
+        }
+        // the deterministic HPT (every key at its best value) lies within
+        // the range, give or take the skew of the nonlinear chain
+        let (lo, hi, det) = (num(&r[q("HPT_P90")]), num(&r[q("HPT_P10")]), num(&r[hpt]));
+        assert!(det >= 0.95 * lo && det <= 1.05 * hi, "{r:?}");
+        assert!(hi > lo, "HPT has a spread: {r:?}");
+    }
+    assert!(pay_zones >= 8, "{pay_zones} zones with pay");
+    // the signs Archie's equation and the shale volume give: more Rw or a
+    // larger n makes more water (∂SW/∂Rw > 0, ∂SW/∂n = −SW·ln SW/n > 0 for
+    // SW < 1), less HPT; a higher clean-sand GR makes less shale, more porosity
+    let (dh, drows) = read_table(&out.join("field/hpt-drivers.csv"));
+    let (z, p, rho, rank) = (
+        col(&dh, "ZONE"),
+        col(&dh, "PARAMETER"),
+        col(&dh, "RANK_CORRELATION"),
+        col(&dh, "RANK"),
+    );
+    let upper: Vec<&Vec<String>> = drows.iter().filter(|r| r[z] == "Upper Kell").collect();
+    assert_eq!(upper.len(), 13);
+    assert_eq!(upper[0][rank], "1");
+    let of = |name: &str| {
+        upper
+            .iter()
+            .find(|r| r[p] == name)
+            .map(|r| num(&r[rho]))
+            .expect(name)
+    };
+    assert!(of("parameters.field.rw-ohmm") < -0.2);
+    assert!(of("parameters.field.gr-clean-gapi") > 0.2);
+    assert!(of("parameters.class.\"1\".archie-n") < 0.0);
+    let strongest: Vec<f64> = upper.iter().map(|r| num(&r[rho]).abs()).collect();
+    assert!(
+        strongest.windows(2).all(|w| w[0] >= w[1]),
+        "ranked: {strongest:?}"
+    );
+}
+
+#[test]
+fn no_realisations_means_no_monte_carlo() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("out");
+    let cfg = demo_config_edited(dir.path(), |t| {
+        t.replace("realisations = 200", "realisations = 0")
+    });
+    let summary = run_summary(&cfg, &out);
+    assert!(summary.get("uncertainty").is_none());
+    let (h, _) = read_table(&out.join("field/zone-summary.csv"));
+    assert!(!h.iter().any(|c| c.ends_with("_P90")), "{h:?}");
+    assert!(!out.join("field/hpt-drivers.csv").exists());
+}
