@@ -248,9 +248,12 @@ pub fn finish(
             out,
             setup.prepared.as_ref(),
             setup.sat.as_ref(),
-            &reports,
-            &zone_rows,
-            &manifest,
+            &crate::report::assemble::RunResults {
+                reports: &reports,
+                zones: &zone_rows,
+                manifest: &manifest,
+                drivers: uncertainty.as_ref().map_or(&[], |u| u.drivers.as_slice()),
+            },
         )?;
         if progress {
             note!("report: {}", out.join(page).display());

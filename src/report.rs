@@ -401,6 +401,8 @@ pub struct FieldPage<'a> {
     pub rw_ohmm: f64,
     /// The views across wells: cross-sections, FWL charts, base map.
     pub views: field_views::Views<'a>,
+    /// The Monte Carlo's drivers of each zone's HPT, ranked (empty without one).
+    pub drivers: &'a [crate::uncertainty::Driver],
 }
 
 /// Write the field page, `report/index.html`; returns its path relative to `out`.
@@ -435,6 +437,7 @@ pub fn write_field_page(out: &Path, p: &FieldPage<'_>) -> Result<String, OutputE
     crossplots_section(&mut h, p);
     evidence_section(&mut h, p);
     field_views::write_section(&mut h, &dir, &p.views, p.depth_unit)?;
+    uncertainty_section(&mut h, p);
     steps_section(&mut h, p);
     zone_section(&mut h, p);
     page_end(&mut h);
@@ -577,6 +580,21 @@ fn crossplots_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("</div>\n<p class=\"note\">The Pickett plot thins every well's depths to a sample; each well's page has its own.</p>\n");
 }
 
+/// The field page's Monte Carlo: the tornado chart of what drives each
+/// zone's HPT, and the percentile convention.
+fn uncertainty_section(h: &mut String, p: &FieldPage<'_>) {
+    if p.drivers.is_empty() {
+        return;
+    }
+    h.push_str("<h2 id=\"uncertainty\">Uncertainty</h2>\n");
+    let _ = writeln!(
+        h,
+        "<p class=\"note\">Monte Carlo over the parameters the config gives as distributions; the logs, zone tops, cutoffs and classes are held. {}. The zone summary below and <a href=\"../field/zone-summary.csv\">field/zone-summary.csv</a> give each zone's P90, P50, P10 and mean; <a href=\"../field/hpt-drivers.csv\">field/hpt-drivers.csv</a> ranks every input. The ranges reflect only the stated input uncertainties.</p>",
+        escape(crate::uncertainty::CONVENTION)
+    );
+    plot(h, &plots::tornado::tornado(p.drivers));
+}
+
 /// The field page's saturation steps, the first [`MAX_TABLE_ROWS`].
 fn steps_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("<h2>Saturation steps</h2>\n");
@@ -629,12 +647,13 @@ fn steps_section(h: &mut String, p: &FieldPage<'_>) {
 fn zone_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("<h2>Zone summary</h2>\n");
     let u = p.depth_unit;
+    let ranges = p.zones.iter().any(|z| z.uncertainty.is_some());
     let rows: Vec<Vec<Cell>> = p
         .zones
         .iter()
         .take(MAX_TABLE_ROWS)
         .map(|z| {
-            vec![
+            let mut row = vec![
                 text(&z.well),
                 text(&z.zone),
                 fmt(z.gross, 2),
@@ -643,7 +662,14 @@ fn zone_section(h: &mut String, p: &FieldPage<'_>) {
                 fmt(z.phie_avg, 3),
                 fmt(z.sw_avg, 3),
                 fmt(z.hpt, 3),
-            ]
+            ];
+            if ranges {
+                let r = z.uncertainty.as_ref().map(|u| u.hpt);
+                for v in [r.map(|r| r.p90), r.map(|r| r.p50), r.map(|r| r.p10)] {
+                    row.push(fmt(v.unwrap_or(f64::NAN), 3));
+                }
+            }
+            row
         })
         .collect();
     if p.zones.len() > MAX_TABLE_ROWS {
@@ -653,21 +679,25 @@ fn zone_section(h: &mut String, p: &FieldPage<'_>) {
             p.zones.len()
         );
     }
-    table(
-        h,
-        "zone-summary",
-        &[
-            "well",
-            "zone",
-            &format!("gross {u}"),
-            &format!("net pay {u}"),
-            "NTG",
-            "PHIE avg",
-            "SW avg",
-            &format!("HPT {u}"),
-        ],
-        &rows,
-    );
+    let mut head: Vec<String> = vec![
+        "well".into(),
+        "zone".into(),
+        format!("gross {u}"),
+        format!("net pay {u}"),
+        "NTG".into(),
+        "PHIE avg".into(),
+        "SW avg".into(),
+        format!("HPT {u}"),
+    ];
+    if ranges {
+        head.extend([
+            format!("HPT P90 (low) {u}"),
+            format!("HPT P50 {u}"),
+            format!("HPT P10 (high) {u}"),
+        ]);
+    }
+    let head: Vec<&str> = head.iter().map(String::as_str).collect();
+    table(h, "zone-summary", &head, &rows);
 }
 
 /// A J-curve sampled for plotting: Sw at J on a log grid, Sw increasing.

@@ -96,16 +96,31 @@ pub fn well_page(
     crate::report::write_well_page(out_dir, &page)
 }
 
+/// What the field page reports of the run after its wells.
+pub struct RunResults<'a> {
+    /// Every well's report, failed ones included.
+    pub reports: &'a [WellReport],
+    /// The zone summary's rows.
+    pub zones: &'a [crate::well::summary::ZoneSummary],
+    pub manifest: &'a crate::output::manifest::Manifest,
+    /// The Monte Carlo's drivers of HPT (empty without one).
+    pub drivers: &'a [crate::uncertainty::Driver],
+}
+
 /// Write the report's field page from the run's models and every well's report.
 pub fn field_page(
     config: &Config,
     out: &Path,
     prepared: Option<&Prepared>,
     sat: Option<&SatHeightModel>,
-    reports: &[WellReport],
-    zones: &[crate::well::summary::ZoneSummary],
-    manifest: &crate::output::manifest::Manifest,
+    run: &RunResults<'_>,
 ) -> Result<String, output::OutputError> {
+    let RunResults {
+        reports,
+        zones,
+        manifest,
+        drivers,
+    } = *run;
     use crate::classes::ClassScheme as _;
     use crate::report::plots::{
         Boundaries, CorePoint, GradientLine, JClass, PressureCompartment, PressurePoint,
@@ -248,6 +263,7 @@ pub fn field_page(
         archie,
         rw_ohmm: field_archie.rw_ohmm.unwrap_or(f64::NAN),
         views: crate::report::field_views::build(config, sat, reports),
+        drivers,
     };
     crate::report::write_field_page(out, &page)
 }

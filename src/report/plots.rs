@@ -11,6 +11,7 @@ pub mod crossplots;
 pub mod fwl_chart;
 pub mod logplot;
 pub mod section;
+pub mod tornado;
 
 use std::collections::BTreeMap;
 

@@ -85,8 +85,10 @@ fn report_pages_render_in_a_browser() {
     assert!(dom.contains("id=\"caution\""), "caution missing");
     // the five field crossplots, each with data (the demo has core,
     // capillary plugs, pressures, a trained predictor and a field Rw), the
-    // base map, and per compartment (East, Main) a cross-section and an FWL chart
-    assert_eq!(dom.matches("<svg").count(), 5 + 1 + 2 * 2, "plots");
+    // base map, per compartment (East, Main) a cross-section and an FWL
+    // chart, and the Monte Carlo's tornado chart
+    assert_eq!(dom.matches("<svg").count(), 5 + 1 + 2 * 2 + 1, "plots");
+    assert_eq!(dom.matches("<g class=\"tornado-zone\">").count(), 3, "a tornado per zone");
     for group in [
         "class=\"points\"",
         "class=\"j-class\"",
@@ -107,8 +109,11 @@ fn report_pages_render_in_a_browser() {
     assert_eq!(dom.matches("<g class=\"section-well").count(), 8);
     assert_eq!(dom.matches("<g class=\"implied-fwl").count(), 2 * 8);
     let links = relative_links(&std::fs::read_to_string(&index).expect("index"));
+    let (data, links_here): (Vec<&String>, Vec<&String>) =
+        links.iter().partition(|l| l.starts_with("../"));
+    assert_eq!(data.len(), 2, "the zone summary and the HPT drivers: {data:?}");
     let (views, well_links): (Vec<&String>, Vec<&String>) =
-        links.iter().partition(|l| l.starts_with("field/"));
+        links_here.into_iter().partition(|l| l.starts_with("field/"));
     assert_eq!(well_links.len(), 8, "a link per well: {links:?}");
     assert_eq!(views.len(), 1 + 2 * 2, "a link per view: {links:?}");
     for l in &links {
