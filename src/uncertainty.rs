@@ -24,6 +24,7 @@
 //! water saturation the low case is its P10 (the highest SW).
 
 pub mod dist;
+pub mod fast;
 pub mod sampling;
 
 use serde::{Deserialize, Serialize};
@@ -132,8 +133,47 @@ pub struct WellUncertainty {
     pub hpt: Vec<Vec<f64>>,
 }
 
-/// The well's zone summary in every realisation.
+/// The well's zone summary in every realisation: by the fast path
+/// ([`fast`]) when only SW's inputs are uncertain and the zones use Archie,
+/// else by the whole chain per realisation ([`run_well_chain`]).
 pub fn run_well(
+    w: &WellOutput,
+    names: &[&str],
+    config: &Config,
+    samples: &Samples,
+) -> WellUncertainty {
+    match fast::FastWell::prepare(w, names, config) {
+        Some(f) => ranges(&f.run(samples)),
+        None => run_well_chain(w, names, config, samples),
+    }
+}
+
+/// Each zone's ranges and HPT per realisation from its rows of (net pay,
+/// PHIE average, SW average, HPT), one per realisation.
+fn ranges(per_zone: &[(String, Vec<[f64; 4]>)]) -> WellUncertainty {
+    let pick = |rows: &[[f64; 4]], k: usize| -> Vec<f64> { rows.iter().map(|r| r[k]).collect() };
+    WellUncertainty {
+        zones: per_zone
+            .iter()
+            .map(|(z, rows)| {
+                (
+                    z.clone(),
+                    ZoneRanges {
+                        net_pay: Range::of(&pick(rows, 0)),
+                        phie_avg: Range::of(&pick(rows, 1)),
+                        sw_avg: Range::of(&pick(rows, 2)),
+                        hpt: Range::of(&pick(rows, 3)),
+                    },
+                )
+            })
+            .collect(),
+        hpt: per_zone.iter().map(|(_, rows)| pick(rows, 3)).collect(),
+    }
+}
+
+/// The well's zone summary in every realisation, each running the well's
+/// chain, class-aware SW and zone summary again with the sampled values.
+pub fn run_well_chain(
     w: &WellOutput,
     names: &[&str],
     config: &Config,
@@ -240,24 +280,7 @@ pub fn run_well(
             }
         }
     }
-    let pick = |rows: &[[f64; 4]], k: usize| -> Vec<f64> { rows.iter().map(|r| r[k]).collect() };
-    WellUncertainty {
-        zones: per_zone
-            .iter()
-            .map(|(z, rows)| {
-                (
-                    z.clone(),
-                    ZoneRanges {
-                        net_pay: Range::of(&pick(rows, 0)),
-                        phie_avg: Range::of(&pick(rows, 1)),
-                        sw_avg: Range::of(&pick(rows, 2)),
-                        hpt: Range::of(&pick(rows, 3)),
-                    },
-                )
-            })
-            .collect(),
-        hpt: per_zone.iter().map(|(_, rows)| pick(rows, 3)).collect(),
-    }
+    ranges(&per_zone)
 }
 
 /// One driver of a zone's field-wide HPT: a variable and the Spearman rank

@@ -198,3 +198,96 @@ fn exceedance_percentiles_of_a_known_sample() {
     let empty = super::Range::of(&[f64::NAN]);
     assert!(empty.p50.is_nan() && empty.mean.is_nan());
 }
+
+/// The fast path (one exponential per net-reservoir depth) and the general
+/// one (the whole chain, class-aware SW and zone summary per realisation)
+/// give the same ranges and the same HPT in every realisation, on the demo
+/// field made Archie with only SW's inputs uncertain (Rw, and m and n per
+/// class, correlated; class 4's m a number, so a class key held exact is
+/// covered too). The general path is the deterministic run's own code,
+/// so this ties the fast path to it.
+#[test]
+fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
+    let dir = tempfile::tempdir().expect("temp dir");
+    let text = std::fs::read_to_string(root.join("config/demo-field.toml")).expect("config");
+    let text = text
+        .replace(
+            "\"../demo-wells",
+            &format!("\"{}", root.join("demo-wells").display()),
+        )
+        .replace(
+            "saturation-model = \"simandoux-modified\"",
+            "saturation-model = \"archie\"",
+        )
+        .replace(
+            "gr-clean-gapi = { triangular = [20, 25, 31] }",
+            "gr-clean-gapi = 25",
+        )
+        .replace(
+            "gr-shale-gapi = { triangular = [120, 130, 138] }",
+            "gr-shale-gapi = 130",
+        )
+        .replace(
+            "rho-shale-gcc = { triangular = [2.50, 2.55, 2.60] }",
+            "rho-shale-gcc = 2.55",
+        )
+        .replace("rsh-ohmm = { lognormal = [2.5, 0.15] }", "rsh-ohmm = 2.5")
+        .replace(
+            "archie-m = { triangular = [1.7, 1.8, 1.9] }",
+            "archie-m = 1.75",
+        )
+        .replace("realisations = 200", "realisations = 60");
+    let cfg_path = dir.path().join("field.toml");
+    std::fs::write(&cfg_path, text).expect("write config");
+    let config = crate::config::Config::load(&cfg_path).expect("config loads");
+    // Rw, and m and n of four classes but class 4's m, a number
+    assert_eq!(config.variables.len(), 8);
+    let setup =
+        crate::field::setup::prepare(&config, &dir.path().join("out"), false).expect("setup");
+    let models = setup.models();
+    let samples = models.samples.expect("sampled");
+    let mut fast_wells = 0;
+    for path in setup.files.iter().take(4) {
+        let bytes = std::fs::read(path).expect("well");
+        let mut times = crate::timings::StageTimes::default();
+        let w = crate::pipeline::run_well(path, &bytes, &models, &mut times).expect("well runs");
+        let stem = crate::well::stem_of(path);
+        let names = [w.well.name.as_str(), stem.as_str()];
+        let fast = super::fast::FastWell::prepare(&w.well, &names, &config).expect("qualifies");
+        fast_wells += 1;
+        let a = super::ranges(&fast.run(samples));
+        let b = super::run_well_chain(&w.well, &names, &config, samples);
+        assert_eq!(a.zones.len(), b.zones.len());
+        let close =
+            |x: f64, y: f64| (x.is_nan() && y.is_nan()) || (x - y).abs() <= 1e-9 * (1.0 + y.abs());
+        for ((za, ra), (zb, rb)) in a.zones.iter().zip(&b.zones) {
+            assert_eq!(za, zb);
+            for (x, y) in [
+                (ra.net_pay, rb.net_pay),
+                (ra.phie_avg, rb.phie_avg),
+                (ra.sw_avg, rb.sw_avg),
+                (ra.hpt, rb.hpt),
+            ] {
+                for (u, v) in [
+                    (x.p90, y.p90),
+                    (x.p50, y.p50),
+                    (x.p10, y.p10),
+                    (x.mean, y.mean),
+                ] {
+                    assert!(close(u, v), "{} {za}: fast {x:?}, chain {y:?}", w.well.name);
+                }
+            }
+        }
+        for (ha, hb) in a.hpt.iter().zip(&b.hpt) {
+            assert!(
+                ha.iter().zip(hb).all(|(u, v)| close(*u, *v)),
+                "{}",
+                w.well.name
+            );
+        }
+        // the ranges have a spread: the realisations differ
+        assert!(a.zones.iter().any(|(_, r)| r.hpt.p10 > r.hpt.p90));
+    }
+    assert_eq!(fast_wells, 4);
+}

@@ -53,7 +53,7 @@ use crate::config::summary::SummaryConfig;
 
 /// The class number of a sample's CLASS value: a whole number 1-255, else
 /// `None` (NaN, 0 = no class, fractions, out of range).
-fn class_number(c: f64) -> Option<u8> {
+pub(crate) fn class_number(c: f64) -> Option<u8> {
     if (1.0..=255.0).contains(&c) && c.fract() == 0.0 {
         Some(c as u8)
     } else {
@@ -64,7 +64,7 @@ fn class_number(c: f64) -> Option<u8> {
 /// Upper and lower edges of the interval sample `i` stands for (midpoint rule,
 /// see the module docs): the midpoints to the well's neighbouring samples, the
 /// sample's own depth at the well's two ends. Depth unit of `md`.
-fn sample_edges(md: &[f64], i: usize) -> (f64, f64) {
+pub(crate) fn sample_edges(md: &[f64], i: usize) -> (f64, f64) {
     let upper = if i == 0 {
         md[0]
     } else {
