@@ -12,6 +12,10 @@
 #   full    `flowzone run` with field-full.toml on 1 thread: the logs stages,
 #           then classes from core (trained in the run, timed apart), class-aware
 #           SW, saturation-height and the contact audit; again with the report;
+#   mc      `flowzone run` with field.toml and 200 Monte Carlo realisations,
+#           1 thread: Rw, m and n as distributions (the fast path), then also
+#           the gamma-ray clean reading and the shale density (the whole chain
+#           per realisation);
 #   python  benches/python_peer.py: lasio + numpy, the logs stages and per-well
 #           CSV, sequential in one process.
 # Every run writes into a fresh folder, after `sync`, so dirty pages from the
@@ -113,6 +117,7 @@ ratio() { awk -v a="$1" -v b="$2" 'BEGIN {printf "%.1f", (b > 0 ? a / b : 0)}'; 
 
 logs_rows=()
 full_rows=()
+mc_rows=()
 for n in "${SIZES[@]}"; do
     dir=$BENCH_OUT/n$n
     rm -rf "$dir"
@@ -144,6 +149,22 @@ for n in "${SIZES[@]}"; do
         echo "benches/field.sh: run-summary.json differs between 1 and 2 threads" >&2
         exit 1
     fi
+
+    # the Monte Carlo: the same field, its parameters given as distributions
+    sed -e 's/^rw-ohmm = 0.045$/rw-ohmm = { normal = [0.045, 0.0045] }/' \
+        -e 's/^archie-m = 2.0$/archie-m = { triangular = [1.9, 2.0, 2.1] }/' \
+        -e 's/^archie-n = 2.0$/archie-n = { normal = [2.0, 0.1] }/' \
+        "$dir/wells/field.toml" >"$dir/wells/field-mc.toml"
+    printf '\n[uncertainty]\nrealisations = 200\n\n[[uncertainty.correlation]]\nkeys = ["archie-m", "archie-n"]\nr = 0.6\n' >>"$dir/wells/field-mc.toml"
+    sed -e 's/^gr-clean-gapi = 25$/gr-clean-gapi = { triangular = [20, 25, 31] }/' \
+        -e 's/^rho-shale-gcc = 2.55$/rho-shale-gcc = { triangular = [2.50, 2.55, 2.60] }/' \
+        "$dir/wells/field-mc.toml" >"$dir/wells/field-mc-all.toml"
+    timed mc "$RUN_BIN" run --config "$dir/wells/field-mc.toml" --out "$dir/mc-t1" --quiet --threads 1
+    echo "200 realisations, Rw, m, n (fast path), 1 thread: $mc_wall s wall, peak $mc_mb MB"
+    timed mcall "$RUN_BIN" run --config "$dir/wells/field-mc-all.toml" --out "$dir/mc-all-t1" --quiet --threads 1
+    echo "200 realisations, also GR clean and shale density (whole chain), 1 thread: $mcall_wall s wall, peak $mcall_mb MB"
+    mc_rows+=("$(printf '| %s | %s | %s | %s | %s | %s |' "$n" "$logs1_wall" \
+        "$mc_wall" "$(ratio "$mc_wall" "$logs1_wall")" "$mcall_wall" "$(ratio "$mcall_wall" "$logs1_wall")")")
 
     timed py "$PYTHON" benches/python_peer.py "$dir/wells" --write "$dir/python"
     echo "python peer (1 process): $py_wall s wall, $py_cpu s CPU"
@@ -181,6 +202,10 @@ echo
 echo "| wells | LAS MB | bare parse CPU | read CPU | logs 1 thread CPU (user + system) | / bare (user / bare user) | logs 1 thread wall | logs 2 threads wall | speed-up | peak MB | Python CPU | Python / logs |"
 echo "|---|---|---|---|---|---|---|---|---|---|---|---|"
 for r in "${logs_rows[@]}"; do echo "$r"; done
+echo
+echo "| wells | logs 1 thread | + 200 realisations of Rw, m, n | / logs | + also GR clean, shale density | / logs |"
+echo "|---|---|---|---|---|---|"
+for r in "${mc_rows[@]}"; do echo "$r"; done
 if [ "${#full_rows[@]}" -gt 0 ]; then
     echo
     echo "| wells | logs 1 thread | training | evidence weight | full, without training | / logs | full + report, without training | / logs | full 2 threads (all) | peak MB |"
