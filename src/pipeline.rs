@@ -154,9 +154,22 @@ pub fn run_well(
     // low, best and high by Monte Carlo over the parameters' distributions
     let mut zones = zones;
     let uncertainty = models.samples.map(|samples| {
-        let names = [out.name.as_str(), file_stem.as_str()];
+        let well_name = out.name.clone();
+        let names = [well_name.as_str(), file_stem.as_str()];
         times.time(Stage::Uncertainty, || {
-            let u = crate::uncertainty::run_well(&out, &names, config, samples);
+            let mut u = crate::uncertainty::run_well(&out, &names, config, samples);
+            if let Some([p90, p50, p10]) = u.sw_depth.take() {
+                let t = &mut out.table;
+                let at = t.position(Col::Sw).map_or(t.columns.len(), |i| i + 1);
+                let du = config.project.depth_unit;
+                for (k, (col, values)) in [(Col::SwP90, p90), (Col::SwP50, p50), (Col::SwP10, p10)]
+                    .into_iter()
+                    .enumerate()
+                {
+                    t.columns
+                        .insert(at + k, crate::output::OutColumn::new(col, du, values));
+                }
+            }
             for z in &mut zones {
                 z.uncertainty = u
                     .zones

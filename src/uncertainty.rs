@@ -131,6 +131,10 @@ pub struct WellUncertainty {
     pub zones: Vec<(String, ZoneRanges)>,
     /// HPT per zone and realisation, `hpt[zone][r]`, depth unit.
     pub hpt: Vec<Vec<f64>>,
+    /// With `depth-percentiles`: SW at every depth, P90, P50 and P10
+    /// (NaN where the deterministic run has no SW).
+    #[serde(skip)]
+    pub sw_depth: Option<[Vec<f64>; 3]>,
 }
 
 /// The well's zone summary in every realisation: by the fast path
@@ -142,10 +146,45 @@ pub fn run_well(
     config: &Config,
     samples: &Samples,
 ) -> WellUncertainty {
-    match fast::FastWell::prepare(w, names, config) {
-        Some(f) => ranges(&f.run(samples)),
+    let depth = config.uncertainty.depth_percentiles;
+    match fast::FastWell::prepare(w, names, config, depth) {
+        Some(f) => {
+            let mut u = ranges(&f.run(samples));
+            if depth {
+                u.sw_depth = Some(depth_percentiles(
+                    &f.sw_at_depths(samples, w.table.n_rows()),
+                    samples.realisations,
+                ));
+            }
+            u
+        }
         None => run_well_chain(w, names, config, samples),
     }
+}
+
+/// P90, P50 and P10 (exceedance) at each depth of `sw` (`n` depths ×
+/// `realisations`, depth-major); NaN where no realisation has a value.
+fn depth_percentiles(sw: &[f64], realisations: usize) -> [Vec<f64>; 3] {
+    let n = sw.len() / realisations.max(1);
+    let mut out = [vec![f64::NAN; n], vec![f64::NAN; n], vec![f64::NAN; n]];
+    let mut v: Vec<f64> = Vec::with_capacity(realisations);
+    for i in 0..n {
+        v.clear();
+        v.extend(
+            sw[i * realisations..(i + 1) * realisations]
+                .iter()
+                .copied()
+                .filter(|x| x.is_finite()),
+        );
+        if v.is_empty() {
+            continue;
+        }
+        v.sort_by(f64::total_cmp);
+        for (slot, p) in out.iter_mut().zip([0.10, 0.50, 0.90]) {
+            slot[i] = crate::stats::quantile_sorted(&v, p);
+        }
+    }
+    out
 }
 
 /// Each zone's ranges and HPT per realisation from its rows of (net pay,
@@ -168,6 +207,7 @@ fn ranges(per_zone: &[(String, Vec<[f64; 4]>)]) -> WellUncertainty {
             })
             .collect(),
         hpt: per_zone.iter().map(|(_, rows)| pick(rows, 3)).collect(),
+        sw_depth: None,
     }
 }
 
@@ -214,6 +254,13 @@ pub fn run_well_chain(
         (max_class, vars)
     });
     let mut per_zone: Vec<(String, Vec<[f64; 4]>)> = Vec::new();
+    let keep_sw = config.uncertainty.depth_percentiles;
+    let realisations = samples.realisations;
+    let mut sw_all = if keep_sw {
+        vec![f64::NAN; t.n_rows() * realisations]
+    } else {
+        Vec::new()
+    };
     for r in 0..samples.realisations {
         let value = |var: usize| samples.values[var][r];
         let mut setups = w.report.zones.clone();
@@ -261,6 +308,11 @@ pub fn run_well_chain(
             }
             None => out.sw.clone(),
         };
+        if keep_sw {
+            for (i, v) in sw.iter().enumerate() {
+                sw_all[i * realisations + r] = *v;
+            }
+        }
         let zones = crate::well::summary::zone_summary(
             &w.name,
             md,
@@ -280,7 +332,11 @@ pub fn run_well_chain(
             }
         }
     }
-    ranges(&per_zone)
+    let mut u = ranges(&per_zone);
+    if keep_sw {
+        u.sw_depth = Some(depth_percentiles(&sw_all, realisations));
+    }
+    u
 }
 
 /// One driver of a zone's field-wide HPT: a variable and the Spearman rank

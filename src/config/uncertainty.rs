@@ -6,6 +6,7 @@
 //! realisations = 200            # default 200; 0 turns the Monte Carlo off
 //! seed = 1                      # same seed, same inputs: same results
 //! sampling = "latin-hypercube"  # or "plain"
+//! depth-percentiles = false     # true: SW_P90, SW_P50, SW_P10 in the well files
 //! [[uncertainty.correlation]]   # rank correlation of two keys, in every
 //! keys = ["archie-m", "archie-n"]   # table that gives both a distribution
 //! r = 0.6
@@ -32,6 +33,10 @@ pub struct UncertaintyConfig {
     /// Rank correlations between pairs of keys.
     #[serde(default)]
     pub correlation: Vec<Correlation>,
+    /// Also write SW_P90, SW_P50 and SW_P10 per depth in the well files.
+    /// Default false.
+    #[serde(default)]
+    pub depth_percentiles: bool,
 }
 
 /// `[[uncertainty.correlation]]`: the rank correlation of two keys.
@@ -59,6 +64,7 @@ impl Default for UncertaintyConfig {
             seed: default_seed(),
             sampling: Sampling::default(),
             correlation: Vec::new(),
+            depth_percentiles: false,
         }
     }
 }

@@ -48,6 +48,12 @@ pub enum Col {
     Swh,
     /// SW minus SWH, v/v.
     SwResid,
+    /// SW exceeded in 90 % of the Monte Carlo's realisations (the 10th percentile), v/v.
+    SwP90,
+    /// SW exceeded in half the realisations, v/v.
+    SwP50,
+    /// SW exceeded in 10 % of the realisations (the 90th percentile), v/v.
+    SwP10,
     /// The contact audit's kind of the step at this depth.
     Contact,
     /// An input curve, converted to its canonical unit.
@@ -74,6 +80,9 @@ impl Col {
             Col::Hafwl => "HAFWL",
             Col::Swh => "SWH",
             Col::SwResid => "SW_RESID",
+            Col::SwP90 => "SW_P90",
+            Col::SwP50 => "SW_P50",
+            Col::SwP10 => "SW_P10",
             Col::Contact => "CONTACT",
             Col::Input(c) => c.output_mnemonic(),
         }
@@ -93,7 +102,10 @@ impl Col {
             | Col::Bvw
             | Col::ClassProb
             | Col::Swh
-            | Col::SwResid => "V/V",
+            | Col::SwResid
+            | Col::SwP90
+            | Col::SwP50
+            | Col::SwP10 => "V/V",
             Col::Perm => "MD",
             Col::PermSd => "LOG10(MD)",
             Col::Flag | Col::Class | Col::Contact => "",
@@ -120,6 +132,9 @@ impl Col {
             Col::Hafwl => "HEIGHT ABOVE FREE WATER LEVEL",
             Col::Swh => "WATER SATURATION FROM HEIGHT, CLASS J-FUNCTION",
             Col::SwResid => "SW MINUS SWH",
+            Col::SwP90 => "SW EXCEEDED IN 90 PCT OF REALISATIONS",
+            Col::SwP50 => "SW EXCEEDED IN 50 PCT OF REALISATIONS",
+            Col::SwP10 => "SW EXCEEDED IN 10 PCT OF REALISATIONS",
             Col::Contact => {
                 "SATURATION STEP BELOW: 1 ROCK QUALITY 2 FLUID CONTACT 3 UNEXPLAINED 4 FLAGGED"
             }
@@ -215,6 +230,9 @@ mod tests {
             Col::Hafwl,
             Col::Swh,
             Col::SwResid,
+            Col::SwP90,
+            Col::SwP50,
+            Col::SwP10,
             Col::Contact,
         ];
         let mut names: Vec<&str> = all.iter().map(|c| c.name()).collect();

@@ -60,15 +60,35 @@ struct Zone {
     class_vars: Vec<Vec<(&'static str, usize)>>,
 }
 
+/// An interpreted depth, for SW at every depth (`depth-percentiles`).
+struct AnyDepth {
+    /// Row in the well.
+    row: usize,
+    /// Zone (index into the zones as first listed) and class index.
+    zone: usize,
+    class: usize,
+    ln_phi: f64,
+    ln_rw_rt: f64,
+}
+
 /// The well prepared for the fast path; `None` when it does not qualify.
 pub struct FastWell {
     zones: Vec<Zone>,
+    /// Every interpreted depth, when SW at every depth is asked for.
+    all: Vec<AnyDepth>,
+    /// Index into `zones` of each zone of the well's setup order.
+    slot_of: Vec<Option<usize>>,
 }
 
 impl FastWell {
     /// Prepare `w` when every zone uses Archie and only [`SW_ONLY`] keys
     /// are sampled in it.
-    pub fn prepare(w: &WellOutput, names: &[&str], config: &Config) -> Option<FastWell> {
+    pub fn prepare(
+        w: &WellOutput,
+        names: &[&str],
+        config: &Config,
+        every_depth: bool,
+    ) -> Option<FastWell> {
         let t = &w.table;
         let params = &config.parameters;
         let zone_names: Vec<&str> = w.report.zones.iter().map(|z| z.name.as_str()).collect();
@@ -126,6 +146,7 @@ impl FastWell {
         let mut phi_h_res = vec![0.0; zones.len()];
         let mut h_res = vec![0.0; zones.len()];
         let mut order: Vec<usize> = Vec::new();
+        let mut all: Vec<AnyDepth> = Vec::new();
         for i in 0..n {
             let Some(z) = w.zone_of[i].map(usize::from).filter(|&z| z < zones.len()) else {
                 continue;
@@ -140,6 +161,20 @@ impl FastWell {
             let c = class.map_or(f64::NAN, |c| c[i]);
             let cls = class_number(c).map_or(0, usize::from);
             let cut = &cutoffs[cls];
+            let k = if by_class.is_some() && cls < zones[z].class_set.len() {
+                cls
+            } else {
+                0
+            };
+            if every_depth {
+                all.push(AnyDepth {
+                    row: i,
+                    zone: z,
+                    class: k,
+                    ln_phi: p.ln(),
+                    ln_rw_rt: w.rw[i].ln() - rt[i].ln(),
+                });
+            }
             if !cut.is_net_reservoir(v, p) {
                 continue;
             }
@@ -147,11 +182,6 @@ impl FastWell {
             let h = lower - upper;
             phi_h_res[z] += p * h;
             h_res[z] += h;
-            let k = if by_class.is_some() && cls < zones[z].class_set.len() {
-                cls
-            } else {
-                0
-            };
             zones[z].depths.push(Depth {
                 class: k,
                 ln_phi: p.ln(),
@@ -171,13 +201,19 @@ impl FastWell {
         // the zones in the order they first appear down the well, as the
         // zone summary lists them
         let mut ordered: Vec<Zone> = Vec::with_capacity(order.len());
+        let mut slot_of: Vec<Option<usize>> = vec![None; zones.len()];
         let mut slots: Vec<Option<Zone>> = zones.into_iter().map(Some).collect();
         for z in order {
             if let Some(zone) = slots[z].take() {
+                slot_of[z] = Some(ordered.len());
                 ordered.push(zone);
             }
         }
-        Some(FastWell { zones: ordered })
+        Some(FastWell {
+            zones: ordered,
+            all,
+            slot_of,
+        })
     }
 
     /// Every zone's (net pay, PHIE average, SW average, HPT) in every
@@ -196,8 +232,34 @@ impl FastWell {
     }
 }
 
-/// One zone in realisation `r`: (net pay, PHIE average, SW average, HPT).
-fn zone_realisation(zone: &Zone, samples: &Samples, r: usize) -> [f64; 4] {
+impl FastWell {
+    /// SW at every interpreted depth in every realisation: `n` rows ×
+    /// realisations, depth-major; NaN elsewhere. Needs `every_depth` at
+    /// [`FastWell::prepare`].
+    pub fn sw_at_depths(&self, samples: &Samples, n: usize) -> Vec<f64> {
+        let rr = samples.realisations;
+        let mut out = vec![f64::NAN; n * rr];
+        for r in 0..rr {
+            let coefs: Vec<Vec<(f64, f64, f64)>> = self
+                .zones
+                .iter()
+                .map(|z| coefficients(z, samples, r).0)
+                .collect();
+            for d in &self.all {
+                let Some(z) = self.slot_of.get(d.zone).copied().flatten() else {
+                    continue;
+                };
+                let (c, m, inv_n) = coefs[z][d.class];
+                out[d.row * rr + r] = ((c + d.ln_rw_rt - m * d.ln_phi) * inv_n).exp().min(1.0);
+            }
+        }
+        out
+    }
+}
+
+/// A zone's per-class (ln a + ln Rw factor, m, 1/n) in realisation `r`,
+/// and the zone's Archie values.
+fn coefficients(zone: &Zone, samples: &Samples, r: usize) -> (Vec<(f64, f64, f64)>, ArchieParams) {
     let value = |var: usize| samples.values[var][r];
     // the zone's own values, then each class's over them, as the chain
     // resolves them (a class level wins key by key)
@@ -235,6 +297,12 @@ fn zone_realisation(zone: &Zone, samples: &Samples, r: usize) -> [f64; 4] {
             (a.a.ln() + ln_f, a.m, 1.0 / a.n)
         })
         .collect();
+    (coef, zone_archie)
+}
+
+/// One zone in realisation `r`: (net pay, PHIE average, SW average, HPT).
+fn zone_realisation(zone: &Zone, samples: &Samples, r: usize) -> [f64; 4] {
+    let (coef, _) = coefficients(zone, samples, r);
     let (mut pay, mut phi_h, mut phi_sw_h, mut hpt) = (0.0, 0.0, 0.0, 0.0);
     for d in &zone.depths {
         let (c, m, inv_n) = coef[d.class];

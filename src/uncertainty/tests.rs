@@ -240,7 +240,8 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
         .replace("realisations = 200", "realisations = 60");
     let cfg_path = dir.path().join("field.toml");
     std::fs::write(&cfg_path, text).expect("write config");
-    let config = crate::config::Config::load(&cfg_path).expect("config loads");
+    let mut config = crate::config::Config::load(&cfg_path).expect("config loads");
+    config.uncertainty.depth_percentiles = true;
     // Rw, and m and n of four classes but class 4's m, a number
     assert_eq!(config.variables.len(), 8);
     let setup =
@@ -254,9 +255,9 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
         let w = crate::pipeline::run_well(path, &bytes, &models, &mut times).expect("well runs");
         let stem = crate::well::stem_of(path);
         let names = [w.well.name.as_str(), stem.as_str()];
-        let fast = super::fast::FastWell::prepare(&w.well, &names, &config).expect("qualifies");
+        let a = super::run_well(&w.well, &names, &config, samples);
+        assert!(super::fast::FastWell::prepare(&w.well, &names, &config, true).is_some());
         fast_wells += 1;
-        let a = super::ranges(&fast.run(samples));
         let b = super::run_well_chain(&w.well, &names, &config, samples);
         assert_eq!(a.zones.len(), b.zones.len());
         let close =
@@ -286,6 +287,23 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
                 w.well.name
             );
         }
+        // SW's percentiles at every depth, too
+        let (da, db) = (
+            a.sw_depth.as_ref().expect("fast"),
+            b.sw_depth.as_ref().expect("chain"),
+        );
+        for (pa, pb) in da.iter().zip(db) {
+            assert!(
+                pa.iter().zip(pb).all(|(u, v)| close(*u, *v)),
+                "{}",
+                w.well.name
+            );
+            assert!(pa.iter().any(|v| v.is_finite()));
+        }
+        assert!(
+            da[0].iter().zip(&da[2]).all(|(lo, hi)| lo.is_nan() || lo <= hi),
+            "P90 <= P10"
+        );
         // the ranges have a spread: the realisations differ
         assert!(a.zones.iter().any(|(_, r)| r.hpt.p10 > r.hpt.p90));
     }

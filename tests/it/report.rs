@@ -88,7 +88,11 @@ fn report_pages_render_in_a_browser() {
     // base map, per compartment (East, Main) a cross-section and an FWL
     // chart, and the Monte Carlo's tornado chart
     assert_eq!(dom.matches("<svg").count(), 5 + 1 + 2 * 2 + 1, "plots");
-    assert_eq!(dom.matches("<g class=\"tornado-zone\">").count(), 3, "a tornado per zone");
+    assert_eq!(
+        dom.matches("<g class=\"tornado-zone\">").count(),
+        3,
+        "a tornado per zone"
+    );
     for group in [
         "class=\"points\"",
         "class=\"j-class\"",
@@ -111,9 +115,14 @@ fn report_pages_render_in_a_browser() {
     let links = relative_links(&std::fs::read_to_string(&index).expect("index"));
     let (data, links_here): (Vec<&String>, Vec<&String>) =
         links.iter().partition(|l| l.starts_with("../"));
-    assert_eq!(data.len(), 2, "the zone summary and the HPT drivers: {data:?}");
-    let (views, well_links): (Vec<&String>, Vec<&String>) =
-        links_here.into_iter().partition(|l| l.starts_with("field/"));
+    assert_eq!(
+        data.len(),
+        2,
+        "the zone summary and the HPT drivers: {data:?}"
+    );
+    let (views, well_links): (Vec<&String>, Vec<&String>) = links_here
+        .into_iter()
+        .partition(|l| l.starts_with("field/"));
     assert_eq!(well_links.len(), 8, "a link per well: {links:?}");
     assert_eq!(views.len(), 1 + 2 * 2, "a link per view: {links:?}");
     for l in &links {

@@ -83,3 +83,43 @@ fn no_realisations_means_no_monte_carlo() {
     assert!(!h.iter().any(|c| c.ends_with("_P90")), "{h:?}");
     assert!(!out.join("field/hpt-drivers.csv").exists());
 }
+
+/// One key adds SW's P90, P50 and P10 at every depth to the well files,
+/// beside SW: ordered, and given wherever SW is (also where a realisation's
+/// porosity makes SW defined when the deterministic one does not).
+#[test]
+fn depth_percentiles_are_written_beside_sw_on_request() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("out");
+    let cfg = demo_config_edited(dir.path(), |t| {
+        t.replace(
+            "realisations = 200",
+            "realisations = 50\ndepth-percentiles = true",
+        )
+    });
+    run_summary(&cfg, &out);
+    let (h, rows) = read_table(&out.join("wells/tarnby-2.csv"));
+    let sw = col(&h, "SW");
+    assert_eq!(&h[sw + 1..sw + 4], ["SW_P90", "SW_P50", "SW_P10"]);
+    let mut spread = 0;
+    for r in &rows {
+        let (det, p90, p50, p10) = (
+            num(&r[sw]),
+            num(&r[sw + 1]),
+            num(&r[sw + 2]),
+            num(&r[sw + 3]),
+        );
+        assert!(det.is_nan() || p50.is_finite(), "{r:?}");
+        if p50.is_nan() {
+            continue;
+        }
+        assert!(
+            p90 <= p50 && p50 <= p10 && (0.0..=1.0).contains(&p10),
+            "{r:?}"
+        );
+        if p10 - p90 > 0.01 {
+            spread += 1;
+        }
+    }
+    assert!(spread > 100, "{spread} depths with a spread");
+}
