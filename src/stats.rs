@@ -5,6 +5,9 @@
 //! Conventions: missing values are NaN; a function that can have no answer
 //! says so (`None` or NaN, as its doc states) rather than panicking.
 
+pub mod dist;
+pub mod sampling;
+
 /// Sample quantile of ascending `sorted` at probability `p` (clamped to
 /// [0, 1]): linear interpolation between the order statistics at position
 /// `p (n − 1)`, Hyndman and Fan's definition 7 (Hyndman & Fan 1996, The

@@ -1,6 +1,6 @@
 //! Uncertainty: low, best and high net pay, porosity, saturation and
 //! hydrocarbon pore thickness per zone, by Monte Carlo over the parameters
-//! the config gives as distributions ([`dist`]).
+//! the config gives as distributions ([`crate::stats::dist`]).
 //!
 //! What is sampled: every `[parameters.*]` key written as a distribution
 //! (Rw, Archie a, m and n at any level including per class, matrix, fluid and
@@ -23,9 +23,7 @@
 //! hydrocarbon pore thickness P90 is the low case and P10 the high case; for
 //! water saturation the low case is its P10 (the highest SW).
 
-pub mod dist;
 pub mod fast;
-pub mod sampling;
 
 use serde::{Deserialize, Serialize};
 
@@ -36,6 +34,7 @@ use crate::output::schema::Col;
 use crate::petro::saturation::ArchieParams;
 use crate::well::WellOutput;
 use crate::well::chain::{self, ClassSwInputs, Inputs};
+pub use crate::well::summary::{Range, ZoneRanges};
 
 /// The run's random inputs and their sampled values.
 #[derive(Debug, Clone)]
@@ -59,7 +58,13 @@ impl Samples {
             return Ok(None);
         }
         let target = u.matrix(&vars).map_err(|(k, m)| format!("{k}: {m}"))?;
-        let p = sampling::probabilities(vars.len(), u.realisations, &target, u.sampling, u.seed)?;
+        let p = crate::stats::sampling::probabilities(
+            vars.len(),
+            u.realisations,
+            &target,
+            u.sampling,
+            u.seed,
+        )?;
         let values = vars
             .iter()
             .zip(p)
@@ -77,50 +82,6 @@ impl Samples {
             realisations: u.realisations,
         }))
     }
-}
-
-/// A quantity's spread over the realisations (exceedance percentiles).
-#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
-pub struct Range {
-    /// Exceeded in 90 % of the realisations (the 10th percentile).
-    pub p90: f64,
-    /// Exceeded in half the realisations (the median).
-    pub p50: f64,
-    /// Exceeded in 10 % of the realisations (the 90th percentile).
-    pub p10: f64,
-    /// Mean over the realisations.
-    pub mean: f64,
-}
-
-impl Range {
-    /// The range of `values` (NaNs left out); NaN everywhere without any.
-    pub fn of(values: &[f64]) -> Range {
-        let finite: Vec<f64> = values.iter().copied().filter(|v| v.is_finite()).collect();
-        let mean = if finite.is_empty() {
-            f64::NAN
-        } else {
-            finite.iter().sum::<f64>() / finite.len() as f64
-        };
-        Range {
-            p90: crate::stats::percentile(&finite, 10.0),
-            p50: crate::stats::percentile(&finite, 50.0),
-            p10: crate::stats::percentile(&finite, 90.0),
-            mean,
-        }
-    }
-}
-
-/// One zone of one well over the realisations.
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct ZoneRanges {
-    /// Net pay, depth unit.
-    pub net_pay: Range,
-    /// Thickness-weighted PHIE over net reservoir, v/v.
-    pub phie_avg: Range,
-    /// Pore-volume-weighted SW over net pay, v/v.
-    pub sw_avg: Range,
-    /// Hydrocarbon pore thickness, depth unit.
-    pub hpt: Range,
 }
 
 /// One well's Monte Carlo: per zone (in the zone summary's order) its
@@ -408,9 +369,9 @@ pub struct UncertaintySummary {
     /// Seed of the sampling.
     pub seed: u64,
     /// Latin hypercube or plain.
-    pub sampling: sampling::Sampling,
+    pub sampling: crate::stats::sampling::Sampling,
     /// Every distribution: its full key name and parameters.
-    pub variables: Vec<(String, dist::Dist)>,
+    pub variables: Vec<(String, crate::stats::dist::Dist)>,
     /// The percentile convention, in words.
     pub convention: String,
     /// Per zone, every variable's rank correlation with the zone's HPT.

@@ -33,7 +33,7 @@ use serde::Deserialize;
 use crate::petro::porosity::Matrix;
 use crate::petro::saturation::{ArchieParams, SaturationModel};
 use crate::petro::shale::ShaleModel;
-use crate::uncertainty::dist::{Dist, Num};
+use crate::stats::dist::{Dist, Num};
 
 /// How porosity is computed.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize)]
@@ -679,22 +679,9 @@ impl Parameters {
     /// `zone`, with the precedence of [`Self::class_archie`]: per class,
     /// (key, variable) of each key a class level sets with a distribution.
     pub fn class_archie_vars(&self, zone: &str, max_class: u8) -> Vec<Vec<(&'static str, usize)>> {
-        let by_class = |m: &BTreeMap<String, ClassParamSet>, c: u8| {
-            m.iter()
-                .find(|(k, _)| k.trim().parse::<u8>() == Ok(c))
-                .map(|(_, v)| *v)
-        };
-        let zone_map = self
-            .zone_class
-            .iter()
-            .find(|(k, _)| k.eq_ignore_ascii_case(zone))
-            .map(|(_, v)| v);
         (1..=max_class)
             .map(|c| {
-                let levels = [
-                    by_class(&self.class, c),
-                    zone_map.and_then(|m| by_class(m, c)),
-                ];
+                let levels = self.class_levels(zone, c);
                 ["archie-a", "archie-m", "archie-n"]
                     .into_iter()
                     .enumerate()
@@ -721,7 +708,20 @@ impl Parameters {
     /// zone's own values `base`: zone-class wins over class, class over the
     /// zone. Index 0 of the result is class 1.
     pub fn class_archie(&self, zone: &str, base: ArchieParams, max_class: u8) -> Vec<ArchieParams> {
-        let by_class = |m: &BTreeMap<String, ClassParamSet>, c: u8| {
+        (1..=max_class)
+            .map(|c| {
+                self.class_levels(zone, c)
+                    .iter()
+                    .flatten()
+                    .fold(base, |p, cp| cp.over(p))
+            })
+            .collect()
+    }
+
+    /// Class `c`'s tables in `zone`, least specific first: `[parameters.class]`,
+    /// then `[parameters.zone-class]` (each `None` when it does not name the class).
+    fn class_levels(&self, zone: &str, c: u8) -> [Option<ClassParamSet>; 2] {
+        let by_class = |m: &BTreeMap<String, ClassParamSet>| {
             m.iter()
                 .find(|(k, _)| k.trim().parse::<u8>() == Ok(c))
                 .map(|(_, v)| *v)
@@ -731,18 +731,7 @@ impl Parameters {
             .iter()
             .find(|(k, _)| k.eq_ignore_ascii_case(zone))
             .map(|(_, v)| v);
-        (1..=max_class)
-            .map(|c| {
-                let mut p = base;
-                if let Some(cp) = by_class(&self.class, c) {
-                    p = cp.over(p);
-                }
-                if let Some(cp) = zone_map.and_then(|m| by_class(m, c)) {
-                    p = cp.over(p);
-                }
-                p
-            })
-            .collect()
+        [by_class(&self.class), zone_map.and_then(by_class)]
     }
 
     /// The merged parameters of a well (any of `well_names`) and zone.

@@ -15,7 +15,7 @@
 use serde::Deserialize;
 
 use crate::config::params::{Variable, sampled_range};
-use crate::uncertainty::sampling::Sampling;
+use crate::stats::sampling::Sampling;
 
 /// `[uncertainty]`.
 #[derive(Debug, Clone, Deserialize, PartialEq)]
@@ -111,7 +111,7 @@ impl UncertaintyConfig {
                 }
             }
         }
-        if crate::uncertainty::sampling::cholesky(&c, k).is_none() {
+        if crate::stats::sampling::cholesky(&c, k).is_none() {
             return Err((
                 "uncertainty.correlation".into(),
                 "these correlations cannot hold together (the matrix is not positive definite): loosen one".into(),

@@ -2,9 +2,9 @@
 //! propagation of Archie's equation for small spreads, and a brute-force
 //! numerical integration over the distributions for large ones.
 
-use super::dist::Dist;
-use super::sampling::{Sampling, probabilities};
+use crate::stats::dist::Dist;
 use crate::petro::saturation::{ArchieParams, archie};
+use crate::stats::sampling::{Sampling, probabilities};
 
 /// `n` Latin hypercube samples of independent `dists`, `[var][r]`.
 fn draw(dists: &[Dist], n: usize, seed: u64) -> Vec<Vec<f64>> {
@@ -301,7 +301,10 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
             assert!(pa.iter().any(|v| v.is_finite()));
         }
         assert!(
-            da[0].iter().zip(&da[2]).all(|(lo, hi)| lo.is_nan() || lo <= hi),
+            da[0]
+                .iter()
+                .zip(&da[2])
+                .all(|(lo, hi)| lo.is_nan() || lo <= hi),
             "P90 <= P10"
         );
         // the ranges have a spread: the realisations differ

@@ -451,7 +451,7 @@ mod tests {
     use super::*;
     use crate::config::params::ParamSet;
     use crate::stats::assert_close;
-    use crate::uncertainty::dist::Num;
+    use crate::stats::dist::Num;
 
     fn zone(p: ParamSet) -> ZoneSetup {
         ZoneSetup {

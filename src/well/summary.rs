@@ -130,7 +130,51 @@ pub struct ZoneSummary {
     /// as distributions. (Written as null without: shard states are
     /// postcard, which cannot skip a field.)
     #[serde(default)]
-    pub uncertainty: Option<crate::uncertainty::ZoneRanges>,
+    pub uncertainty: Option<ZoneRanges>,
+}
+
+/// A quantity's spread over the realisations (exceedance percentiles).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct Range {
+    /// Exceeded in 90 % of the realisations (the 10th percentile).
+    pub p90: f64,
+    /// Exceeded in half the realisations (the median).
+    pub p50: f64,
+    /// Exceeded in 10 % of the realisations (the 90th percentile).
+    pub p10: f64,
+    /// Mean over the realisations.
+    pub mean: f64,
+}
+
+impl Range {
+    /// The range of `values` (NaNs left out); NaN everywhere without any.
+    pub fn of(values: &[f64]) -> Range {
+        let finite: Vec<f64> = values.iter().copied().filter(|v| v.is_finite()).collect();
+        let mean = if finite.is_empty() {
+            f64::NAN
+        } else {
+            finite.iter().sum::<f64>() / finite.len() as f64
+        };
+        Range {
+            p90: crate::stats::percentile(&finite, 10.0),
+            p50: crate::stats::percentile(&finite, 50.0),
+            p10: crate::stats::percentile(&finite, 90.0),
+            mean,
+        }
+    }
+}
+
+/// One zone of one well over the realisations.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ZoneRanges {
+    /// Net pay, depth unit.
+    pub net_pay: Range,
+    /// Thickness-weighted PHIE over net reservoir, v/v.
+    pub phie_avg: Range,
+    /// Pore-volume-weighted SW over net pay, v/v.
+    pub sw_avg: Range,
+    /// Hydrocarbon pore thickness, depth unit.
+    pub hpt: Range,
 }
 
 /// Running sums of one zone.
@@ -297,14 +341,14 @@ pub fn write(
     // the Monte Carlo's ranges, when the run has them: per quantity P90 (the
     // value exceeded in 90 % of the realisations), P50, P10 and the mean
     if rows.iter().any(|r| r.uncertainty.is_some()) {
-        type Get = fn(&crate::uncertainty::ZoneRanges) -> &crate::uncertainty::Range;
+        type Get = fn(&ZoneRanges) -> &Range;
         let quantities: [(&str, Get); 4] = [
             ("NET_PAY", |u| &u.net_pay),
             ("PHIE_AVG_VV", |u| &u.phie_avg),
             ("SW_AVG_VV", |u| &u.sw_avg),
             ("HPT", |u| &u.hpt),
         ];
-        type Pick = fn(&crate::uncertainty::Range) -> f64;
+        type Pick = fn(&Range) -> f64;
         let stats: [(&str, Pick); 4] = [
             ("P90", |r| r.p90),
             ("P50", |r| r.p50),
