@@ -76,7 +76,7 @@ pub fn run_well(
     // classes and permeability (from the logs and, above a free water level,
     // the saturation-height evidence), then SW with each class's exponents
     let class_start = std::time::Instant::now();
-    let classes = models.classes.map(|setup| {
+    let mut classes = models.classes.map(|setup| {
         let name = out.name.clone();
         let saturation = models
             .sat
@@ -153,11 +153,24 @@ pub fn run_well(
     times.add(Stage::ZoneSummary, summary_start.elapsed());
     // low, best and high by Monte Carlo over the parameters' distributions
     let mut zones = zones;
+    // what the Monte Carlo draws classes from (large: never kept in the report)
+    let class_evidence = classes
+        .as_mut()
+        .and_then(|c| c.draw_from.take())
+        .filter(|_| {
+            config.uncertainty.classes == crate::config::uncertainty::ClassDraws::Posterior
+        });
     let uncertainty = models.samples.map(|samples| {
         let well_name = out.name.clone();
         let names = [well_name.as_str(), file_stem.as_str()];
         times.time(Stage::Uncertainty, || {
-            let mut u = crate::uncertainty::run_well(&out, &names, config, samples);
+            let mut u = crate::uncertainty::run_well(
+                &out,
+                &names,
+                config,
+                samples,
+                class_evidence.as_ref(),
+            );
             if let Some([p90, p50, p10]) = u.sw_depth.take() {
                 let t = &mut out.table;
                 let at = t.position(Col::Sw).map_or(t.columns.len(), |i| i + 1);

@@ -27,6 +27,7 @@ pub mod fast;
 
 use serde::{Deserialize, Serialize};
 
+use crate::classes::posterior::ClassEvidence;
 use crate::config::Config;
 use crate::config::params::Variable;
 use crate::input::curves::LogicalCurve as L;
@@ -100,26 +101,65 @@ pub struct WellUncertainty {
 
 /// The well's zone summary in every realisation: by the fast path
 /// ([`fast`]) when only SW's inputs are uncertain and the zones use Archie,
-/// else by the whole chain per realisation ([`run_well_chain`]).
+/// else by the whole chain per realisation ([`run_well_chain`]). With
+/// `classes`, each realisation also draws the class of every classed depth
+/// from its posterior, bed by bed ([`ClassEvidence::draw`]), seeded by the
+/// run's seed and the well's name (the same draws on any thread or shard).
 pub fn run_well(
     w: &WellOutput,
     names: &[&str],
     config: &Config,
     samples: &Samples,
+    classes: Option<&ClassEvidence>,
 ) -> WellUncertainty {
+    let n = w.table.n_rows();
+    let draws = classes.map(|ev| {
+        ev.draw(
+            n,
+            samples.realisations,
+            well_seed(config.uncertainty.seed, &w.name),
+        )
+    });
+    let draws = draws.as_deref();
     let depth = config.uncertainty.depth_percentiles;
-    match fast::FastWell::prepare(w, names, config, depth) {
+    match fast::FastWell::prepare(w, names, config) {
         Some(f) => {
-            let mut u = ranges(&f.run(samples));
+            let mut u = ranges(&f.run(samples, draws));
             if depth {
                 u.sw_depth = Some(depth_percentiles(
-                    &f.sw_at_depths(samples, w.table.n_rows()),
+                    &f.sw_at_depths(samples, n, draws),
                     samples.realisations,
                 ));
             }
             u
         }
-        None => run_well_chain(w, names, config, samples),
+        None => run_well_chain(w, names, config, samples, draws),
+    }
+}
+
+/// The seed of a well's class draws: the run's seed mixed with the well's
+/// name (FNV-1a, 64 bit: Fowler, Noll & Vo; from memory), so each well has
+/// its own stream whatever order the wells run in.
+fn well_seed(seed: u64, name: &str) -> u64 {
+    let mut h: u64 = 0xcbf2_9ce4_8422_2325;
+    for b in name.bytes() {
+        h ^= u64::from(b);
+        h = h.wrapping_mul(0x0000_0100_0000_01b3);
+    }
+    h ^ seed.rotate_left(17)
+}
+
+/// The class column of realisation `r`: the drawn class where one was
+/// drawn, else the deterministic one.
+fn class_column(det: &[f64], draws: Option<&[u8]>, r: usize) -> Vec<f64> {
+    let n = det.len();
+    match draws {
+        Some(d) => det
+            .iter()
+            .zip(&d[r * n..(r + 1) * n])
+            .map(|(&c, &k)| if k > 0 { f64::from(k) } else { c })
+            .collect(),
+        None => det.to_vec(),
     }
 }
 
@@ -179,6 +219,7 @@ pub fn run_well_chain(
     names: &[&str],
     config: &Config,
     samples: &Samples,
+    draws: Option<&[u8]>,
 ) -> WellUncertainty {
     let t = &w.table;
     let n = t.n_rows();
@@ -194,7 +235,7 @@ pub fn run_well_chain(
         bs: col(Col::Input(L::BitSize)),
         tvd_m: &w.tvd_m,
     };
-    let class = col(Col::Class).unwrap_or(&nan);
+    let det_class = col(Col::Class).unwrap_or(&nan);
     let md = col(Col::Depth).unwrap_or(&nan);
     let zone_names: Vec<String> = w.report.zones.iter().map(|z| z.name.clone()).collect();
     let params = &config.parameters;
@@ -224,6 +265,8 @@ pub fn run_well_chain(
     };
     for r in 0..samples.realisations {
         let value = |var: usize| samples.values[var][r];
+        let class_r = class_column(det_class, draws, r);
+        let class = class_r.as_slice();
         let mut setups = w.report.zones.clone();
         for (s, vars) in setups.iter_mut().zip(&zone_vars) {
             for &(key, var) in vars {

@@ -167,7 +167,8 @@ pub fn posterior_from_shares(
 /// Class probabilities at `inputs.rows`, `k` per row (class 1 first): the
 /// forest's vote shares, fused with the saturation-height evidence, then
 /// smoothed by the bed sequence ([`posterior_from_shares`]); with the number
-/// of rows the saturation-height evidence informed.
+/// of rows the saturation-height evidence informed, and what the Monte Carlo
+/// draws classes from (the fused probabilities before the bed sequence).
 pub fn class_probabilities(
     forest: &Forest,
     inputs: &WellInputs,
@@ -175,10 +176,94 @@ pub fn class_probabilities(
     sequence: Option<&SequenceModel>,
     step_m: f64,
     saturation: Option<SatEvidence<'_>>,
-) -> Result<(Vec<f64>, usize), PredictError> {
+) -> Result<(Vec<f64>, usize, ClassEvidence), PredictError> {
     let mut probs = vote_shares(forest, inputs, k)?;
-    let informed = posterior_from_shares(&mut probs, &inputs.rows, k, sequence, step_m, saturation);
-    Ok((probs, informed))
+    let informed = posterior_from_shares(&mut probs, &inputs.rows, k, None, step_m, saturation);
+    let evidence = ClassEvidence {
+        rows: inputs.rows.clone(),
+        k,
+        probs: probs.clone(),
+        step_m,
+        sequence: sequence.filter(|s| s.prior.len() == k).cloned(),
+    };
+    posterior_from_shares(&mut probs, &inputs.rows, k, sequence, step_m, None);
+    Ok((probs, informed, evidence))
+}
+
+/// What the Monte Carlo draws a well's classes from: its classed rows, their
+/// class probabilities before the bed sequence (`k` per row, class 1
+/// first), the sample step and the bed sequence model.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct ClassEvidence {
+    /// The classed rows of the well, ascending.
+    pub rows: Vec<usize>,
+    /// Classes of the scheme.
+    pub k: usize,
+    /// `k` probabilities per row of `rows`, before the bed sequence.
+    pub probs: Vec<f64>,
+    /// The sample step, m.
+    pub step_m: f64,
+    /// The bed sequence model, when the class model has one.
+    pub sequence: Option<SequenceModel>,
+}
+
+impl ClassEvidence {
+    /// `draws` class columns of `n_rows` rows (draw-major; 0 where a row has
+    /// no class). With a bed sequence, each run of consecutive classed rows
+    /// is one joint draw of the chain ([`SequenceModel::sample_paths`]), so
+    /// beds stay whole; without one, each row is drawn alone from its
+    /// probabilities. `seed` fixes the draws.
+    pub fn draw(&self, n_rows: usize, draws: usize, seed: u64) -> Vec<u8> {
+        use rand::{Rng, SeedableRng};
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+        let k = self.k;
+        let mut out = vec![0u8; draws * n_rows];
+        if k == 0 {
+            return out;
+        }
+        let rows = &self.rows;
+        let mut start = 0;
+        for end in 1..=rows.len() {
+            if end < rows.len() && rows[end] == rows[end - 1] + 1 {
+                continue;
+            }
+            let probs = &self.probs[start * k..end * k];
+            let len = end - start;
+            match &self.sequence {
+                Some(seq) => {
+                    let paths = seq.sample_paths(probs, self.step_m, draws, &mut rng);
+                    for d in 0..draws {
+                        for (i, &c) in paths[d * len..(d + 1) * len].iter().enumerate() {
+                            out[d * n_rows + rows[start + i]] = c;
+                        }
+                    }
+                }
+                None => {
+                    for d in 0..draws {
+                        for (i, p) in probs.chunks_exact(k).enumerate() {
+                            let total: f64 = p.iter().filter(|v| v.is_finite()).sum();
+                            if total.is_nan() || total <= 0.0 {
+                                continue;
+                            }
+                            let u = rng.random::<f64>() * total;
+                            let mut acc = 0.0;
+                            let mut c = k;
+                            for (j, v) in p.iter().enumerate() {
+                                acc += if v.is_finite() { *v } else { 0.0 };
+                                if u < acc {
+                                    c = j + 1;
+                                    break;
+                                }
+                            }
+                            out[d * n_rows + rows[start + i]] = u8::try_from(c).unwrap_or(u8::MAX);
+                        }
+                    }
+                }
+            }
+            start = end;
+        }
+        out
+    }
 }
 
 /// The most probable class (1-based; the lower on a tie) and its probability.

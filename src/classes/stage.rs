@@ -153,6 +153,10 @@ pub struct ClassCounts {
     /// depth context, bed sequence; empty when the well has no classes.
     #[serde(default)]
     pub evidence: Vec<String>,
+    /// What the Monte Carlo draws the well's classes from (taken by the
+    /// pipeline; never in the summary).
+    #[serde(skip)]
+    pub draw_from: Option<posterior::ClassEvidence>,
 }
 
 /// Run the class stage before the wells: core, schemes, model.
@@ -1215,7 +1219,8 @@ impl ClassSetup {
                 posterior::step_m(table),
                 sat,
             ) {
-                Ok((probs, informed)) => {
+                Ok((probs, informed, evidence)) => {
+                    counts.draw_from = Some(evidence);
                     if sat.is_some() {
                         counts.evidence.push(if informed > 0 {
                             format!(

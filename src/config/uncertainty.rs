@@ -7,6 +7,7 @@
 //! seed = 1                      # same seed, same inputs: same results
 //! sampling = "latin-hypercube"  # or "plain"
 //! depth-percentiles = false     # true: SW_P90, SW_P50, SW_P10 in the well files
+//! classes = "posterior"         # or "fixed": the class at each depth held
 //! [[uncertainty.correlation]]   # rank correlation of two keys, in every
 //! keys = ["archie-m", "archie-n"]   # table that gives both a distribution
 //! r = 0.6
@@ -37,6 +38,21 @@ pub struct UncertaintyConfig {
     /// Default false.
     #[serde(default)]
     pub depth_percentiles: bool,
+    /// The class at each depth: drawn from its posterior in every
+    /// realisation (default, when the run has a class predictor), or held.
+    #[serde(default)]
+    pub classes: ClassDraws,
+}
+
+/// `[uncertainty] classes`.
+#[derive(Debug, Clone, Copy, Deserialize, PartialEq, Eq, Default, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum ClassDraws {
+    /// Drawn from the posterior, bed by bed with the bed sequence.
+    #[default]
+    Posterior,
+    /// The run's most probable class, in every realisation.
+    Fixed,
 }
 
 /// `[[uncertainty.correlation]]`: the rank correlation of two keys.
@@ -65,6 +81,7 @@ impl Default for UncertaintyConfig {
             sampling: Sampling::default(),
             correlation: Vec::new(),
             depth_percentiles: false,
+            classes: ClassDraws::default(),
         }
     }
 }

@@ -23,29 +23,26 @@ use super::Samples;
 /// Keys the fast path takes: they change SW only.
 const SW_ONLY: [&str; 4] = ["rw-ohmm", "archie-a", "archie-m", "archie-n"];
 
-/// One net-reservoir depth: what a realisation needs of it.
+/// One interpreted depth: what a realisation needs of it.
 struct Depth {
-    /// Index into the zone's class table (0: no class, the zone's exponents).
-    class: usize,
+    /// Row in the well.
+    row: usize,
+    /// The deterministic run's class number (0: none).
+    class: u8,
+    vsh: f64,
+    phie: f64,
     /// ln φ.
     ln_phi: f64,
     /// ln Rw (the deterministic run's, at this depth's temperature) − ln Rt.
     ln_rw_rt: f64,
-    /// φ·h.
-    phi_h: f64,
-    /// h.
+    /// Thickness h (midpoint rule).
     h: f64,
-    /// ln of the SW cutoff of the depth's class: the pay test is made on
-    /// ln SW, so a depth that is not pay costs no exponential.
-    ln_sw_max: f64,
 }
 
 /// One zone of the well.
 struct Zone {
     name: String,
     depths: Vec<Depth>,
-    /// Deterministic PHIE average over net reservoir (it does not change).
-    phie_avg: f64,
     /// (key, variable) of the zone's own sampled keys.
     vars: Vec<(&'static str, usize)>,
     /// The best Rw of the zone (its sampled Rw scales every depth's Rw:
@@ -60,35 +57,20 @@ struct Zone {
     class_vars: Vec<Vec<(&'static str, usize)>>,
 }
 
-/// An interpreted depth, for SW at every depth (`depth-percentiles`).
-struct AnyDepth {
-    /// Row in the well.
-    row: usize,
-    /// Zone (index into the zones as first listed) and class index.
-    zone: usize,
-    class: usize,
-    ln_phi: f64,
-    ln_rw_rt: f64,
-}
-
 /// The well prepared for the fast path; `None` when it does not qualify.
 pub struct FastWell {
+    /// The zones in the order they first appear down the well.
     zones: Vec<Zone>,
-    /// Every interpreted depth, when SW at every depth is asked for.
-    all: Vec<AnyDepth>,
-    /// Index into `zones` of each zone of the well's setup order.
-    slot_of: Vec<Option<usize>>,
+    /// Per class number (0: none): VSH maximum, PHIE minimum, ln SW maximum.
+    cutoffs: Vec<(f64, f64, f64)>,
+    /// Whether SW takes its exponents from the class.
+    by_class: bool,
 }
 
 impl FastWell {
     /// Prepare `w` when every zone uses Archie and only [`SW_ONLY`] keys
     /// are sampled in it.
-    pub fn prepare(
-        w: &WellOutput,
-        names: &[&str],
-        config: &Config,
-        every_depth: bool,
-    ) -> Option<FastWell> {
+    pub fn prepare(w: &WellOutput, names: &[&str], config: &Config) -> Option<FastWell> {
         let t = &w.table;
         let params = &config.parameters;
         let zone_names: Vec<&str> = w.report.zones.iter().map(|z| z.name.as_str()).collect();
@@ -125,7 +107,6 @@ impl FastWell {
             zones.push(Zone {
                 name: setup.name.clone(),
                 depths: Vec::new(),
-                phie_avg: f64::NAN,
                 vars,
                 rw_best: setup.params.rw_ohmm.unwrap_or(f64::NAN),
                 archie: setup.params.archie,
@@ -142,11 +123,7 @@ impl FastWell {
             t.get(Col::Input(L::DeepResistivity))?,
         );
         let class = t.get(Col::Class);
-        let cutoffs = config.summary.cutoffs_by_class();
-        let mut phi_h_res = vec![0.0; zones.len()];
-        let mut h_res = vec![0.0; zones.len()];
         let mut order: Vec<usize> = Vec::new();
-        let mut all: Vec<AnyDepth> = Vec::new();
         for i in 0..n {
             let Some(z) = w.zone_of[i].map(usize::from).filter(|&z| z < zones.len()) else {
                 continue;
@@ -158,102 +135,129 @@ impl FastWell {
             if !(v.is_finite() && p.is_finite() && s.is_finite()) {
                 continue;
             }
-            let c = class.map_or(f64::NAN, |c| c[i]);
-            let cls = class_number(c).map_or(0, usize::from);
-            let cut = &cutoffs[cls];
-            let k = if by_class.is_some() && cls < zones[z].class_set.len() {
-                cls
-            } else {
-                0
-            };
-            if every_depth {
-                all.push(AnyDepth {
-                    row: i,
-                    zone: z,
-                    class: k,
-                    ln_phi: p.ln(),
-                    ln_rw_rt: w.rw[i].ln() - rt[i].ln(),
-                });
-            }
-            if !cut.is_net_reservoir(v, p) {
-                continue;
-            }
             let (upper, lower) = sample_edges(md, i);
-            let h = lower - upper;
-            phi_h_res[z] += p * h;
-            h_res[z] += h;
             zones[z].depths.push(Depth {
-                class: k,
+                row: i,
+                class: class.and_then(|c| class_number(c[i])).unwrap_or(0),
+                vsh: v,
+                phie: p,
                 ln_phi: p.ln(),
                 ln_rw_rt: w.rw[i].ln() - rt[i].ln(),
-                phi_h: p * h,
-                h,
-                ln_sw_max: cut.sw_max.ln(),
+                h: lower - upper,
             });
-        }
-        for (z, zone) in zones.iter_mut().enumerate() {
-            zone.phie_avg = if h_res[z] == 0.0 {
-                f64::NAN
-            } else {
-                phi_h_res[z] / h_res[z]
-            };
         }
         // the zones in the order they first appear down the well, as the
         // zone summary lists them
         let mut ordered: Vec<Zone> = Vec::with_capacity(order.len());
-        let mut slot_of: Vec<Option<usize>> = vec![None; zones.len()];
         let mut slots: Vec<Option<Zone>> = zones.into_iter().map(Some).collect();
         for z in order {
             if let Some(zone) = slots[z].take() {
-                slot_of[z] = Some(ordered.len());
                 ordered.push(zone);
             }
         }
+        let cutoffs = config
+            .summary
+            .cutoffs_by_class()
+            .iter()
+            .map(|c| (c.vsh_max, c.phie_min, c.sw_max.ln()))
+            .collect();
         Some(FastWell {
             zones: ordered,
-            all,
-            slot_of,
+            cutoffs,
+            by_class: by_class.is_some(),
         })
     }
 
     /// Every zone's (net pay, PHIE average, SW average, HPT) in every
-    /// realisation: `out[zone]` (in [`Self::zone_names`] order), one row per
-    /// realisation.
-    pub fn run(&self, samples: &Samples) -> Vec<(String, Vec<[f64; 4]>)> {
+    /// realisation, the zones in the order they first appear down the well.
+    /// `classes`: each realisation's class column (realisation-major, 0 =
+    /// the deterministic class), when classes are drawn.
+    pub fn run(&self, samples: &Samples, classes: Option<&[u8]>) -> Vec<(String, Vec<[f64; 4]>)> {
         self.zones
             .iter()
             .map(|zone| {
                 let rows = (0..samples.realisations)
-                    .map(|r| zone_realisation(zone, samples, r))
+                    .map(|r| self.zone_realisation(zone, samples, r, classes))
                     .collect();
                 (zone.name.clone(), rows)
             })
             .collect()
     }
-}
 
-impl FastWell {
+    /// The class number of depth `d` in realisation `r`, and the index of
+    /// its exponents in the zone's table.
+    fn class_of(
+        &self,
+        zone: &Zone,
+        d: &Depth,
+        r: usize,
+        n_rows: usize,
+        classes: Option<&[u8]>,
+    ) -> (usize, usize) {
+        let drawn = classes.map_or(0, |c| c[r * n_rows + d.row]);
+        let cn = usize::from(if drawn > 0 { drawn } else { d.class });
+        let k = if self.by_class && cn < zone.class_set.len() {
+            cn
+        } else {
+            0
+        };
+        (cn, k)
+    }
+
     /// SW at every interpreted depth in every realisation: `n` rows ×
-    /// realisations, depth-major; NaN elsewhere. Needs `every_depth` at
-    /// [`FastWell::prepare`].
-    pub fn sw_at_depths(&self, samples: &Samples, n: usize) -> Vec<f64> {
+    /// realisations, depth-major; NaN elsewhere.
+    pub fn sw_at_depths(&self, samples: &Samples, n: usize, classes: Option<&[u8]>) -> Vec<f64> {
         let rr = samples.realisations;
         let mut out = vec![f64::NAN; n * rr];
         for r in 0..rr {
-            let coefs: Vec<Vec<(f64, f64, f64)>> = self
-                .zones
-                .iter()
-                .map(|z| coefficients(z, samples, r).0)
-                .collect();
-            for d in &self.all {
-                let Some(z) = self.slot_of.get(d.zone).copied().flatten() else {
-                    continue;
-                };
-                let (c, m, inv_n) = coefs[z][d.class];
-                out[d.row * rr + r] = ((c + d.ln_rw_rt - m * d.ln_phi) * inv_n).exp().min(1.0);
+            for zone in &self.zones {
+                let (coef, _) = coefficients(zone, samples, r);
+                for d in &zone.depths {
+                    let (_, k) = self.class_of(zone, d, r, n, classes);
+                    let (c, m, inv_n) = coef[k];
+                    out[d.row * rr + r] = ((c + d.ln_rw_rt - m * d.ln_phi) * inv_n).exp().min(1.0);
+                }
             }
         }
         out
+    }
+
+    /// One zone in realisation `r`: (net pay, PHIE average, SW average, HPT),
+    /// the sums of the zone summary.
+    fn zone_realisation(
+        &self,
+        zone: &Zone,
+        samples: &Samples,
+        r: usize,
+        classes: Option<&[u8]>,
+    ) -> [f64; 4] {
+        let (coef, _) = coefficients(zone, samples, r);
+        let n_rows = classes.map_or(0, |c| c.len() / samples.realisations.max(1));
+        let (mut h_res, mut phi_h_res) = (0.0, 0.0);
+        let (mut pay, mut phi_h, mut phi_sw_h, mut hpt) = (0.0, 0.0, 0.0, 0.0);
+        for d in &zone.depths {
+            let (cn, k) = self.class_of(zone, d, r, n_rows, classes);
+            let (vsh_max, phie_min, ln_sw_max) = self.cutoffs[cn.min(self.cutoffs.len() - 1)];
+            if !(d.vsh <= vsh_max && d.phie >= phie_min) {
+                continue;
+            }
+            let phi_h_d = d.phie * d.h;
+            h_res += d.h;
+            phi_h_res += phi_h_d;
+            let (c, m, inv_n) = coef[k];
+            // the pay test on ln SW: a depth that is not pay needs no exponential
+            let ln_sw = (c + d.ln_rw_rt - m * d.ln_phi) * inv_n;
+            // SW is clipped to 1 (ln 0) before the cutoff, as in the chain
+            if ln_sw.min(0.0) <= ln_sw_max {
+                let sw = ln_sw.exp().min(1.0);
+                pay += d.h;
+                phi_h += phi_h_d;
+                phi_sw_h += phi_h_d * sw;
+                hpt += phi_h_d * (1.0 - sw);
+            }
+        }
+        let ratio = |a: f64, b: f64| if b == 0.0 { f64::NAN } else { a / b };
+        [pay, ratio(phi_h_res, h_res), ratio(phi_sw_h, phi_h), hpt]
     }
 }
 
@@ -298,27 +302,4 @@ fn coefficients(zone: &Zone, samples: &Samples, r: usize) -> (Vec<(f64, f64, f64
         })
         .collect();
     (coef, zone_archie)
-}
-
-/// One zone in realisation `r`: (net pay, PHIE average, SW average, HPT).
-fn zone_realisation(zone: &Zone, samples: &Samples, r: usize) -> [f64; 4] {
-    let (coef, _) = coefficients(zone, samples, r);
-    let (mut pay, mut phi_h, mut phi_sw_h, mut hpt) = (0.0, 0.0, 0.0, 0.0);
-    for d in &zone.depths {
-        let (c, m, inv_n) = coef[d.class];
-        let ln_sw = (c + d.ln_rw_rt - m * d.ln_phi) * inv_n;
-        if ln_sw <= d.ln_sw_max {
-            let sw = ln_sw.exp().min(1.0);
-            pay += d.h;
-            phi_h += d.phi_h;
-            phi_sw_h += d.phi_h * sw;
-            hpt += d.phi_h * (1.0 - sw);
-        }
-    }
-    let sw_avg = if phi_h == 0.0 {
-        f64::NAN
-    } else {
-        phi_sw_h / phi_h
-    };
-    [pay, zone.phie_avg, sw_avg, hpt]
 }
