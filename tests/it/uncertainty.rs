@@ -123,3 +123,34 @@ fn depth_percentiles_are_written_beside_sw_on_request() {
     }
     assert!(spread > 100, "{spread} depths with a spread");
 }
+
+/// Drawing each depth's class from its posterior (the default) changes the
+/// ranges the parameters alone give; `classes = "fixed"` holds the class
+/// and gives the parameters-only ranges.
+#[test]
+fn drawn_classes_change_the_ranges_and_fixed_holds_them() {
+    let ranges = |classes: &str| {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let out = dir.path().join("out");
+        let cfg = demo_config_edited(dir.path(), |t| {
+            t.replace(
+                "realisations = 200",
+                &format!("realisations = 60\nclasses = \"{classes}\""),
+            )
+        });
+        run_summary(&cfg, &out);
+        let (h, rows) = read_table(&out.join("field/zone-summary.csv"));
+        let (lo, hi) = (col(&h, "HPT_P90"), col(&h, "HPT_P10"));
+        rows.iter()
+            .map(|r| (num(&r[lo]), num(&r[hi])))
+            .collect::<Vec<_>>()
+    };
+    let (drawn, fixed) = (ranges("posterior"), ranges("fixed"));
+    assert_eq!(drawn.len(), fixed.len());
+    let changed = drawn
+        .iter()
+        .zip(&fixed)
+        .filter(|(a, b)| (a.0 - b.0).abs() > 1e-4 || (a.1 - b.1).abs() > 1e-4)
+        .count();
+    assert!(changed > 0, "class draws changed no range");
+}
