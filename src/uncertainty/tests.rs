@@ -199,6 +199,32 @@ fn exceedance_percentiles_of_a_known_sample() {
     assert!(empty.p50.is_nan() && empty.mean.is_nan());
 }
 
+/// Whether two wells' Monte Carlo ranges agree zone by zone within 1e-9
+/// (relative), NaN matching NaN; panics naming the first difference.
+fn assert_same_ranges(a: &super::WellUncertainty, b: &super::WellUncertainty, what: &str) {
+    let close =
+        |x: f64, y: f64| (x.is_nan() && y.is_nan()) || (x - y).abs() <= 1e-9 * (1.0 + y.abs());
+    assert_eq!(a.zones.len(), b.zones.len(), "{what}");
+    for ((za, ra), (zb, rb)) in a.zones.iter().zip(&b.zones) {
+        assert_eq!(za, zb, "{what}");
+        for (x, y) in [
+            (ra.net_pay, rb.net_pay),
+            (ra.phie_avg, rb.phie_avg),
+            (ra.sw_avg, rb.sw_avg),
+            (ra.hpt, rb.hpt),
+        ] {
+            for (u, v) in [
+                (x.p90, y.p90),
+                (x.p50, y.p50),
+                (x.p10, y.p10),
+                (x.mean, y.mean),
+            ] {
+                assert!(close(u, v), "{what} {za}: {x:?} against {y:?}");
+            }
+        }
+    }
+}
+
 /// The fast path (one exponential per net-reservoir depth) and the general
 /// one (the whole chain, class-aware SW and zone summary per realisation)
 /// give the same ranges and the same HPT in every realisation, on the demo
@@ -259,27 +285,9 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
         assert!(super::fast::FastWell::prepare(&w.well, &names, &config).is_some());
         fast_wells += 1;
         let b = super::run_well_chain(&w.well, &names, &config, samples, None);
-        assert_eq!(a.zones.len(), b.zones.len());
+        assert_same_ranges(&a, &b, &w.well.name);
         let close =
             |x: f64, y: f64| (x.is_nan() && y.is_nan()) || (x - y).abs() <= 1e-9 * (1.0 + y.abs());
-        for ((za, ra), (zb, rb)) in a.zones.iter().zip(&b.zones) {
-            assert_eq!(za, zb);
-            for (x, y) in [
-                (ra.net_pay, rb.net_pay),
-                (ra.phie_avg, rb.phie_avg),
-                (ra.sw_avg, rb.sw_avg),
-                (ra.hpt, rb.hpt),
-            ] {
-                for (u, v) in [
-                    (x.p90, y.p90),
-                    (x.p50, y.p50),
-                    (x.p10, y.p10),
-                    (x.mean, y.mean),
-                ] {
-                    assert!(close(u, v), "{} {za}: fast {x:?}, chain {y:?}", w.well.name);
-                }
-            }
-        }
         for (ha, hb) in a.hpt.iter().zip(&b.hpt) {
             assert!(
                 ha.iter().zip(hb).all(|(u, v)| close(*u, *v)),
@@ -332,27 +340,7 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
                 .run(samples, Some(&draws)),
         );
         let fb = super::run_well_chain(&w.well, &names, &config, samples, Some(&draws));
-        for ((za, ra), (_, rb)) in fa.zones.iter().zip(&fb.zones) {
-            for (x, y) in [
-                (ra.net_pay, rb.net_pay),
-                (ra.phie_avg, rb.phie_avg),
-                (ra.sw_avg, rb.sw_avg),
-                (ra.hpt, rb.hpt),
-            ] {
-                for (u, v) in [
-                    (x.p90, y.p90),
-                    (x.p50, y.p50),
-                    (x.p10, y.p10),
-                    (x.mean, y.mean),
-                ] {
-                    assert!(
-                        close(u, v),
-                        "{} {za} with drawn classes: fast {x:?}, chain {y:?}",
-                        w.well.name
-                    );
-                }
-            }
-        }
+        assert_same_ranges(&fa, &fb, &format!("{} with drawn classes", w.well.name));
         // the ranges have a spread: the realisations differ
         assert!(a.zones.iter().any(|(_, r)| r.hpt.p10 > r.hpt.p90));
     }

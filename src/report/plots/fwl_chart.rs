@@ -3,7 +3,7 @@
 //! standard error. Wells flagged as possibly under another FWL stand out by
 //! shape (a diamond, not a circle), colour and a marked label.
 
-use crate::report::plots::section::{L, R, agreement_mark, fwl_band, implied_fwl, tvdss_axis};
+use crate::report::plots::section::{L, R, fwl_band, fwl_legend, implied_fwl, tvdss_axis};
 use crate::report::plots::{CompartmentWells, FieldWell};
 use crate::report::svg::{Anchor, Scale, Stroke, Svg, num, palette};
 
@@ -165,44 +165,7 @@ fn legend(s: &mut Svg) {
     let x0 = LEG_X;
     let mut y = T + 6.0;
     let text = |s: &mut Svg, y: f64, t: &str| s.text(x0 + 20.0, y + 3.5, t, 10.0, Anchor::Start);
-    s.rect_faint(x0, y - 5.0, 14.0, 10.0, palette::SKY_BLUE, 0.35);
-    s.line(
-        x0,
-        y,
-        x0 + 14.0,
-        y,
-        Stroke::dashed(palette::BLUE, 1.5, "8 4"),
-    );
-    text(s, y, "compartment FWL ± 1 s.e.");
-    y += 20.0;
-    for flagged in [false, true] {
-        let (col, shape) = agreement_mark(flagged);
-        s.line(
-            x0 + 7.0,
-            y - 7.0,
-            x0 + 7.0,
-            y + 7.0,
-            Stroke::solid(col, 1.8),
-        );
-        s.marker(
-            shape,
-            x0 + 7.0,
-            y,
-            if flagged { 6.0 } else { 4.5 },
-            col,
-            None,
-        );
-        text(
-            s,
-            y,
-            if flagged {
-                "flagged: another FWL?"
-            } else {
-                "implied FWL, ± 1 s.e."
-            },
-        );
-        y += 20.0;
-    }
+    y = fwl_legend(s, x0, y, 4.6);
     s.line(
         x0 + 7.0,
         y - 7.0,

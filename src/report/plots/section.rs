@@ -566,6 +566,46 @@ pub fn implied_fwl(
     s.end_group();
 }
 
+/// The legend rows the section and the FWL chart share: the compartment
+/// FWL band, then the implied FWL and range of an agreeing and of a flagged
+/// well (marker radius `r`); returns the y below them.
+pub(super) fn fwl_legend(s: &mut Svg, x0: f64, mut y: f64, r: f64) -> f64 {
+    let text = |s: &mut Svg, y: f64, t: &str| s.text(x0 + 20.0, y + 3.5, t, 10.0, Anchor::Start);
+    s.rect_faint(x0, y - 5.0, 14.0, 10.0, palette::SKY_BLUE, 0.35);
+    s.line(
+        x0,
+        y,
+        x0 + 14.0,
+        y,
+        Stroke::dashed(palette::BLUE, 1.5, "8 4"),
+    );
+    text(s, y, "compartment FWL ± 1 s.e.");
+    y += 20.0;
+    for flagged in [false, true] {
+        let (col, shape) = agreement_mark(flagged);
+        s.line(
+            x0 + 7.0,
+            y - 7.0,
+            x0 + 7.0,
+            y + 7.0,
+            Stroke::solid(col, 1.7),
+        );
+        let r = if flagged { 1.3 * r } else { r };
+        s.marker(shape, x0 + 7.0, y, r, col, None);
+        text(
+            s,
+            y,
+            if flagged {
+                "implied FWL, flagged"
+            } else {
+                "implied FWL and range"
+            },
+        );
+        y += 20.0;
+    }
+    y
+}
+
 /// Colour and shape of a well's implied FWL: flagged wells stand out by both.
 pub fn agreement_mark(flagged: bool) -> (&'static str, Shape) {
     if flagged {
@@ -607,40 +647,9 @@ fn legend(s: &mut Svg, c: &CompartmentWells<'_>) {
     );
     text(s, y, "SWH, saturation-height");
     y += 15.0;
-    s.rect_faint(x0, y - 5.0, 14.0, 10.0, palette::SKY_BLUE, 0.35);
-    s.line(
-        x0,
-        y,
-        x0 + 14.0,
-        y,
-        Stroke::dashed(palette::BLUE, 1.5, "8 4"),
-    );
-    text(s, y, "compartment FWL ± 1 s.e.");
-    y += 15.0;
     s.line(x0, y, x0 + 14.0, y, Stroke::solid(palette::FRAME, 1.0));
     text(s, y, "zone top, joined");
-    y += 19.0;
-    for flagged in [false, true] {
-        let (col, shape) = agreement_mark(flagged);
-        s.line(
-            x0 + 7.0,
-            y - 6.0,
-            x0 + 7.0,
-            y + 6.0,
-            Stroke::solid(col, 1.6),
-        );
-        s.marker(shape, x0 + 7.0, y, 4.0, col, None);
-        text(
-            s,
-            y,
-            if flagged {
-                "implied FWL, flagged"
-            } else {
-                "implied FWL and range"
-            },
-        );
-        y += 17.0;
-    }
+    y = fwl_legend(s, x0, y + 15.0, 4.0) + 2.0;
     s.text_styled(
         x0,
         y + 3.5,
