@@ -164,23 +164,37 @@ pub fn run_well(
         let well_name = out.name.clone();
         let names = [well_name.as_str(), file_stem.as_str()];
         times.time(Stage::Uncertainty, || {
+            let perm = models.classes.map(|c| crate::uncertainty::PermModel {
+                by_class: &c.model.header.perm,
+                method: c.model.header.perm_method,
+            });
             let mut u = crate::uncertainty::run_well(
                 &out,
                 &names,
                 config,
                 samples,
                 class_evidence.as_ref(),
+                perm,
             );
-            if let Some([p90, p50, p10]) = u.sw_depth.take() {
+            let du = config.project.depth_unit;
+            for (beside, cols, values) in [
+                (
+                    Col::Sw,
+                    [Col::SwP90, Col::SwP50, Col::SwP10],
+                    u.sw_depth.take(),
+                ),
+                (
+                    Col::Perm,
+                    [Col::PermP90, Col::PermP50, Col::PermP10],
+                    u.perm_depth.take(),
+                ),
+            ] {
+                let Some(values) = values else { continue };
                 let t = &mut out.table;
-                let at = t.position(Col::Sw).map_or(t.columns.len(), |i| i + 1);
-                let du = config.project.depth_unit;
-                for (k, (col, values)) in [(Col::SwP90, p90), (Col::SwP50, p50), (Col::SwP10, p10)]
-                    .into_iter()
-                    .enumerate()
-                {
+                let at = t.position(beside).map_or(t.columns.len(), |i| i + 1);
+                for (k, (col, v)) in cols.into_iter().zip(values).enumerate() {
                     t.columns
-                        .insert(at + k, crate::output::OutColumn::new(col, du, values));
+                        .insert(at + k, crate::output::OutColumn::new(col, du, v));
                 }
             }
             for z in &mut zones {

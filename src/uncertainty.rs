@@ -97,6 +97,32 @@ pub struct WellUncertainty {
     /// (NaN where the deterministic run has no SW).
     #[serde(skip)]
     pub sw_depth: Option<[Vec<f64>; 3]>,
+    /// With `depth-percentiles` and drawn classes: PERM at every classed
+    /// depth, P90, P50 and P10, from each realisation's class and PHIE.
+    #[serde(skip)]
+    pub perm_depth: Option<[Vec<f64>; 3]>,
+}
+
+/// The class model's permeability relations: by class, and the method.
+#[derive(Debug, Clone, Copy)]
+pub struct PermModel<'a> {
+    /// Each class's fitted relation.
+    pub by_class: &'a [crate::classes::perm::ClassPerm],
+    /// FZI or the log-k line.
+    pub method: crate::config::PermMethod,
+}
+
+impl PermModel<'_> {
+    /// PERM of class `class` (a CLASS value; NaN: none) at porosity `phie`, mD.
+    fn at(&self, class: f64, phie: f64) -> f64 {
+        if !(class >= 1.0 && phie > 0.0) {
+            return f64::NAN;
+        }
+        self.by_class
+            .iter()
+            .find(|c| f64::from(c.class) == class)
+            .map_or(f64::NAN, |c| c.perm(self.method, phie))
+    }
 }
 
 /// The well's zone summary in every realisation: by the fast path
@@ -111,6 +137,7 @@ pub fn run_well(
     config: &Config,
     samples: &Samples,
     classes: Option<&ClassEvidence>,
+    perm: Option<PermModel<'_>>,
 ) -> WellUncertainty {
     let n = w.table.n_rows();
     let draws = classes.map(|ev| {
@@ -122,6 +149,8 @@ pub fn run_well(
     });
     let draws = draws.as_deref();
     let depth = config.uncertainty.depth_percentiles;
+    // PERM per depth needs drawn classes: with the run's classes it would not vary
+    let perm = perm.filter(|_| depth && draws.is_some());
     match fast::FastWell::prepare(w, names, config) {
         Some(f) => {
             let mut u = ranges(&f.run(samples, draws));
@@ -131,9 +160,24 @@ pub fn run_well(
                     samples.realisations,
                 ));
             }
+            if let Some(pm) = perm {
+                // the fast path's PHIE is the deterministic run's
+                let nan = vec![f64::NAN; n];
+                let phie = w.table.get(Col::Phie).unwrap_or(&nan);
+                let det = w.table.get(Col::Class).unwrap_or(&nan);
+                let rr = samples.realisations;
+                let mut all = vec![f64::NAN; n * rr];
+                for r in 0..rr {
+                    let class = class_column(det, draws, r);
+                    for i in 0..n {
+                        all[i * rr + r] = pm.at(class[i], phie[i]);
+                    }
+                }
+                u.perm_depth = Some(depth_percentiles(&all, rr));
+            }
             u
         }
-        None => run_well_chain(w, names, config, samples, draws),
+        None => run_well_chain(w, names, config, samples, draws, perm),
     }
 }
 
@@ -209,6 +253,7 @@ fn ranges(per_zone: &[(String, Vec<[f64; 4]>)]) -> WellUncertainty {
             .collect(),
         hpt: per_zone.iter().map(|(_, rows)| pick(rows, 3)).collect(),
         sw_depth: None,
+        perm_depth: None,
     }
 }
 
@@ -220,6 +265,7 @@ pub fn run_well_chain(
     config: &Config,
     samples: &Samples,
     draws: Option<&[u8]>,
+    perm: Option<PermModel<'_>>,
 ) -> WellUncertainty {
     let t = &w.table;
     let n = t.n_rows();
@@ -259,6 +305,11 @@ pub fn run_well_chain(
     let keep_sw = config.uncertainty.depth_percentiles;
     let realisations = samples.realisations;
     let mut sw_all = if keep_sw {
+        vec![f64::NAN; t.n_rows() * realisations]
+    } else {
+        Vec::new()
+    };
+    let mut perm_all = if perm.is_some() {
         vec![f64::NAN; t.n_rows() * realisations]
     } else {
         Vec::new()
@@ -317,6 +368,11 @@ pub fn run_well_chain(
                 sw_all[i * realisations + r] = *v;
             }
         }
+        if let Some(pm) = perm {
+            for (i, (&c, &phi)) in class.iter().zip(&out.phie).enumerate() {
+                perm_all[i * realisations + r] = pm.at(c, phi);
+            }
+        }
         let zones = crate::well::summary::zone_summary(
             &w.name,
             md,
@@ -339,6 +395,9 @@ pub fn run_well_chain(
     let mut u = ranges(&per_zone);
     if keep_sw {
         u.sw_depth = Some(depth_percentiles(&sw_all, realisations));
+    }
+    if perm.is_some() {
+        u.perm_depth = Some(depth_percentiles(&perm_all, realisations));
     }
     u
 }

@@ -54,6 +54,12 @@ pub enum Col {
     SwP50,
     /// SW exceeded in 10 % of the realisations (the 90th percentile), v/v.
     SwP10,
+    /// PERM exceeded in 90 % of the realisations (the 10th percentile), mD.
+    PermP90,
+    /// PERM exceeded in half the realisations, mD.
+    PermP50,
+    /// PERM exceeded in 10 % of the realisations (the 90th percentile), mD.
+    PermP10,
     /// The contact audit's kind of the step at this depth.
     Contact,
     /// An input curve, converted to its canonical unit.
@@ -83,6 +89,9 @@ impl Col {
             Col::SwP90 => "SW_P90",
             Col::SwP50 => "SW_P50",
             Col::SwP10 => "SW_P10",
+            Col::PermP90 => "PERM_P90",
+            Col::PermP50 => "PERM_P50",
+            Col::PermP10 => "PERM_P10",
             Col::Contact => "CONTACT",
             Col::Input(c) => c.output_mnemonic(),
         }
@@ -106,7 +115,7 @@ impl Col {
             | Col::SwP90
             | Col::SwP50
             | Col::SwP10 => "V/V",
-            Col::Perm => "MD",
+            Col::Perm | Col::PermP90 | Col::PermP50 | Col::PermP10 => "MD",
             Col::PermSd => "LOG10(MD)",
             Col::Flag | Col::Class | Col::Contact => "",
             Col::Input(c) => c.quantity().canonical_unit(depth_unit),
@@ -135,6 +144,9 @@ impl Col {
             Col::SwP90 => "SW EXCEEDED IN 90 PCT OF REALISATIONS",
             Col::SwP50 => "SW EXCEEDED IN 50 PCT OF REALISATIONS",
             Col::SwP10 => "SW EXCEEDED IN 10 PCT OF REALISATIONS",
+            Col::PermP90 => "PERM EXCEEDED IN 90 PCT OF REALISATIONS, DRAWN CLASSES",
+            Col::PermP50 => "PERM EXCEEDED IN 50 PCT OF REALISATIONS, DRAWN CLASSES",
+            Col::PermP10 => "PERM EXCEEDED IN 10 PCT OF REALISATIONS, DRAWN CLASSES",
             Col::Contact => {
                 "SATURATION STEP BELOW: 1 ROCK QUALITY 2 FLUID CONTACT 3 UNEXPLAINED 4 FLAGGED"
             }
@@ -233,6 +245,9 @@ mod tests {
             Col::SwP90,
             Col::SwP50,
             Col::SwP10,
+            Col::PermP90,
+            Col::PermP50,
+            Col::PermP10,
             Col::Contact,
         ];
         let mut names: Vec<&str> = all.iter().map(|c| c.name()).collect();

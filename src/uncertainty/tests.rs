@@ -281,10 +281,10 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
         let w = crate::pipeline::run_well(path, &bytes, &models, &mut times).expect("well runs");
         let stem = crate::well::stem_of(path);
         let names = [w.well.name.as_str(), stem.as_str()];
-        let a = super::run_well(&w.well, &names, &config, samples, None);
+        let a = super::run_well(&w.well, &names, &config, samples, None, None);
         assert!(super::fast::FastWell::prepare(&w.well, &names, &config).is_some());
         fast_wells += 1;
-        let b = super::run_well_chain(&w.well, &names, &config, samples, None);
+        let b = super::run_well_chain(&w.well, &names, &config, samples, None, None);
         assert_same_ranges(&a, &b, &w.well.name);
         let close =
             |x: f64, y: f64| (x.is_nan() && y.is_nan()) || (x - y).abs() <= 1e-9 * (1.0 + y.abs());
@@ -339,7 +339,7 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
                 .expect("fast")
                 .run(samples, Some(&draws)),
         );
-        let fb = super::run_well_chain(&w.well, &names, &config, samples, Some(&draws));
+        let fb = super::run_well_chain(&w.well, &names, &config, samples, Some(&draws), None);
         assert_same_ranges(&fa, &fb, &format!("{} with drawn classes", w.well.name));
         // the ranges have a spread: the realisations differ
         assert!(a.zones.iter().any(|(_, r)| r.hpt.p10 > r.hpt.p90));

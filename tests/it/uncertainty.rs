@@ -84,9 +84,10 @@ fn no_realisations_means_no_monte_carlo() {
     assert!(!out.join("field/hpt-drivers.csv").exists());
 }
 
-/// One key adds SW's P90, P50 and P10 at every depth to the well files,
-/// beside SW: ordered, and given wherever SW is (also where a realisation's
-/// porosity makes SW defined when the deterministic one does not).
+/// One key adds SW's and PERM's P90, P50 and P10 at every depth to the well
+/// files, beside SW and PERM: ordered, and given wherever SW is (also where a
+/// realisation's porosity makes SW defined when the deterministic one does
+/// not).
 #[test]
 fn depth_percentiles_are_written_beside_sw_on_request() {
     let dir = tempfile::tempdir().expect("temp dir");
@@ -122,6 +123,23 @@ fn depth_percentiles_are_written_beside_sw_on_request() {
         }
     }
     assert!(spread > 100, "{spread} depths with a spread");
+    // PERM too, beside PERM: each realisation's drawn class at its PHIE
+    let perm = col(&h, "PERM");
+    assert_eq!(&h[perm + 1..perm + 4], ["PERM_P90", "PERM_P50", "PERM_P10"]);
+    let (mut classed, mut wide) = (0, 0);
+    for r in &rows {
+        let (p90, p50, p10) = (num(&r[perm + 1]), num(&r[perm + 2]), num(&r[perm + 3]));
+        if num(&r[perm]).is_nan() || p50.is_nan() {
+            continue;
+        }
+        classed += 1;
+        assert!(p90 > 0.0 && p90 <= p50 && p50 <= p10, "{r:?}");
+        if p10 > 1.5 * p90 {
+            wide += 1;
+        }
+    }
+    assert!(classed > 300, "{classed} classed depths");
+    assert!(wide > 0, "the class draws give some depth a PERM range");
 }
 
 /// Drawing each depth's class from its posterior (the default) changes the
