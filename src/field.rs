@@ -82,6 +82,12 @@ fn uncertainty_summary(
             .vars
             .iter()
             .map(|v| (v.name.clone(), v.dist))
+            .chain(
+                samples
+                    .fwl
+                    .iter()
+                    .map(|f| (format!("compartments.{}.fwl-tvdss", f.compartment), f.dist)),
+            )
             .collect(),
         convention: crate::uncertainty::CONVENTION.into(),
         drivers,

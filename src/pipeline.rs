@@ -175,6 +175,7 @@ pub fn run_well(
                 samples,
                 class_evidence.as_ref(),
                 perm,
+                models.sat,
             );
             let du = config.project.depth_unit;
             for (beside, cols, values) in [
@@ -187,6 +188,11 @@ pub fn run_well(
                     Col::Perm,
                     [Col::PermP90, Col::PermP50, Col::PermP10],
                     u.perm_depth.take(),
+                ),
+                (
+                    Col::Swh,
+                    [Col::SwhP90, Col::SwhP50, Col::SwhP10],
+                    u.swh_depth.take(),
                 ),
             ] {
                 let Some(values) = values else { continue };

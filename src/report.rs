@@ -589,7 +589,7 @@ fn uncertainty_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("<h2 id=\"uncertainty\">Uncertainty</h2>\n");
     let _ = writeln!(
         h,
-        "<p class=\"note\">Monte Carlo over the parameters the config gives as distributions; the logs, zone tops, cutoffs and classes are held. {}. The zone summary below and <a href=\"../field/zone-summary.csv\">field/zone-summary.csv</a> give each zone's P90, P50, P10 and mean; <a href=\"../field/hpt-drivers.csv\">field/hpt-drivers.csv</a> ranks every input. The ranges reflect only the stated input uncertainties.</p>",
+        "<p class=\"note\">Monte Carlo over the parameters the config gives as distributions, the class at each depth (drawn from its probabilities, bed by bed, unless <code>[uncertainty] classes = \"fixed\"</code>) and each compartment's free water level (normal, with the pressure fit's standard error or the config's <code>fwl-sd</code>); the logs, zone tops and cutoffs are held. {}. The zone summary below and <a href=\"../field/zone-summary.csv\">field/zone-summary.csv</a> give each zone's P90, P50, P10 and mean, of HPT from the logs' SW and, where a saturation-height model is run, of HPT from its SWH (which carries the free water level's spread); <a href=\"../field/hpt-drivers.csv\">field/hpt-drivers.csv</a> ranks the parameters by their hold on HPT from SW. The ranges reflect only the stated input uncertainties.</p>",
         escape(crate::uncertainty::CONVENTION)
     );
     plot(h, &plots::tornado::tornado(p.drivers));
@@ -648,6 +648,10 @@ fn zone_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("<h2>Zone summary</h2>\n");
     let u = p.depth_unit;
     let ranges = p.zones.iter().any(|z| z.uncertainty.is_some());
+    let swh_ranges = p
+        .zones
+        .iter()
+        .any(|z| z.uncertainty.as_ref().is_some_and(|u| u.hpt_swh.is_some()));
     let rows: Vec<Vec<Cell>> = p
         .zones
         .iter()
@@ -666,6 +670,12 @@ fn zone_section(h: &mut String, p: &FieldPage<'_>) {
             if ranges {
                 let r = z.uncertainty.as_ref().map(|u| u.hpt);
                 for v in [r.map(|r| r.p90), r.map(|r| r.p50), r.map(|r| r.p10)] {
+                    row.push(fmt(v.unwrap_or(f64::NAN), 3));
+                }
+            }
+            if swh_ranges {
+                let r = z.uncertainty.as_ref().and_then(|u| u.hpt_swh);
+                for v in [r.map(|r| r.p90), r.map(|r| r.p10)] {
                     row.push(fmt(v.unwrap_or(f64::NAN), 3));
                 }
             }
@@ -694,6 +704,12 @@ fn zone_section(h: &mut String, p: &FieldPage<'_>) {
             format!("HPT P90 (low) {u}"),
             format!("HPT P50 {u}"),
             format!("HPT P10 (high) {u}"),
+        ]);
+    }
+    if swh_ranges {
+        head.extend([
+            format!("HPT from SWH P90 {u}"),
+            format!("HPT from SWH P10 {u}"),
         ]);
     }
     let head: Vec<&str> = head.iter().map(String::as_str).collect();

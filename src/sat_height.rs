@@ -91,7 +91,10 @@ pub struct CompartmentFwl {
     pub wells: Option<Vec<String>>,
     /// FWL, TVDSS in the project's depth unit.
     pub fwl_tvdss: f64,
-    /// One standard error of the FWL, project depth unit (pressure fit only).
+    /// One standard deviation of the FWL, project depth unit: the config's
+    /// `fwl-sd`, else the pressure fit's standard error (none for a FWL set
+    /// in the config without `fwl-sd`). The Monte Carlo samples the FWL from
+    /// a normal distribution with it.
     pub fwl_sigma: Option<f64>,
     /// "config" or "pressures".
     pub source: String,
@@ -750,10 +753,10 @@ fn compartments(
             })
         };
         let (fwl_tvdss, fwl_sigma, source) = match (c.fwl_tvdss, &fit) {
-            (Some(f), _) => (f, None, "config"),
+            (Some(f), _) => (f, c.fwl_sd, "config"),
             (None, Some(Ok(f))) => (
                 f.fwl_tvdss_m / to_m,
-                Some(f.fwl_sigma_m / to_m),
+                Some(c.fwl_sd.unwrap_or(f.fwl_sigma_m / to_m)),
                 "pressures",
             ),
             (None, Some(Err(reason))) => {

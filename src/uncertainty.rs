@@ -1,21 +1,32 @@
 //! Uncertainty: low, best and high net pay, porosity, saturation and
 //! hydrocarbon pore thickness per zone, by Monte Carlo over the parameters
-//! the config gives as distributions ([`crate::stats::dist`]).
+//! the config gives as distributions ([`crate::stats::dist`]), the class at
+//! each depth and each compartment's free water level.
 //!
-//! What is sampled: every `[parameters.*]` key written as a distribution
-//! (Rw, Archie a, m and n at any level including per class, matrix, fluid and
-//! shale densities and transit times, shale neutron, gamma-ray clean and
-//! shale readings, shale resistivity), one value per realisation for each
-//! table that sets it: a field-wide value is the same in every well of a
-//! realisation (parameter uncertainty is systematic, not noise from depth to
-//! depth). What is held: the logs, the zone tops, the cutoffs, the classes
-//! (the run's predicted class at each depth), and every key given as a number.
+//! What is sampled:
+//! - every `[parameters.*]` key written as a distribution (Rw, Archie a, m
+//!   and n at any level including per class, matrix, fluid and shale
+//!   densities and transit times, shale neutron, gamma-ray clean and shale
+//!   readings, shale resistivity), one value per realisation for each table
+//!   that sets it: a field-wide value is the same in every well of a
+//!   realisation (parameter uncertainty is systematic, not noise from depth
+//!   to depth);
+//! - the class at each classed depth, drawn from its probabilities, bed by
+//!   bed when the bed sequence model exists (`[uncertainty] classes`);
+//! - each compartment's free water level, normal about its FWL with the
+//!   config's `fwl-sd` or the pressure fit's standard error
+//!   ([`Samples::add_fwl`]). It moves SWH only, so it shows in the HPT from
+//!   SWH ([`swh_monte_carlo`]) and SWH's per-depth percentiles.
+//!
+//! What is held: the logs, the zone tops, the cutoffs, every key given as a
+//! number, and each class's permeability relation (no scatter about it).
 //!
 //! Each realisation runs the well's petrophysics chain
 //! ([`crate::well::chain::run`]), the class-aware saturation when the run uses
 //! it, and the zone summary ([`crate::well::summary::zone_summary`]) with the
 //! realisation's values: the same code as the deterministic run, so the two
-//! cannot drift apart.
+//! cannot drift apart ([`fast`] is a shortcut for Archie with only SW's
+//! inputs uncertain, tested equal to it).
 //!
 //! Percentiles follow the exceedance convention of reserves reporting: P90
 //! is the value exceeded in 90 % of the realisations (the 10th percentile of
@@ -46,16 +57,33 @@ pub struct Samples {
     pub values: Vec<Vec<f64>>,
     /// Realisations of the run.
     pub realisations: usize,
+    /// Each compartment's free water level per realisation, where it has a
+    /// standard deviation ([`Samples::add_fwl`]).
+    pub fwl: Vec<FwlSamples>,
+}
+
+/// One compartment's sampled free water level.
+#[derive(Debug, Clone)]
+pub struct FwlSamples {
+    /// The compartment's name.
+    pub compartment: String,
+    /// Normal, mean the compartment's FWL, sd its `fwl_sigma`; TVDSS,
+    /// project depth unit.
+    pub dist: crate::stats::dist::Dist,
+    /// The FWL in each realisation.
+    pub values: Vec<f64>,
 }
 
 impl Samples {
-    /// Draw every variable's values for the run; `None` when the config has
-    /// no distribution or `realisations = 0`. The config was validated at
-    /// load (correlations possible, distributions inside their ranges).
+    /// Draw every variable's values for the run; `None` when
+    /// `realisations = 0` or when the config has no distribution and no
+    /// compartment sets `fwl-sd`. The config was validated at load
+    /// (correlations possible, distributions inside their ranges).
     pub fn draw(config: &Config) -> Result<Option<Samples>, String> {
         let u = &config.uncertainty;
         let vars = config.variables.clone();
-        if vars.is_empty() || u.realisations == 0 {
+        let fwl_sd = config.compartments.values().any(|c| c.fwl_sd.is_some());
+        if (vars.is_empty() && !fwl_sd) || u.realisations == 0 {
             return Ok(None);
         }
         let target = u.matrix(&vars).map_err(|(k, m)| format!("{k}: {m}"))?;
@@ -81,7 +109,53 @@ impl Samples {
             vars,
             values,
             realisations: u.realisations,
+            fwl: Vec::new(),
         }))
+    }
+
+    /// Sample the free water level of every compartment of `sat` with a
+    /// standard deviation above 0: normal about its FWL, by the run's
+    /// sampling, from a stream of its own (the parameters' draws do not
+    /// change when a compartment is added), independent of the parameters.
+    pub fn add_fwl(
+        &mut self,
+        sat: &crate::sat_height::SatHeightModel,
+        config: &Config,
+    ) -> Result<(), String> {
+        let u = &config.uncertainty;
+        let with_sd: Vec<_> = sat
+            .compartments
+            .iter()
+            .filter(|c| c.fwl_sigma.is_some_and(|s| s > 0.0) && c.fwl_tvdss.is_finite())
+            .collect();
+        if with_sd.is_empty() {
+            return Ok(());
+        }
+        let k = with_sd.len();
+        let mut identity = vec![0.0; k * k];
+        for i in 0..k {
+            identity[i * k + i] = 1.0;
+        }
+        let p = crate::stats::sampling::probabilities(
+            k,
+            self.realisations,
+            &identity,
+            u.sampling,
+            well_seed(u.seed, "free water level"),
+        )?;
+        for (c, col) in with_sd.into_iter().zip(p) {
+            let dist = crate::stats::dist::Dist::Normal {
+                mean: c.fwl_tvdss,
+                sd: c.fwl_sigma.unwrap_or(0.0),
+            };
+            let values = col.iter().map(|&q| dist.quantile(q)).collect();
+            self.fwl.push(FwlSamples {
+                compartment: c.name.clone(),
+                dist,
+                values,
+            });
+        }
+        Ok(())
     }
 }
 
@@ -101,6 +175,10 @@ pub struct WellUncertainty {
     /// depth, P90, P50 and P10, from each realisation's class and PHIE.
     #[serde(skip)]
     pub perm_depth: Option<[Vec<f64>; 3]>,
+    /// With `depth-percentiles` and a saturation-height model whose FWL or
+    /// classes vary: SWH at every depth, P90, P50 and P10.
+    #[serde(skip)]
+    pub swh_depth: Option<[Vec<f64>; 3]>,
 }
 
 /// The class model's permeability relations: by class, and the method.
@@ -138,16 +216,48 @@ pub fn run_well(
     samples: &Samples,
     classes: Option<&ClassEvidence>,
     perm: Option<PermModel<'_>>,
+    sat: Option<&crate::sat_height::SatHeightModel>,
 ) -> WellUncertainty {
-    let n = w.table.n_rows();
     let draws = classes.map(|ev| {
         ev.draw(
-            n,
+            w.table.n_rows(),
             samples.realisations,
             well_seed(config.uncertainty.seed, &w.name),
         )
     });
-    let draws = draws.as_deref();
+    let mut u = run_well_logs(w, names, config, samples, draws.as_deref(), perm);
+    if let Some((zones, depth)) = sat.and_then(|sat| {
+        swh_monte_carlo(
+            w,
+            names,
+            config,
+            sat,
+            samples,
+            draws.as_deref(),
+            perm.filter(|_| draws.is_some()),
+        )
+    }) {
+        for (zone, r) in zones {
+            if let Some((_, z)) = u.zones.iter_mut().find(|(name, _)| *name == zone) {
+                z.hpt_swh = Some(r);
+            }
+        }
+        u.swh_depth = depth;
+    }
+    u
+}
+
+/// The Monte Carlo of the logs' interpretation (VSH, PHIE, SW and the zone
+/// summary; see [`run_well`]).
+fn run_well_logs(
+    w: &WellOutput,
+    names: &[&str],
+    config: &Config,
+    samples: &Samples,
+    draws: Option<&[u8]>,
+    perm: Option<PermModel<'_>>,
+) -> WellUncertainty {
+    let n = w.table.n_rows();
     let depth = config.uncertainty.depth_percentiles;
     // PERM per depth needs drawn classes: with the run's classes it would not vary
     let perm = perm.filter(|_| depth && draws.is_some());
@@ -247,6 +357,7 @@ fn ranges(per_zone: &[(String, Vec<[f64; 4]>)]) -> WellUncertainty {
                         phie_avg: Range::of(&pick(rows, 1)),
                         sw_avg: Range::of(&pick(rows, 2)),
                         hpt: Range::of(&pick(rows, 3)),
+                        hpt_swh: None,
                     },
                 )
             })
@@ -254,6 +365,7 @@ fn ranges(per_zone: &[(String, Vec<[f64; 4]>)]) -> WellUncertainty {
         hpt: per_zone.iter().map(|(_, rows)| pick(rows, 3)).collect(),
         sw_depth: None,
         perm_depth: None,
+        swh_depth: None,
     }
 }
 
@@ -400,6 +512,101 @@ pub fn run_well_chain(
         u.perm_depth = Some(depth_percentiles(&perm_all, realisations));
     }
     u
+}
+
+/// Per zone the range of HPT from SWH, and SWH's P90, P50 and P10 per depth.
+type SwhRanges = (Vec<(String, Range)>, Option<[Vec<f64>; 3]>);
+
+/// The saturation-height side of the Monte Carlo: SWH at every depth in
+/// every realisation, from the well's compartment's FWL in that realisation
+/// ([`Samples::fwl`]; its FWL when not sampled) and the realisation's classes
+/// (`draws`) with their permeability (`perm`, else the run's PERM), at the
+/// run's PHIE; the same function as the run's SWH
+/// ([`crate::sat_height::SatHeightModel::swh`]). Returns per zone the range
+/// of the HPT the zone summary gives with SWH in SW's place, and with
+/// `depth-percentiles` SWH's P90, P50 and P10 per depth. `None` when neither
+/// the FWL nor the classes vary, or the well is in no compartment.
+fn swh_monte_carlo(
+    w: &WellOutput,
+    names: &[&str],
+    config: &Config,
+    sat: &crate::sat_height::SatHeightModel,
+    samples: &Samples,
+    draws: Option<&[u8]>,
+    perm: Option<PermModel<'_>>,
+) -> Option<SwhRanges> {
+    let comp = sat.compartment(names)?;
+    let fwl = samples
+        .fwl
+        .iter()
+        .find(|f| f.compartment == comp.name)
+        .map(|f| f.values.as_slice());
+    if fwl.is_none() && draws.is_none() {
+        return None;
+    }
+    let t = &w.table;
+    let n = t.n_rows();
+    let nan = vec![f64::NAN; n];
+    let get = |c: Col| t.get(c).unwrap_or(&nan);
+    let (md, tvdss, vsh, phie, sw) = (
+        get(Col::Depth),
+        get(Col::Tvdss),
+        get(Col::Vsh),
+        get(Col::Phie),
+        get(Col::Sw),
+    );
+    let (det_class, det_perm) = (get(Col::Class), get(Col::Perm));
+    let to_m = config
+        .project
+        .depth_unit
+        .factor_to(crate::units::DepthUnit::Metre);
+    let drho = comp.rho_water_gcc - comp.rho_hc_gcc;
+    let rr = samples.realisations;
+    let keep = config.uncertainty.depth_percentiles;
+    let mut all = if keep {
+        vec![f64::NAN; n * rr]
+    } else {
+        Vec::new()
+    };
+    let zone_names: Vec<String> = w.report.zones.iter().map(|z| z.name.clone()).collect();
+    let mut hpt: Vec<(String, Vec<f64>)> = Vec::new();
+    let mut swh = vec![f64::NAN; n];
+    for r in 0..rr {
+        let level = fwl.map_or(comp.fwl_tvdss, |v| v[r]);
+        let class = class_column(det_class, draws, r);
+        for i in 0..n {
+            swh[i] = if sw[i].is_finite() {
+                let k = perm.map_or(det_perm[i], |pm| pm.at(class[i], phie[i]));
+                sat.swh((level - tvdss[i]) * to_m, class[i], k, phie[i], drho)
+            } else {
+                f64::NAN
+            };
+        }
+        if keep {
+            for (i, v) in swh.iter().enumerate() {
+                all[i * rr + r] = *v;
+            }
+        }
+        let zones = crate::well::summary::zone_summary(
+            &w.name,
+            md,
+            &w.zone_of,
+            &zone_names,
+            vsh,
+            phie,
+            &swh,
+            &class,
+            &config.summary,
+        );
+        for z in zones {
+            match hpt.iter_mut().find(|(name, _)| *name == z.zone) {
+                Some((_, v)) => v.push(z.hpt),
+                None => hpt.push((z.zone, vec![z.hpt])),
+            }
+        }
+    }
+    let ranges = hpt.into_iter().map(|(z, v)| (z, Range::of(&v))).collect();
+    Some((ranges, keep.then(|| depth_percentiles(&all, rr))))
 }
 
 /// One driver of a zone's field-wide HPT: a variable and the Spearman rank

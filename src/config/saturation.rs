@@ -77,6 +77,11 @@ pub struct CompartmentConfig {
     /// Free water level set directly, TVDSS in the project depth unit. It
     /// wins over the pressure fit, which is still reported.
     pub fwl_tvdss: Option<f64>,
+    /// One standard deviation of the free water level for the Monte Carlo
+    /// ([`crate::uncertainty`]), project depth unit. Absent: the pressure
+    /// fit's standard error when the FWL comes from pressures; a FWL set by
+    /// `fwl-tvdss` without it is held exact.
+    pub fwl_sd: Option<f64>,
     /// Depth (TVDSS, project depth unit) separating the hydrocarbon leg
     /// (at or above) from the water leg. Absent: the split with the least
     /// total squared residual.
@@ -223,6 +228,12 @@ pub fn validate(
             if v.is_some_and(|v| !v.is_finite()) {
                 return Err((format!("{key}.{k}"), "not a number".into()));
             }
+        }
+        if let Some(sd) = c.fwl_sd.filter(|v| !(v.is_finite() && *v >= 0.0)) {
+            return Err((
+                format!("{key}.fwl-sd"),
+                format!("{sd} must be a standard deviation: a number 0 or above"),
+            ));
         }
         for (k, v) in [
             ("rho-water-gcc", c.rho_water_gcc),
@@ -393,5 +404,29 @@ impl FluidSystem {
             "oil-brine" | "brine-oil" => Some(FluidSystem::OilBrineLab),
             _ => None,
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// `fwl-sd` is a standard deviation: a negative or non-numeric one is
+    /// refused with the compartment's key; 0 (the FWL held) is taken.
+    #[test]
+    fn fwl_sd_must_be_a_standard_deviation() {
+        let check = |text: &str| {
+            let compartments: BTreeMap<String, CompartmentConfig> =
+                toml::from_str(text).expect("compartments parse");
+            validate(None, None, &compartments, &SatHeightConfig::default(), true)
+        };
+        let (key, message) =
+            check("[Main]\nfwl-tvdss = 2085.0\nfwl-sd = -1.5\n").expect_err("negative refused");
+        assert!(key.ends_with("fwl-sd"), "{key}");
+        assert!(key.contains("Main"), "{key}");
+        assert!(message.contains("standard deviation"), "{message}");
+        assert!(check("[Main]\nfwl-tvdss = 2085.0\nfwl-sd = nan\n").is_err());
+        assert!(check("[Main]\nfwl-tvdss = 2085.0\nfwl-sd = 0.0\n").is_ok());
+        assert!(check("[Main]\nfwl-tvdss = 2085.0\nfwl-sd = 3\n").is_ok());
     }
 }

@@ -6,7 +6,7 @@
 //! realisations = 200            # default 200; 0 turns the Monte Carlo off
 //! seed = 1                      # same seed, same inputs: same results
 //! sampling = "latin-hypercube"  # or "plain"
-//! depth-percentiles = false     # true: SW_P90, SW_P50, SW_P10 in the well files
+//! depth-percentiles = false     # true: SW_, SWH_ and PERM_ P90, P50, P10 in the well files
 //! classes = "posterior"         # or "fixed": the class at each depth held
 //! [[uncertainty.correlation]]   # rank correlation of two keys, in every
 //! keys = ["archie-m", "archie-n"]   # table that gives both a distribution
@@ -34,8 +34,8 @@ pub struct UncertaintyConfig {
     /// Rank correlations between pairs of keys.
     #[serde(default)]
     pub correlation: Vec<Correlation>,
-    /// Also write SW_P90, SW_P50 and SW_P10 per depth in the well files.
-    /// Default false.
+    /// Also write SW_P90, SW_P50 and SW_P10 per depth in the well files (and
+    /// SWH's, and PERM's with drawn classes, where they vary). Default false.
     #[serde(default)]
     pub depth_percentiles: bool,
     /// The class at each depth: drawn from its posterior in every

@@ -100,16 +100,18 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
             || choose_saturation_evidence(config, sat, p, out, progress),
         )?;
     }
-    let samples = if config.variables.is_empty() {
-        None
-    } else {
-        timed(
-            &mut timings.setup,
-            "uncertainty: sampling the distributions",
-            || crate::uncertainty::Samples::draw(config),
-        )
-        .map_err(|e| Error::Usage(format!("uncertainty: {e}")))?
-    };
+    let samples = timed(
+        &mut timings.setup,
+        "uncertainty: sampling the distributions",
+        || -> Result<_, String> {
+            let mut s = crate::uncertainty::Samples::draw(config)?;
+            if let (Some(s), Some(sat)) = (s.as_mut(), sat.as_ref()) {
+                s.add_fwl(sat, config)?;
+            }
+            Ok(s)
+        },
+    )
+    .map_err(|e| Error::Usage(format!("uncertainty: {e}")))?;
     let stems = unique_stems(&files);
     Ok(FieldSetup {
         files,

@@ -60,6 +60,13 @@ pub enum Col {
     PermP50,
     /// PERM exceeded in 10 % of the realisations (the 90th percentile), mD.
     PermP10,
+    /// SWH exceeded in 90 % of the realisations (the 10th percentile), v/v:
+    /// from the sampled free water level and the drawn classes.
+    SwhP90,
+    /// SWH exceeded in half the realisations, v/v.
+    SwhP50,
+    /// SWH exceeded in 10 % of the realisations (the 90th percentile), v/v.
+    SwhP10,
     /// The contact audit's kind of the step at this depth.
     Contact,
     /// An input curve, converted to its canonical unit.
@@ -92,6 +99,9 @@ impl Col {
             Col::PermP90 => "PERM_P90",
             Col::PermP50 => "PERM_P50",
             Col::PermP10 => "PERM_P10",
+            Col::SwhP90 => "SWH_P90",
+            Col::SwhP50 => "SWH_P50",
+            Col::SwhP10 => "SWH_P10",
             Col::Contact => "CONTACT",
             Col::Input(c) => c.output_mnemonic(),
         }
@@ -114,7 +124,10 @@ impl Col {
             | Col::SwResid
             | Col::SwP90
             | Col::SwP50
-            | Col::SwP10 => "V/V",
+            | Col::SwP10
+            | Col::SwhP90
+            | Col::SwhP50
+            | Col::SwhP10 => "V/V",
             Col::Perm | Col::PermP90 | Col::PermP50 | Col::PermP10 => "MD",
             Col::PermSd => "LOG10(MD)",
             Col::Flag | Col::Class | Col::Contact => "",
@@ -147,6 +160,9 @@ impl Col {
             Col::PermP90 => "PERM EXCEEDED IN 90 PCT OF REALISATIONS, DRAWN CLASSES",
             Col::PermP50 => "PERM EXCEEDED IN 50 PCT OF REALISATIONS, DRAWN CLASSES",
             Col::PermP10 => "PERM EXCEEDED IN 10 PCT OF REALISATIONS, DRAWN CLASSES",
+            Col::SwhP90 => "SWH EXCEEDED IN 90 PCT OF REALISATIONS, SAMPLED FWL",
+            Col::SwhP50 => "SWH EXCEEDED IN 50 PCT OF REALISATIONS, SAMPLED FWL",
+            Col::SwhP10 => "SWH EXCEEDED IN 10 PCT OF REALISATIONS, SAMPLED FWL",
             Col::Contact => {
                 "SATURATION STEP BELOW: 1 ROCK QUALITY 2 FLUID CONTACT 3 UNEXPLAINED 4 FLAGGED"
             }
@@ -248,6 +264,9 @@ mod tests {
             Col::PermP90,
             Col::PermP50,
             Col::PermP10,
+            Col::SwhP90,
+            Col::SwhP50,
+            Col::SwhP10,
             Col::Contact,
         ];
         let mut names: Vec<&str> = all.iter().map(|c| c.name()).collect();

@@ -281,7 +281,7 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
         let w = crate::pipeline::run_well(path, &bytes, &models, &mut times).expect("well runs");
         let stem = crate::well::stem_of(path);
         let names = [w.well.name.as_str(), stem.as_str()];
-        let a = super::run_well(&w.well, &names, &config, samples, None, None);
+        let a = super::run_well(&w.well, &names, &config, samples, None, None, None);
         assert!(super::fast::FastWell::prepare(&w.well, &names, &config).is_some());
         fast_wells += 1;
         let b = super::run_well_chain(&w.well, &names, &config, samples, None, None);
@@ -345,4 +345,114 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
         assert!(a.zones.iter().any(|(_, r)| r.hpt.p10 > r.hpt.p90));
     }
     assert_eq!(fast_wells, 4);
+}
+
+/// The free water level's spread reaches SWH as a monotone transform:
+/// SWH falls as the height above the FWL grows, so with only the FWL
+/// varying (classes held), SWH's P90 at a depth (its low case, 10th
+/// percentile) is the SWH at the FWL's 90th percentile, and its P10 the SWH
+/// at the FWL's 10th. The sampled FWL itself is normal with the config's
+/// `fwl-sd`: its 10th and 90th percentiles sit 1.2816 sd either side of
+/// the mean (standard normal table, e.g. Abramowitz & Stegun 1964, table
+/// 26.1). And HPT with SWH grows with the FWL: its P90 ≤ P50 ≤ P10.
+#[test]
+fn swh_percentiles_follow_the_sampled_free_water_level() {
+    use crate::output::schema::Col;
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
+    let dir = tempfile::tempdir().expect("temp dir");
+    let text = std::fs::read_to_string(root.join("config/demo-field.toml")).expect("config");
+    let text = text
+        .replace(
+            "\"../demo-wells",
+            &format!("\"{}", root.join("demo-wells").display()),
+        )
+        .replace(
+            "[compartments.\"Main\"]",
+            "[compartments.\"Main\"]\nfwl-sd = 2.0",
+        );
+    let cfg_path = dir.path().join("field.toml");
+    std::fs::write(&cfg_path, text).expect("write config");
+    let mut config = crate::config::Config::load(&cfg_path).expect("config loads");
+    config.uncertainty.depth_percentiles = true;
+    config.uncertainty.classes = crate::config::uncertainty::ClassDraws::Fixed;
+    let setup =
+        crate::field::setup::prepare(&config, &dir.path().join("out"), false).expect("setup");
+    let models = setup.models();
+    let samples = models.samples.expect("sampled");
+    let sat = models.sat.expect("saturation-height model");
+    let main = samples
+        .fwl
+        .iter()
+        .find(|f| f.compartment == "Main")
+        .expect("Main's FWL sampled");
+    let crate::stats::dist::Dist::Normal { mean, sd } = main.dist else {
+        panic!("normal")
+    };
+    assert_eq!(sd, 2.0, "the config's fwl-sd wins over the fit's");
+    let mut fwl = main.values.clone();
+    fwl.sort_by(f64::total_cmp);
+    let (lo, hi) = (
+        crate::stats::quantile_sorted(&fwl, 0.10),
+        crate::stats::quantile_sorted(&fwl, 0.90),
+    );
+    // 200 Latin hypercube strata: a sample percentile sits within a stratum
+    // (0.005 in probability, 0.03 sd at z = 1.28) of the normal quantile
+    assert!((lo - (mean - 1.2816 * sd)).abs() < 0.05 * sd, "{lo}");
+    assert!((hi - (mean + 1.2816 * sd)).abs() < 0.05 * sd, "{hi}");
+    let path = setup
+        .files
+        .iter()
+        .find(|p| p.to_string_lossy().contains("tarnby-1"))
+        .expect("Tarnby-1");
+    let bytes = std::fs::read(path).expect("well");
+    let mut times = crate::timings::StageTimes::default();
+    let w = crate::pipeline::run_well(path, &bytes, &models, &mut times).expect("well runs");
+    let t = &w.well.table;
+    let get = |c: Col| t.get(c).expect("column");
+    let (tvdss, class, perm, phie) = (
+        get(Col::Tvdss),
+        get(Col::Class),
+        get(Col::Perm),
+        get(Col::Phie),
+    );
+    let (p90, p50, p10) = (get(Col::SwhP90), get(Col::SwhP50), get(Col::SwhP10));
+    let comp = sat.compartment(&["Tarnby-1"]).expect("in Main");
+    let drho = comp.rho_water_gcc - comp.rho_hc_gcc;
+    let swh_at = |level: f64, i: usize| sat.swh(level - tvdss[i], class[i], perm[i], phie[i], drho);
+    let mut checked = 0;
+    for i in 0..t.n_rows() {
+        if !p50[i].is_finite() || swh_at(hi, i).is_nan() || swh_at(hi, i) >= 0.999 {
+            continue;
+        }
+        checked += 1;
+        // order statistics interpolate: a monotone curve's value between two
+        // neighbouring FWLs, so within the SWH change over a 0.1 sd step
+        let step = (swh_at(lo - 0.1 * sd, i) - swh_at(lo + 0.1 * sd, i)).abs()
+            + (swh_at(hi - 0.1 * sd, i) - swh_at(hi + 0.1 * sd, i)).abs();
+        assert!(
+            (p90[i] - swh_at(hi, i)).abs() <= step + 1e-9,
+            "depth {i}: P90 {} vs {}",
+            p90[i],
+            swh_at(hi, i)
+        );
+        assert!(
+            (p10[i] - swh_at(lo, i)).abs() <= step + 1e-9,
+            "depth {i}: P10 {} vs {}",
+            p10[i],
+            swh_at(lo, i)
+        );
+        assert!(p90[i] <= p50[i] && p50[i] <= p10[i], "depth {i}");
+    }
+    assert!(checked > 100, "{checked} depths checked");
+    let ranges: Vec<_> = w
+        .zones
+        .iter()
+        .filter_map(|z| z.uncertainty.as_ref().and_then(|u| u.hpt_swh))
+        .collect();
+    assert!(!ranges.is_empty());
+    assert!(ranges.iter().all(|r| r.p90 <= r.p50 && r.p50 <= r.p10));
+    assert!(
+        ranges.iter().any(|r| r.p10 > r.p90),
+        "the FWL's spread moves HPT from SWH"
+    );
 }

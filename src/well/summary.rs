@@ -175,6 +175,12 @@ pub struct ZoneRanges {
     pub sw_avg: Range,
     /// Hydrocarbon pore thickness, depth unit.
     pub hpt: Range,
+    /// Hydrocarbon pore thickness with the saturation-height model's SWH in
+    /// SW's place (the same cutoffs), depth unit: over the sampled free
+    /// water level and the drawn classes; `None` without a
+    /// saturation-height model or when neither varies.
+    #[serde(default)]
+    pub hpt_swh: Option<Range>,
 }
 
 /// Running sums of one zone.
@@ -367,6 +373,25 @@ pub fn write(
                     })
                     .collect();
                 columns.push(Column::new(format!("{q}_{stat}").into(), values));
+            }
+        }
+        // HPT from the saturation-height model, when its FWL or classes vary
+        if rows
+            .iter()
+            .any(|r| r.uncertainty.as_ref().is_some_and(|u| u.hpt_swh.is_some()))
+        {
+            for (stat, pick) in stats {
+                let values: Vec<Option<f64>> = rows
+                    .iter()
+                    .map(|r| {
+                        r.uncertainty
+                            .as_ref()
+                            .and_then(|u| u.hpt_swh.as_ref())
+                            .map(pick)
+                            .filter(|v| v.is_finite())
+                    })
+                    .collect();
+                columns.push(Column::new(format!("HPT_SWH_{stat}").into(), values));
             }
         }
     }

@@ -15,7 +15,15 @@ fn demo_zone_summary_has_ordered_low_best_high_and_ranked_drivers() {
     let summary = run_summary(&cfg, &out);
     let u = &summary["uncertainty"];
     assert_eq!(u["realisations"], 200);
-    assert_eq!(u["variables"].as_array().expect("variables").len(), 13);
+    // 13 parameters, and each compartment's FWL with the pressure fit's
+    // standard error
+    let vars = u["variables"].as_array().expect("variables");
+    assert_eq!(vars.len(), 15);
+    for c in ["East", "Main"] {
+        let name = format!("compartments.{c}.fwl-tvdss");
+        let fwl = vars.iter().find(|v| v[0] == name.as_str()).expect("FWL");
+        assert!(fwl[1]["normal"]["sd"].as_f64().expect("sd") > 0.0, "{fwl}");
+    }
     let (h, rows) = read_table(&out.join("field/zone-summary.csv"));
     let (pay, hpt) = (col(&h, "NET_PAY"), col(&h, "HPT"));
     let q = |name: &str| col(&h, name);
@@ -25,7 +33,7 @@ fn demo_zone_summary_has_ordered_low_best_high_and_ranked_drivers() {
             continue;
         }
         pay_zones += 1;
-        for what in ["NET_PAY", "HPT", "PHIE_AVG_VV", "SW_AVG_VV"] {
+        for what in ["NET_PAY", "HPT", "PHIE_AVG_VV", "SW_AVG_VV", "HPT_SWH"] {
             let (p90, p50, p10) = (
                 num(&r[q(&format!("{what}_P90"))]),
                 num(&r[q(&format!("{what}_P50"))]),
@@ -140,6 +148,19 @@ fn depth_percentiles_are_written_beside_sw_on_request() {
     }
     assert!(classed > 300, "{classed} classed depths");
     assert!(wide > 0, "the class draws give some depth a PERM range");
+    // and SWH's beside SWH, from the sampled FWL and the drawn classes
+    let swh = col(&h, "SWH");
+    assert_eq!(&h[swh + 1..swh + 4], ["SWH_P90", "SWH_P50", "SWH_P10"]);
+    let mut defined = 0;
+    for r in &rows {
+        let (p90, p50, p10) = (num(&r[swh + 1]), num(&r[swh + 2]), num(&r[swh + 3]));
+        if p50.is_nan() {
+            continue;
+        }
+        defined += 1;
+        assert!(p90 <= p50 && p50 <= p10 && p10 <= 1.0, "{r:?}");
+    }
+    assert!(defined > 300, "{defined} depths with SWH percentiles");
 }
 
 /// Drawing each depth's class from its posterior (the default) changes the

@@ -579,7 +579,7 @@ pub(super) fn fwl_legend(s: &mut Svg, x0: f64, mut y: f64, r: f64) -> f64 {
         y,
         Stroke::dashed(palette::BLUE, 1.5, "8 4"),
     );
-    text(s, y, "compartment FWL ± 1 s.e.");
+    text(s, y, "compartment FWL ± 1 sd");
     y += 20.0;
     for flagged in [false, true] {
         let (col, shape) = agreement_mark(flagged);
