@@ -387,6 +387,8 @@ fn cmd_run(
         timings,
     } = flags;
     let config = Config::load(config_path)?;
+    // a missing input is refused before the output folder is touched
+    config.check_inputs_exist(true)?;
     let out = out_dir(&config, out)?;
     let marker = match shard {
         Some(spec) => crate::field::shard::state_path(spec),
@@ -438,6 +440,7 @@ fn cmd_merge(
     overwrite: bool,
 ) -> Result<(), Error> {
     let config = Config::load(config_path)?;
+    config.check_inputs_exist(true)?;
     let out = out_dir(&config, out)?;
     field::safety::check_previous(
         &out,
@@ -461,9 +464,9 @@ fn cmd_class_stage(
             "the config has no [classes] section: which scheme should the model predict?".into(),
         ));
     }
+    config.check_inputs_exist(mode == Mode::Run)?;
     let files = config.well_files()?;
-    let inputs = config.input_paths();
-    field::safety::check_out_dir(out, &inputs)?;
+    field::safety::check_out_dir(out, &config.input_folders())?;
     let ctx = crate::well::RunContext::new(config)?;
     let mut prepared = crate::classes::stage::prepare(&ctx, &files, out, mode, !quiet)?;
     // training also scores the saturation-height evidence when the config

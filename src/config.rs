@@ -40,6 +40,32 @@ pub enum ConfigError {
         #[source]
         source: std::io::Error,
     },
+    /// An input the config names is not there.
+    #[error(
+        "config `{}`: key `{key}`: `{}` does not exist (resolved from the config's folder: `{}`)",
+        .path.display(), .written.display(), .resolved.display()
+    )]
+    MissingInput {
+        /// The config file.
+        path: PathBuf,
+        /// The full key (`input.wells`, `core.file`, `depth.well."W-1".survey`).
+        key: String,
+        /// The path as written in the config.
+        written: PathBuf,
+        /// The path the run looked for.
+        resolved: PathBuf,
+    },
+    /// A folder of `[input] wells` cannot be listed.
+    #[error("config `{}`: key `input.wells`: cannot list folder `{}`", .path.display(), .folder.display())]
+    ReadFolder {
+        /// The config file.
+        path: PathBuf,
+        /// The folder, as resolved.
+        folder: PathBuf,
+        /// The error.
+        #[source]
+        source: std::io::Error,
+    },
     /// The text is not valid TOML or does not fit the config's keys and types.
     #[error("config `{}`", .path.display())]
     Parse {
@@ -422,13 +448,73 @@ impl Config {
         }
     }
 
-    /// `[input] wells` as given (files or folders), anchored at the config's folder.
-    pub fn input_paths(&self) -> Vec<PathBuf> {
+    /// The folders of `[input] wells`: (as written, as resolved). A run's
+    /// output folder may not be inside one (the next run would read its LAS
+    /// outputs as wells).
+    pub fn input_folders(&self) -> Vec<(PathBuf, PathBuf)> {
         self.input
             .wells
             .iter()
-            .map(|p| self.resolve_path(p))
+            .map(|p| (p.clone(), self.resolve_path(p)))
+            .filter(|(_, r)| r.is_dir())
             .collect()
+    }
+
+    /// Every input path the config names and a run reads: (full key, as
+    /// written). Wells files and folders, tops, surveys, core, capillary,
+    /// pressures, and, with `model`, the class model when a run would load
+    /// it (`train` writes it instead).
+    pub fn named_inputs(&self, model: bool) -> Vec<(String, PathBuf)> {
+        let mut v: Vec<(String, PathBuf)> = self
+            .input
+            .wells
+            .iter()
+            .map(|p| ("input.wells".to_string(), p.clone()))
+            .collect();
+        if let Some(p) = &self.zones.tops {
+            v.push(("zones.tops".into(), p.clone()));
+        }
+        for (name, w) in &self.depth.well {
+            if let Some(p) = &w.survey {
+                v.push((format!("depth.well.\"{name}\".survey"), p.clone()));
+            }
+        }
+        if let Some(c) = &self.core {
+            v.push(("core.file".into(), c.file.clone()));
+        }
+        if let Some(c) = &self.capillary {
+            v.push(("capillary.file".into(), c.file.clone()));
+        }
+        if let Some(p) = &self.pressures {
+            v.push(("pressures.file".into(), p.file.clone()));
+        }
+        let loads_model =
+            model && self.classes.is_some() && (self.predictor.is_some() || self.core.is_some());
+        if let Some(m) = self.predictor.as_ref().and_then(|p| p.model.as_ref()) {
+            if loads_model {
+                v.push(("predictor.model".into(), m.clone()));
+            }
+        }
+        v
+    }
+
+    /// Refuse the first input of [`Config::named_inputs`] that does not
+    /// exist, with its key and its path as written and as resolved: before
+    /// a run writes anything.
+    pub fn check_inputs_exist(&self, model: bool) -> Result<(), ConfigError> {
+        for (key, written) in self.named_inputs(model) {
+            let resolved = self.resolve_path(&written);
+            // `metadata` follows links: a broken link is missing too
+            if std::fs::metadata(&resolved).is_err() {
+                return Err(ConfigError::MissingInput {
+                    path: self.source.clone(),
+                    key,
+                    written,
+                    resolved,
+                });
+            }
+        }
+        Ok(())
     }
 
     /// The alias table for curve resolution.
@@ -445,13 +531,15 @@ impl Config {
         for entry in &self.input.wells {
             let p = self.resolve_path(entry);
             if p.is_dir() {
-                let dir = std::fs::read_dir(&p).map_err(|source| ConfigError::Io {
-                    path: p.clone(),
+                let dir = std::fs::read_dir(&p).map_err(|source| ConfigError::ReadFolder {
+                    path: self.source.clone(),
+                    folder: p.clone(),
                     source,
                 })?;
                 for e in dir {
-                    let e = e.map_err(|source| ConfigError::Io {
-                        path: p.clone(),
+                    let e = e.map_err(|source| ConfigError::ReadFolder {
+                        path: self.source.clone(),
+                        folder: p.clone(),
                         source,
                     })?;
                     let f = e.path();

@@ -95,9 +95,58 @@ fn uncertainty_summary(
     })
 }
 
+/// A run's view of its output folder: the files the folder's previous run
+/// listed (to remove the ones this run does not write again), and the
+/// files this run writes.
+pub struct Rerun {
+    /// The previous run's files, from its manifest; `None` without one.
+    pub previous: Option<Vec<String>>,
+    /// A previous manifest that lists no files (an older flowzone).
+    pub unlisted: bool,
+    /// The files this run writes, as it writes them.
+    pub tracking: output::written::Tracking,
+    /// Files in the folder that belong to this run's result though this
+    /// process did not write them (a merge: the shards' outputs and states).
+    pub also: Vec<String>,
+}
+
+impl Rerun {
+    /// Read the previous run's listing from `out`'s manifest and start
+    /// tracking the files written under `out`: before anything is written.
+    pub fn start(out: &Path) -> Rerun {
+        let (previous, unlisted) = previous_listing(&out.join(safety::FINISHED_MARKER));
+        Rerun {
+            previous,
+            unlisted,
+            tracking: output::written::track(out),
+            also: Vec::new(),
+        }
+    }
+}
+
+/// The `outputs` of a manifest: `(None, false)` without a manifest,
+/// `(None, true)` for a manifest without the list (or unreadable).
+fn previous_listing(manifest: &Path) -> (Option<Vec<String>>, bool) {
+    let Ok(text) = std::fs::read_to_string(manifest) else {
+        return (None, false);
+    };
+    let listed = serde_json::from_str::<serde_json::Value>(&text)
+        .ok()
+        .and_then(|v| {
+            v.get("outputs")?
+                .as_array()?
+                .iter()
+                .map(|x| x.as_str().map(str::to_string))
+                .collect::<Option<Vec<String>>>()
+        });
+    let unlisted = listed.is_none();
+    (listed, unlisted)
+}
+
 /// Run every well of the config into `out`.
 pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Error> {
     let started = std::time::SystemTime::now();
+    let rerun = Rerun::start(out);
     // a killed run's temporary files (never in shard runs, which may share
     // the folder with shards still writing)
     output::remove_stale_partials(out);
@@ -107,7 +156,15 @@ pub fn run(config: &Config, out: &Path, progress: bool) -> Result<RunSummary, Er
     let wells_start = std::time::Instant::now();
     let reports = process_wells(&setup, &all, out, &journal, progress)?;
     setup.timings.wells_wall_seconds = wells_start.elapsed().as_secs_f64();
-    let summary = finish(config, out, setup, reports, started, Vec::new(), progress)?;
+    let summary = finish(
+        config,
+        out,
+        setup,
+        reports,
+        (started, Vec::new()),
+        rerun,
+        progress,
+    )?;
     // the summary is written: the journal of a run in progress goes
     let _ = std::fs::remove_file(&journal);
     Ok(summary)
@@ -153,7 +210,10 @@ pub fn process_wells(
         .par_iter()
         .map(|&i| {
             let path = &setup.files[i];
-            let report = one_well(path, &setup.stems[i], &models, out);
+            let mut report = one_well(path, &setup.stems[i], &models, out);
+            if let Some(n) = &setup.stem_notes[i] {
+                report.warnings.push(n.clone());
+            }
             journal.finished(&report);
             let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
             let status = if report.ok { "ok" } else { "FAILED" };
@@ -190,8 +250,11 @@ pub fn finish(
     out: &Path,
     mut setup: FieldSetup,
     mut reports: Vec<WellReport>,
-    started: std::time::SystemTime,
-    shards: Vec<crate::output::manifest::ShardRun>,
+    (started, shards): (
+        std::time::SystemTime,
+        Vec<crate::output::manifest::ShardRun>,
+    ),
+    rerun: Rerun,
     progress: bool,
 ) -> Result<RunSummary, Error> {
     let total = setup.files.len();
@@ -282,8 +345,34 @@ pub fn finish(
         timings,
     };
     manifest.timings = summary.timings.clone();
-    write_json(&out.join("run-manifest.json"), &manifest)?;
     write_json(&out.join("run-summary.json"), &summary)?;
+    // the folder as a fresh run would leave it: the previous run's files
+    // this run did not write go, then the manifest (the mark of a finished
+    // run) lists this run's files
+    let mut outputs = rerun.tracking.files();
+    outputs.extend(rerun.also);
+    outputs.sort();
+    outputs.dedup();
+    let cleanup = output::written::clean_up(
+        out,
+        rerun.previous.as_deref(),
+        &outputs,
+        &[safety::FINISHED_MARKER, PROGRESS_FILE],
+        true,
+    );
+    manifest.outputs = outputs;
+    write_json(&out.join(safety::FINISHED_MARKER), &manifest)?;
+    if progress {
+        if rerun.unlisted {
+            note!(
+                "note: the previous run's manifest in {} lists no files (an older flowzone): files it wrote that this run did not are left",
+                out.display()
+            );
+        }
+        if let Some(n) = output::written::cleanup_note(&cleanup) {
+            note!("note: {}: {n}", out.display());
+        }
+    }
     Ok(summary)
 }
 

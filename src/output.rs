@@ -12,6 +12,7 @@ pub(crate) mod messages;
 pub(crate) mod numfmt;
 pub mod parquet;
 pub mod schema;
+pub mod written;
 
 use std::fs::File;
 use std::io::{BufWriter, Write};
@@ -226,6 +227,7 @@ pub fn remove_stale_partials(out: &Path) {
         "field/curves",
         "report",
         "report/wells",
+        "report/field",
         "saturation",
         "core",
         "model",
@@ -257,7 +259,8 @@ pub fn write_json<T: serde::Serialize>(path: &Path, value: &T) -> Result<(), Out
     })
 }
 
-/// Write `path` through a temporary file in the same folder, renamed when done.
+/// Write `path` through a temporary file in the same folder: written,
+/// synced to the disk, renamed into place, and the folder synced.
 pub fn write_atomic(
     path: &Path,
     write: impl FnOnce(&mut BufWriter<File>) -> Result<(), OutputError>,
@@ -277,17 +280,41 @@ pub fn write_atomic(
     let tmp = dir.join(format!(".{name}.partial-{}", temp_tag()));
     let file = File::create(&tmp).map_err(io)?;
     let mut out = BufWriter::new(file);
-    let result = write(&mut out).and_then(|()| out.flush().map_err(io));
+    // the bytes reach the disk before the name points at them, and the
+    // rename reaches it before the write is reported done: after a power
+    // loss a final name holds the old file or the whole new one
+    let result = write(&mut out)
+        .and_then(|()| out.flush().map_err(io))
+        .and_then(|()| out.get_ref().sync_all().map_err(io));
     match result {
         Ok(()) => {
             drop(out);
-            std::fs::rename(&tmp, path).map_err(io)
+            std::fs::rename(&tmp, path).map_err(io)?;
+            sync_dir(dir).map_err(io)?;
+            written::record(path);
+            Ok(())
         }
         Err(e) => {
             drop(out);
             let _ = std::fs::remove_file(&tmp);
             Err(e)
         }
+    }
+}
+
+/// Flush a folder's entries (a rename in it) to the disk. On Unix a folder
+/// is opened and synced like a file (fsync(2) on the directory, POSIX);
+/// Windows commits renames with the file system's journal and cannot open a
+/// folder this way, so there it does nothing.
+pub fn sync_dir(dir: &Path) -> std::io::Result<()> {
+    #[cfg(unix)]
+    {
+        File::open(dir)?.sync_all()
+    }
+    #[cfg(not(unix))]
+    {
+        let _ = dir;
+        Ok(())
     }
 }
 
@@ -475,9 +502,75 @@ pub fn file_stem(name: &str) -> String {
     if s.is_empty() { "well".into() } else { s }
 }
 
+/// A well's output file stem from its LAS file's stem, kept as the user
+/// wrote it (case, spaces, letters of any script): only what no common file
+/// system takes is replaced by `_` (control characters and
+/// `/ \ : * ? " < > |`, a leading dot, which would hide the file, and
+/// trailing dots and spaces, which Windows drops), and a Windows device
+/// name (CON, PRN, AUX, NUL, COM1-9, LPT1-9) gets a `_` after it.
+pub fn well_file_stem(stem: &str) -> String {
+    const UNSAFE: &[char] = &['/', '\\', ':', '*', '?', '"', '<', '>', '|'];
+    let mut s: String = stem
+        .trim()
+        .chars()
+        .map(|c| {
+            if c.is_control() || UNSAFE.contains(&c) {
+                '_'
+            } else {
+                c
+            }
+        })
+        .collect();
+    while s.ends_with(['.', ' ']) {
+        s.pop();
+    }
+    if s.starts_with('.') {
+        s.replace_range(..1, "_");
+    }
+    if s.is_empty() {
+        return "well".into();
+    }
+    let device = {
+        let u = s.split('.').next().unwrap_or("").to_ascii_uppercase();
+        matches!(u.as_str(), "CON" | "PRN" | "AUX" | "NUL")
+            || ((u.starts_with("COM") || u.starts_with("LPT"))
+                && u.len() == 4
+                && u.as_bytes()[3].is_ascii_digit()
+                && u.as_bytes()[3] != b'0')
+    };
+    if device {
+        s.push('_');
+    }
+    s
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Output names keep the file's stem as written; only characters file
+    /// systems refuse are replaced (the characters Windows forbids in a name
+    /// and its device names, from Microsoft's "Naming Files, Paths, and
+    /// Namespaces", from memory; `/` everywhere).
+    #[test]
+    fn well_file_stems_keep_the_name() {
+        for (given, want) in [
+            ("TB-01", "TB-01"),
+            ("Tarnby 3 (sidetrack)", "Tarnby 3 (sidetrack)"),
+            ("Brønn-7", "Brønn-7"),
+            ("A:1/2?", "A_1_2_"),
+            ("tab\there", "tab_here"),
+            (".hidden", "_hidden"),
+            ("trailing. ", "trailing"),
+            ("CON", "CON_"),
+            ("com1", "com1_"),
+            ("COM0", "COM0"),
+            ("console", "console"),
+            ("  ", "well"),
+        ] {
+            assert_eq!(well_file_stem(given), want, "{given:?}");
+        }
+    }
 
     #[test]
     fn stems() {

@@ -343,8 +343,8 @@ pub fn write_well_page(out: &Path, p: &WellPage<'_>) -> Result<Vec<String>, Outp
         })?;
         let _ = writeln!(
             h,
-            "<p><a href=\"{}-log.png\">The log plot as PNG</a></p>",
-            escape(p.stem)
+            "<p><a href=\"{}\">The log plot as PNG</a></p>",
+            svg::href(&format!("{}-log.png", p.stem))
         );
         written.push(format!("{REPORT_DIR}/wells/{}-log.png", p.stem));
     }
@@ -477,7 +477,7 @@ fn wells_section(h: &mut String, p: &FieldPage<'_>) {
             let name_cell = match &w.page {
                 Some(page) => Cell::Html(format!(
                     "<a href=\"{}\">{}</a>",
-                    escape(page),
+                    svg::href(page),
                     escape(&name)
                 )),
                 None => text(name),

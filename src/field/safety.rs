@@ -6,8 +6,11 @@ use std::path::{Path, PathBuf};
 
 use crate::error::Error;
 
-/// Where outputs go: refuse a folder that is, or is inside, an input folder.
-pub fn check_out_dir(out: &Path, inputs: &[PathBuf]) -> Result<(), Error> {
+/// Where outputs go: refuse a folder that is, or is inside, a folder of
+/// `[input] wells` (`folders`: as written in the config, as resolved), named
+/// as the user wrote it. A folder that merely holds an input file is not
+/// refused: a run never writes over its inputs ([`check_inputs_outside`]).
+pub fn check_out_dir(out: &Path, folders: &[(PathBuf, PathBuf)]) -> Result<(), Error> {
     std::fs::create_dir_all(out).map_err(|source| Error::Io {
         path: out.to_path_buf(),
         source,
@@ -16,24 +19,13 @@ pub fn check_out_dir(out: &Path, inputs: &[PathBuf]) -> Result<(), Error> {
         path: out.to_path_buf(),
         source,
     })?;
-    for input in inputs {
-        let dir = if input.is_dir() {
-            input.clone()
-        } else {
-            input
-                .parent()
-                .map_or_else(|| PathBuf::from("."), Path::to_path_buf)
-        };
-        let dir = if dir.as_os_str().is_empty() {
-            PathBuf::from(".")
-        } else {
-            dir
-        };
+    for (written, dir) in folders {
         if let Ok(d) = dir.canonicalize() {
             if out_abs.starts_with(&d) {
                 return Err(Error::Usage(format!(
-                    "output folder `{}` is inside the input folder `{}`; choose a folder outside the inputs",
+                    "output folder `{}` is inside `{}` ([input] wells, `{}`): a later run would read its LAS outputs as wells; choose a folder outside it",
                     out.display(),
+                    written.display(),
                     dir.display()
                 )));
             }
@@ -67,7 +59,8 @@ pub const FINISHED_MARKER: &str = "run-manifest.json";
 
 /// Refuse to write into a folder that already holds `marker` (a previous
 /// run's), unless `overwrite`: then files are replaced one by one, each
-/// atomically, and files of wells no longer in the run are left as they are.
+/// atomically, and at the end the files the previous run listed that this
+/// run did not write are removed ([`crate::field::Rerun`]).
 pub fn check_previous(out: &Path, marker: &Path, overwrite: bool) -> Result<(), Error> {
     let m = out.join(marker);
     if !overwrite && m.exists() {

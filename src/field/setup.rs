@@ -8,8 +8,8 @@ use std::path::{Path, PathBuf};
 use crate::config::Config;
 use crate::error::Error;
 use crate::field::safety::{check_inputs_outside, check_out_dir};
-use crate::output::file_stem;
 use crate::output::schema::Col;
+use crate::output::well_file_stem;
 use crate::pipeline::Models;
 use crate::sat_height::TvdssError;
 use crate::timings::{RunTimings, timed};
@@ -20,8 +20,11 @@ use crate::well;
 /// saturation-height model.
 pub struct FieldSetup {
     pub files: Vec<PathBuf>,
-    /// Output file stem of each file (unique within the field).
+    /// Output file stem of each file (unique within the field, also ignoring case).
     pub stems: Vec<String>,
+    /// Per file, why its output stem is not its file's stem (suffixed or
+    /// characters replaced); the well's report carries it as a warning.
+    pub stem_notes: Vec<Option<String>>,
     pub(crate) ctx: well::RunContext,
     pub(crate) prepared: Option<crate::classes::stage::Prepared>,
     pub(crate) sat: Option<crate::sat_height::SatHeightModel>,
@@ -47,11 +50,54 @@ impl FieldSetup {
         }
     }
 
-    /// The class and saturation-height models as JSON: equal for runs that
-    /// will give the same results (shards check it against the merge).
-    pub fn fingerprint(&self) -> String {
-        let classes = self.prepared.as_ref().map(|p| &p.summary);
-        serde_json::to_string(&(classes, &self.sat)).unwrap_or_default()
+    /// The identity of the run's models, equal for runs that will give the
+    /// same results (shards check it against the merge): SHA-256 over the
+    /// class model's bytes as its file saves them, and the exact binary
+    /// encoding (postcard: every float bit for bit, NaN and infinities
+    /// told apart) of the class stage's summary and of the saturation-height
+    /// model, which is saved only as a report. A model that cannot be
+    /// encoded is an error, never an empty fingerprint.
+    pub fn fingerprint(&self) -> Result<String, Error> {
+        use sha2::{Digest, Sha256};
+        let bug = |what: &str, e: String| {
+            Error::Usage(format!("cannot encode the {what} to compare shards: {e}"))
+        };
+        let mut h = Sha256::new();
+        let mut part = |label: &str, bytes: Option<Vec<u8>>| {
+            h.update(label.as_bytes());
+            match bytes {
+                Some(b) => {
+                    h.update((b.len() as u64).to_le_bytes());
+                    h.update(&b);
+                }
+                None => h.update(b"none"),
+            }
+        };
+        let model = self.prepared.as_ref().and_then(|p| p.setup.as_ref());
+        part(
+            "class model",
+            model
+                .map(|s| s.model.to_bytes())
+                .transpose()
+                .map_err(|e| bug("class model", e.to_string()))?,
+        );
+        part(
+            "class summary",
+            self.prepared
+                .as_ref()
+                .map(|p| postcard::to_allocvec(&p.summary))
+                .transpose()
+                .map_err(|e| bug("class summary", e.to_string()))?,
+        );
+        part(
+            "saturation-height model",
+            self.sat
+                .as_ref()
+                .map(postcard::to_allocvec)
+                .transpose()
+                .map_err(|e| bug("saturation-height model", e.to_string()))?,
+        );
+        Ok(crate::output::manifest::hex(&h.finalize()))
     }
 }
 
@@ -112,10 +158,11 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
         },
     )
     .map_err(|e| Error::Usage(format!("uncertainty: {e}")))?;
-    let stems = unique_stems(&files);
+    let (stems, stem_notes) = unique_stems(&files);
     Ok(FieldSetup {
         files,
         stems,
+        stem_notes,
         ctx,
         prepared,
         sat,
@@ -127,14 +174,15 @@ pub fn prepare(config: &Config, out: &Path, progress: bool) -> Result<FieldSetup
 /// The run's LAS files, checked with every other input against the output
 /// folder, and the run context (config and tables).
 fn checked_inputs(config: &Config, out: &Path) -> Result<(Vec<PathBuf>, well::RunContext), Error> {
+    // every input there, before the output folder is made
+    config.check_inputs_exist(true)?;
     let files = config.well_files()?;
     if files.is_empty() {
         return Err(Error::Usage(
             "the config names no LAS files ([input] wells)".into(),
         ));
     }
-    let inputs = config.input_paths();
-    check_out_dir(out, &inputs)?;
+    check_out_dir(out, &config.input_folders())?;
     let mut every_input = files.clone();
     every_input.extend(
         crate::output::manifest::table_inputs(config)
@@ -147,19 +195,43 @@ fn checked_inputs(config: &Config, out: &Path) -> Result<(Vec<PathBuf>, well::Ru
     Ok((files, ctx))
 }
 
-/// Each file's output stem, unique within the field.
-fn unique_stems(files: &[PathBuf]) -> Vec<String> {
-    let mut stems: Vec<String> = files.iter().map(|f| file_stem(&well::stem_of(f))).collect();
-    // two inputs with the same stem: suffix the later ones
-    for i in 1..stems.len() {
+/// Each file's output stem ([`well_file_stem`]), unique within the field
+/// also ignoring case (case-insensitive file systems): in the sorted file
+/// order the first file keeps its stem and each later one that collides
+/// with a stem already taken gets `-2`, `-3`, ... (the first suffix not
+/// taken). Returns the stems and, per file, a note when its stem was
+/// changed or suffixed.
+pub fn unique_stems(files: &[PathBuf]) -> (Vec<String>, Vec<Option<String>>) {
+    let mut stems: Vec<String> = Vec::with_capacity(files.len());
+    let mut notes = Vec::with_capacity(files.len());
+    let mut taken: std::collections::HashMap<String, usize> = std::collections::HashMap::new();
+    for (i, f) in files.iter().enumerate() {
+        let written = well::stem_of(f);
+        let base = well_file_stem(&written);
+        let mut stem = base.clone();
         let mut k = 1;
-        let base = stems[i].clone();
-        while stems[..i].contains(&stems[i]) {
+        while taken.contains_key(&stem.to_lowercase()) {
             k += 1;
-            stems[i] = format!("{base}-{k}");
+            stem = format!("{base}-{k}");
         }
+        let note = match (k > 1, stem != written) {
+            (true, _) => {
+                let other = taken[&base.to_lowercase()];
+                Some(format!(
+                    "output files named `{stem}`: `{base}` (ignoring case) is taken by `{}`",
+                    files[other].display()
+                ))
+            }
+            (false, true) => Some(format!(
+                "output files named `{stem}`: characters file systems refuse in `{written}` replaced"
+            )),
+            (false, false) => None,
+        };
+        taken.insert(stem.to_lowercase(), i);
+        stems.push(stem);
+        notes.push(note);
     }
-    stems
+    (stems, notes)
 }
 
 /// A well's (MD, TVDSS) columns, or why there are none.
@@ -328,4 +400,73 @@ pub fn choose_saturation_evidence(
         crate::classes::stage::write_training_report(setup, &prepared.summary, out)?;
     }
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn demo_setup(dir: &Path, edit: impl Fn(String) -> String) -> FieldSetup {
+        let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+        let text = std::fs::read_to_string(root.join("config/demo-field.toml")).expect("config");
+        let text = edit(text.replace(
+            "\"../demo-wells",
+            &format!("\"{}", root.join("demo-wells").display()),
+        ));
+        let cfg = dir.join("field.toml");
+        std::fs::write(&cfg, text).expect("write config");
+        let config = Config::load(&cfg).expect("config loads");
+        prepare(&config, &dir.join("out"), false).expect("setup")
+    }
+
+    /// Shards compare models by a SHA-256 of their exact bytes (never an
+    /// empty text): the same inputs give the same fingerprint, and a fluid
+    /// density changed in its tenth decimal gives another.
+    #[test]
+    fn fingerprints_tell_models_apart_by_their_bytes() {
+        let dirs: Vec<_> = (0..3)
+            .map(|_| tempfile::tempdir().expect("temp dir"))
+            .collect();
+        let densities = |w: &'static str| {
+            move |t: String| {
+                t.replace(
+                    "[compartments.\"Main\"]",
+                    &format!("[compartments.\"Main\"]\nrho-water-gcc = {w}\nrho-hc-gcc = 0.78"),
+                )
+            }
+        };
+        let a = demo_setup(dirs[0].path(), densities("1.07"))
+            .fingerprint()
+            .expect("fingerprint");
+        let b = demo_setup(dirs[1].path(), densities("1.07"))
+            .fingerprint()
+            .expect("fingerprint");
+        let c = demo_setup(dirs[2].path(), densities("1.0700000001"))
+            .fingerprint()
+            .expect("fingerprint");
+        assert_eq!(a.len(), 64);
+        assert!(a.bytes().all(|b| b.is_ascii_hexdigit()));
+        assert_eq!(a, b);
+        assert_ne!(a, c);
+    }
+
+    /// Stems are unique ignoring case, the first in sorted order keeps its
+    /// own, and each change is said.
+    #[test]
+    fn stems_are_unique_ignoring_case() {
+        let files: Vec<PathBuf> = ["a/TB-01.las", "a/x:y.las", "b/tb-01.las", "c/TB-01.LAS"]
+            .iter()
+            .map(PathBuf::from)
+            .collect();
+        let (stems, notes) = unique_stems(&files);
+        assert_eq!(stems, ["TB-01", "x_y", "tb-01-2", "TB-01-3"]);
+        assert!(notes[0].is_none());
+        assert!(notes[1].as_deref().is_some_and(|n| n.contains("replaced")));
+        assert!(
+            notes[2]
+                .as_deref()
+                .is_some_and(|n| n.contains("a/TB-01.las"))
+        );
+        assert!(notes[3].is_some());
+    }
 }

@@ -195,6 +195,8 @@ pub fn run_shard(
     progress: bool,
 ) -> Result<ShardOutcome, Error> {
     let started = SystemTime::now();
+    // this shard's previous state, when rerun into the same folder
+    let previous = read_state(&out.join(state_path(spec))).ok();
     let setup = field::setup::prepare(config, out, progress)?;
     let files = file_list(&setup.files);
     let sizes: Vec<u64> = files.iter().map(|(_, b)| *b).collect();
@@ -242,13 +244,35 @@ pub fn run_shard(
         run: run.clone(),
         files,
         config_sha256: config_sha(config),
-        fingerprint: setup.fingerprint(),
+        fingerprint: setup.fingerprint()?,
         reports: indices.into_iter().zip(reports).collect(),
         views,
     };
     let path = dir.join(state_name(spec));
     write_state(&path, &state)?;
     let _ = std::fs::remove_file(&journal);
+    // the previous run of this shard wrote wells that are no longer in the
+    // field: their files go (not those of wells now in another shard, which
+    // that shard writes, perhaps at this moment into the same folder)
+    if let Some(prev) = previous {
+        let now: Vec<String> = state
+            .reports
+            .iter()
+            .flat_map(|(_, r)| r.outputs.iter().cloned())
+            .collect();
+        let gone: Vec<String> = prev
+            .reports
+            .iter()
+            .filter(|(_, r)| !state.files.iter().any(|(f, _)| *f == r.file))
+            .flat_map(|(_, r)| r.outputs.iter().cloned())
+            .collect();
+        let c = output::written::clean_up(out, Some(&gone), &now, &[], false);
+        if progress {
+            if let Some(n) = output::written::cleanup_note(&c) {
+                note!("note: shard {spec}: {n}");
+            }
+        }
+    }
     Ok(ShardOutcome {
         run,
         reports: state.reports.into_iter().map(|(_, r)| r).collect(),
@@ -351,10 +375,11 @@ pub fn merge(
     dirs: &[PathBuf],
     progress: bool,
 ) -> Result<RunSummary, Error> {
+    let mut rerun = field::Rerun::start(out);
     output::remove_stale_partials(out);
     let setup = field::setup::prepare(config, out, progress)?;
     let files = file_list(&setup.files);
-    let fingerprint = setup.fingerprint();
+    let fingerprint = setup.fingerprint()?;
     let sha = config_sha(config);
     let out_abs = out.canonicalize().map_err(|source| Error::Io {
         path: out.to_path_buf(),
@@ -455,6 +480,14 @@ pub fn merge(
     let mut runs: Vec<ShardRun> = Vec::new();
     let mut started = SystemTime::now();
     for (dir, p, st) in states {
+        if dir == out_abs {
+            // a shard's state in the merge folder is part of its result
+            if let Some(name) = p.file_name() {
+                rerun
+                    .also
+                    .push(format!("{STATE_DIR}/{}", name.to_string_lossy()));
+            }
+        }
         if let Ok(t) = humantime::parse_rfc3339(&st.run.started_utc) {
             started = started.min(t);
         }
@@ -475,6 +508,8 @@ pub fn merge(
                     files[i].0
                 )));
             }
+            // in the merge folder at the end, copied or written there
+            rerun.also.extend(r.outputs.iter().cloned());
             if dir != out_abs {
                 for rel in &r.outputs {
                     let rel_path = Path::new(rel);
@@ -500,7 +535,7 @@ pub fn merge(
     if progress {
         note!("merge: {n} shards, {} wells", all.len());
     }
-    field::finish(config, out, setup, all, started, runs, progress)
+    field::finish(config, out, setup, all, (started, runs), rerun, progress)
 }
 
 #[cfg(test)]

@@ -50,6 +50,10 @@ pub struct Manifest {
     pub shards: Vec<ShardRun>,
     /// Where the time went: setup, well stages, field outputs.
     pub timings: crate::timings::RunTimings,
+    /// Every file the run wrote, relative to the output folder,
+    /// `/`-separated, sorted (the manifest itself aside): a rerun with
+    /// `--overwrite` removes the ones it does not write again.
+    pub outputs: Vec<String>,
 }
 
 /// One shard run (`run --shard K/N`) as the merge's manifest records it.
@@ -91,7 +95,7 @@ pub fn sha256_hex(bytes: &[u8]) -> String {
     hex(&Sha256::digest(bytes))
 }
 
-fn hex(digest: &[u8]) -> String {
+pub fn hex(digest: &[u8]) -> String {
     use std::fmt::Write as _;
     let mut s = String::with_capacity(2 * digest.len());
     for b in digest {
@@ -193,6 +197,7 @@ pub fn build(
         wells_failed: counts.1,
         shards: Vec::new(),
         timings: crate::timings::RunTimings::default(),
+        outputs: Vec::new(),
     }
 }
 

@@ -41,6 +41,19 @@ pub mod palette {
     }
 }
 
+/// A relative file path as a link target: every byte but letters, digits
+/// and `- _ . ~ /` percent-encoded (RFC 3986 §2; a well's file name may hold
+/// spaces, `#` or `%`), then XML-escaped for the attribute.
+pub fn href(path: &str) -> String {
+    const KEEP: &percent_encoding::AsciiSet = &percent_encoding::NON_ALPHANUMERIC
+        .remove(b'-')
+        .remove(b'_')
+        .remove(b'.')
+        .remove(b'~')
+        .remove(b'/');
+    escape(&percent_encoding::utf8_percent_encode(path, KEEP).to_string())
+}
+
 /// XML-escape text for an element body or an attribute value.
 pub fn escape(text: &str) -> String {
     let mut s = String::with_capacity(text.len());
@@ -529,6 +542,19 @@ pub fn trim_number(v: f64, decimals: usize) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Link targets are percent-encoded (RFC 3986 §2.1: `%` and two hex
+    /// digits of each UTF-8 byte).
+    #[test]
+    fn hrefs_are_percent_encoded() {
+        assert_eq!(href("wells/TB-01.html"), "wells/TB-01.html");
+        assert_eq!(
+            href("wells/Tarnby 3 #2.html"),
+            "wells/Tarnby%203%20%232.html"
+        );
+        assert_eq!(href("wells/Brønn.html"), "wells/Br%C3%B8nn.html");
+        assert_eq!(href("a%b&c"), "a%25b%26c");
+    }
 
     #[test]
     fn escaping_and_numbers() {

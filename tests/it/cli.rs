@@ -161,7 +161,8 @@ fn run_isolates_a_bad_well() {
     // the output may not be inside an input folder
     let out = run_config(&cfg, &wells.path().join("out"), &[]);
     assert_eq!(out.status.code(), Some(2));
-    assert!(String::from_utf8_lossy(&out.stderr).contains("is inside the input folder"));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("is inside `.` ([input] wells"), "{err}");
 
     let out_dir = tempfile::tempdir().expect("temp dir");
     let out = run_config(&cfg, out_dir.path(), &[]);

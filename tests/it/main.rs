@@ -38,6 +38,8 @@ mod lasio_interop;
 mod real_files;
 /// The HTML report opened by headless chromium: no console output, every plot rendered.
 mod report;
+/// Reruns into a used folder, missing inputs, output file names.
+mod reruns;
 /// Data safety: reruns, inputs never written, SIGKILL part-way.
 mod safety;
 /// Class-aware SW, J-functions, FWL per compartment and SWH on the demo field; failed fits.
