@@ -571,13 +571,32 @@ fn swh_monte_carlo(
     let zone_names: Vec<String> = w.report.zones.iter().map(|z| z.name.clone()).collect();
     let mut hpt: Vec<(String, Vec<f64>)> = Vec::new();
     let mut swh = vec![f64::NAN; n];
+    // each depth's rock in every class it may be drawn in (that class's
+    // permeability at the depth's PHIE), looked up once for all
+    // realisations: a realisation then evaluates only the height
+    let k = sat.classes.len();
+    let rocks: Vec<crate::sat_height::RockSwh<'_>> = match perm {
+        Some(pm) => (0..n)
+            .flat_map(|i| {
+                (1..=k).map(move |c| {
+                    let c = c as f64;
+                    sat.rock(c, pm.at(c, phie[i]), phie[i])
+                })
+            })
+            .collect(),
+        None => Vec::new(),
+    };
+    let rock_at = |i: usize, c: f64| match perm {
+        Some(_) if c >= 1.0 && (c as usize) <= k => rocks[i * k + c as usize - 1],
+        Some(pm) => sat.rock(c, pm.at(c, phie[i]), phie[i]),
+        None => sat.rock(c, det_perm[i], phie[i]),
+    };
     for r in 0..rr {
         let level = fwl.map_or(comp.fwl_tvdss, |v| v[r]);
         let class = class_column(det_class, draws, r);
         for i in 0..n {
             swh[i] = if sw[i].is_finite() {
-                let k = perm.map_or(det_perm[i], |pm| pm.at(class[i], phie[i]));
-                sat.swh((level - tvdss[i]) * to_m, class[i], k, phie[i], drho)
+                rock_at(i, class[i]).swh((level - tvdss[i]) * to_m, drho)
             } else {
                 f64::NAN
             };

@@ -239,23 +239,43 @@ impl ClassEvidence {
                     }
                 }
                 None => {
+                    // each depth's cumulative shares, once for all draws;
+                    // a depth with no probability is never drawn, and one
+                    // whose class holds all but 1e-12 is that class
+                    // without a draw (which depths are sure depends on the
+                    // data alone: the same draws on any thread)
+                    let mut cum = vec![f64::NAN; probs.len()];
+                    let mut sure: Vec<Option<usize>> = vec![None; len];
+                    for (i, p) in probs.chunks_exact(k).enumerate() {
+                        let total: f64 = p.iter().filter(|v| v.is_finite()).sum();
+                        if total.is_nan() || total <= 0.0 {
+                            continue;
+                        }
+                        let row = &mut cum[i * k..(i + 1) * k];
+                        let mut acc = 0.0;
+                        for (r, v) in row.iter_mut().zip(p) {
+                            acc += if v.is_finite() { *v } else { 0.0 };
+                            *r = acc / total;
+                        }
+                        sure[i] = p
+                            .iter()
+                            .position(|v| v.is_finite() && *v >= (1.0 - 1e-12) * total);
+                    }
                     for d in 0..draws {
-                        for (i, p) in probs.chunks_exact(k).enumerate() {
-                            let total: f64 = p.iter().filter(|v| v.is_finite()).sum();
-                            if total.is_nan() || total <= 0.0 {
+                        for i in 0..len {
+                            let row = &cum[i * k..(i + 1) * k];
+                            if row[0].is_nan() {
                                 continue;
                             }
-                            let u = rng.random::<f64>() * total;
-                            let mut acc = 0.0;
-                            let mut c = k;
-                            for (j, v) in p.iter().enumerate() {
-                                acc += if v.is_finite() { *v } else { 0.0 };
-                                if u < acc {
-                                    c = j + 1;
-                                    break;
+                            let c = match sure[i] {
+                                Some(c) => c,
+                                None => {
+                                    let u = rng.random::<f64>();
+                                    row.iter().position(|&c| u < c).unwrap_or(k - 1)
                                 }
-                            }
-                            out[d * n_rows + rows[start + i]] = u8::try_from(c).unwrap_or(u8::MAX);
+                            };
+                            out[d * n_rows + rows[start + i]] =
+                                u8::try_from(c + 1).unwrap_or(u8::MAX);
                         }
                     }
                 }

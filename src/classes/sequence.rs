@@ -119,28 +119,62 @@ impl SequenceModel {
         let n = probs.len() / k;
         let (emit, t) = self.emissions_and_transitions(probs, step_m);
         let alpha = self.forward(&emit, &t);
-        let pick = |w: &[f64], u: f64| -> usize {
-            let total: f64 = w.iter().sum();
+        // the backward step's distribution at depth i given the class below
+        // it, p(c_i | c_i+1, data up to i) ∝ alpha_i · t(c_i → c_i+1), as
+        // cumulative shares, once for all draws: a draw is then one uniform
+        // and a search per depth
+        let cumulative = |w: &mut [f64]| {
             let mut acc = 0.0;
-            for (j, v) in w.iter().enumerate() {
-                acc += v / total;
-                if u < acc {
-                    return j;
-                }
+            for v in w.iter_mut() {
+                acc += *v;
+                *v = acc;
             }
-            w.len() - 1
+            for v in w.iter_mut() {
+                *v /= acc;
+            }
         };
+        let mut table = vec![0.0; n * k * k];
+        for i in 0..n - 1 {
+            for next in 0..k {
+                let row = &mut table[(i * k + next) * k..(i * k + next + 1) * k];
+                for (j, r) in row.iter_mut().enumerate() {
+                    *r = alpha[i * k + j] * t[j * k + next];
+                }
+                cumulative(row);
+            }
+        }
+        let mut last = alpha[(n - 1) * k..n * k].to_vec();
+        cumulative(&mut last);
+        // a row whose one class holds all but 1e-12 of the share is that
+        // class without a draw (inside a clear bed, most rows): the bias is
+        // below 1e-12 per depth, and which rows are sure depends on the
+        // data alone, so draws stay the same on any thread
+        const SURE: f64 = 1.0 - 1e-12;
+        let sure: Vec<Option<usize>> = table
+            .chunks_exact(k)
+            .map(|row| {
+                let mut below = 0.0;
+                row.iter().position(|&c| {
+                    let share = c - below;
+                    below = c;
+                    share >= SURE
+                })
+            })
+            .collect();
+        // the first class whose cumulative share passes u (the last when
+        // none does: a row of zeros or NaN)
+        let pick = |row: &[f64], u: f64| row.iter().position(|&c| u < c).unwrap_or(k - 1);
         let mut out = vec![0u8; draws * n];
-        let mut w = vec![0.0; k];
         for d in 0..draws {
             let path = &mut out[d * n..(d + 1) * n];
-            let mut next = pick(&alpha[(n - 1) * k..n * k], rng.random::<f64>());
+            let mut next = pick(&last, rng.random::<f64>());
             path[n - 1] = u8::try_from(next + 1).unwrap_or(u8::MAX);
             for i in (0..n - 1).rev() {
-                for (j, wj) in w.iter_mut().enumerate() {
-                    *wj = alpha[i * k + j] * t[j * k + next];
-                }
-                next = pick(&w, rng.random::<f64>());
+                let at = i * k + next;
+                next = match sure[at] {
+                    Some(c) => c,
+                    None => pick(&table[at * k..(at + 1) * k], rng.random::<f64>()),
+                };
                 path[i] = u8::try_from(next + 1).unwrap_or(u8::MAX);
             }
         }
