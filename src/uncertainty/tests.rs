@@ -21,6 +21,19 @@ fn draw(dists: &[Dist], n: usize, seed: u64) -> Vec<Vec<f64>> {
         .collect()
 }
 
+/// A temporary folder and the demo config's text with its wells folder
+/// made absolute (to be edited and written there).
+fn demo_config_text() -> (tempfile::TempDir, String) {
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
+    let dir = tempfile::tempdir().expect("temp dir");
+    let text = std::fs::read_to_string(root.join("config/demo-field.toml")).expect("config");
+    let text = text.replace(
+        "\"../demo-wells",
+        &format!("\"{}", root.join("demo-wells").display()),
+    );
+    (dir, text)
+}
+
 fn mean_sd(v: &[f64]) -> (f64, f64) {
     let n = v.len() as f64;
     let m = v.iter().sum::<f64>() / n;
@@ -234,14 +247,8 @@ fn assert_same_ranges(a: &super::WellUncertainty, b: &super::WellUncertainty, wh
 /// so this ties the fast path to it.
 #[test]
 fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
-    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
-    let dir = tempfile::tempdir().expect("temp dir");
-    let text = std::fs::read_to_string(root.join("config/demo-field.toml")).expect("config");
+    let (dir, text) = demo_config_text();
     let text = text
-        .replace(
-            "\"../demo-wells",
-            &format!("\"{}", root.join("demo-wells").display()),
-        )
         .replace(
             "saturation-model = \"simandoux-modified\"",
             "saturation-model = \"archie\"",
@@ -358,18 +365,11 @@ fn fast_path_equals_the_whole_chain_on_the_demo_wells() {
 #[test]
 fn swh_percentiles_follow_the_sampled_free_water_level() {
     use crate::output::schema::Col;
-    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
-    let dir = tempfile::tempdir().expect("temp dir");
-    let text = std::fs::read_to_string(root.join("config/demo-field.toml")).expect("config");
-    let text = text
-        .replace(
-            "\"../demo-wells",
-            &format!("\"{}", root.join("demo-wells").display()),
-        )
-        .replace(
-            "[compartments.\"Main\"]",
-            "[compartments.\"Main\"]\nfwl-sd = 2.0",
-        );
+    let (dir, text) = demo_config_text();
+    let text = text.replace(
+        "[compartments.\"Main\"]",
+        "[compartments.\"Main\"]\nfwl-sd = 2.0",
+    );
     let cfg_path = dir.path().join("field.toml");
     std::fs::write(&cfg_path, text).expect("write config");
     let mut config = crate::config::Config::load(&cfg_path).expect("config loads");

@@ -347,13 +347,20 @@ pub fn write(
     // the Monte Carlo's ranges, when the run has them: per quantity P90 (the
     // value exceeded in 90 % of the realisations), P50, P10 and the mean
     if rows.iter().any(|r| r.uncertainty.is_some()) {
-        type Get = fn(&ZoneRanges) -> &Range;
-        let quantities: [(&str, Get); 4] = [
-            ("NET_PAY", |u| &u.net_pay),
-            ("PHIE_AVG_VV", |u| &u.phie_avg),
-            ("SW_AVG_VV", |u| &u.sw_avg),
-            ("HPT", |u| &u.hpt),
+        type Get = fn(&ZoneRanges) -> Option<&Range>;
+        let mut quantities: Vec<(&str, Get)> = vec![
+            ("NET_PAY", |u| Some(&u.net_pay)),
+            ("PHIE_AVG_VV", |u| Some(&u.phie_avg)),
+            ("SW_AVG_VV", |u| Some(&u.sw_avg)),
+            ("HPT", |u| Some(&u.hpt)),
         ];
+        // HPT from the saturation-height model, when its FWL or classes vary
+        if rows
+            .iter()
+            .any(|r| r.uncertainty.as_ref().is_some_and(|u| u.hpt_swh.is_some()))
+        {
+            quantities.push(("HPT_SWH", |u| u.hpt_swh.as_ref()));
+        }
         type Pick = fn(&Range) -> f64;
         let stats: [(&str, Pick); 4] = [
             ("P90", |r| r.p90),
@@ -368,30 +375,12 @@ pub fn write(
                     .map(|r| {
                         r.uncertainty
                             .as_ref()
-                            .map(|u| pick(get(u)))
-                            .filter(|v| v.is_finite())
-                    })
-                    .collect();
-                columns.push(Column::new(format!("{q}_{stat}").into(), values));
-            }
-        }
-        // HPT from the saturation-height model, when its FWL or classes vary
-        if rows
-            .iter()
-            .any(|r| r.uncertainty.as_ref().is_some_and(|u| u.hpt_swh.is_some()))
-        {
-            for (stat, pick) in stats {
-                let values: Vec<Option<f64>> = rows
-                    .iter()
-                    .map(|r| {
-                        r.uncertainty
-                            .as_ref()
-                            .and_then(|u| u.hpt_swh.as_ref())
+                            .and_then(get)
                             .map(pick)
                             .filter(|v| v.is_finite())
                     })
                     .collect();
-                columns.push(Column::new(format!("HPT_SWH_{stat}").into(), values));
+                columns.push(Column::new(format!("{q}_{stat}").into(), values));
             }
         }
     }
