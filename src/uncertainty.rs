@@ -19,7 +19,8 @@
 //!   SWH ([`swh_monte_carlo`]) and SWH's per-depth percentiles.
 //!
 //! What is held: the logs, the zone tops, the cutoffs, every key given as a
-//! number, and each class's permeability relation (no scatter about it).
+//! number, and each class's permeability relation where it sets SW and SWH
+//! (PERM's own percentiles carry the core's scatter about it).
 //!
 //! Each realisation runs the well's petrophysics chain
 //! ([`crate::well::chain::run`]), the class-aware saturation when the run uses
@@ -171,8 +172,9 @@ pub struct WellUncertainty {
     /// (NaN where the deterministic run has no SW).
     #[serde(skip)]
     pub sw_depth: Option<[Vec<f64>; 3]>,
-    /// With `depth-percentiles` and drawn classes: PERM at every classed
-    /// depth, P90, P50 and P10, from each realisation's class and PHIE.
+    /// With `depth-percentiles` and a class model: PERM at every classed
+    /// depth, P90, P50 and P10, from each realisation's class and PHIE and
+    /// the core's scatter about the class's relation.
     #[serde(skip)]
     pub perm_depth: Option<[Vec<f64>; 3]>,
     /// With `depth-percentiles` and a saturation-height model whose FWL or
@@ -200,6 +202,41 @@ impl PermModel<'_> {
             .iter()
             .find(|c| f64::from(c.class) == class)
             .map_or(f64::NAN, |c| c.perm(self.method, phie))
+    }
+
+    /// The scatter of log10 k about class `class`'s relation (its RMS on
+    /// the core), 0 for no class.
+    fn scatter(&self, class: f64) -> f64 {
+        self.by_class
+            .iter()
+            .find(|c| f64::from(c.class) == class)
+            .map_or(0.0, |c| c.scatter_log10(self.method))
+    }
+
+    /// PERM at every depth in realisation `r` of `rr`, into `all[i·rr + r]`:
+    /// the realisation's class relation at the depth's PHIE, scattered as
+    /// the core scatters about it, k·10^(s·z) with s the class's RMS of
+    /// log10 k and z a standard normal drawn per depth (Box & Muller 1958;
+    /// from memory). The draws are seeded by `seed` (the well's) and `r`,
+    /// one pair of uniforms per depth, so both Monte Carlo paths and any
+    /// thread draw the same.
+    fn realisation(
+        &self,
+        class: &[f64],
+        phie: &[f64],
+        seed: u64,
+        r: usize,
+        rr: usize,
+        all: &mut [f64],
+    ) {
+        use rand::{Rng, SeedableRng};
+        let stream = seed ^ 0x7065_726d_u64 ^ (r as u64).wrapping_mul(0x9e37_79b9_7f4a_7c15);
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(stream);
+        for (i, (&c, &phi)) in class.iter().zip(phie).enumerate() {
+            let (u1, u2): (f64, f64) = (rng.random(), rng.random());
+            let z = (-2.0 * (1.0 - u1).ln()).sqrt() * (std::f64::consts::TAU * u2).cos();
+            all[i * rr + r] = self.at(c, phi) * 10f64.powf(self.scatter(c) * z);
+        }
     }
 }
 
@@ -259,8 +296,10 @@ fn run_well_logs(
 ) -> WellUncertainty {
     let n = w.table.n_rows();
     let depth = config.uncertainty.depth_percentiles;
-    // PERM per depth needs drawn classes: with the run's classes it would not vary
-    let perm = perm.filter(|_| depth && draws.is_some());
+    // PERM per depth: the drawn class (or the run's) and the scatter about
+    // its relation
+    let perm = perm.filter(|_| depth);
+    let perm_seed = well_seed(config.uncertainty.seed, &w.name);
     match fast::FastWell::prepare(w, names, config) {
         Some(f) => {
             let mut u = ranges(&f.run(samples, draws));
@@ -279,9 +318,7 @@ fn run_well_logs(
                 let mut all = vec![f64::NAN; n * rr];
                 for r in 0..rr {
                     let class = class_column(det, draws, r);
-                    for i in 0..n {
-                        all[i * rr + r] = pm.at(class[i], phie[i]);
-                    }
+                    pm.realisation(&class, phie, perm_seed, r, rr, &mut all);
                 }
                 u.perm_depth = Some(depth_percentiles(&all, rr));
             }
@@ -481,9 +518,8 @@ pub fn run_well_chain(
             }
         }
         if let Some(pm) = perm {
-            for (i, (&c, &phi)) in class.iter().zip(&out.phie).enumerate() {
-                perm_all[i * realisations + r] = pm.at(c, phi);
-            }
+            let seed = well_seed(config.uncertainty.seed, &w.name);
+            pm.realisation(class, &out.phie, seed, r, realisations, &mut perm_all);
         }
         let zones = crate::well::summary::zone_summary(
             &w.name,

@@ -193,3 +193,59 @@ fn drawn_classes_change_the_ranges_and_fixed_holds_them() {
         .count();
     assert!(changed > 0, "class draws changed no range");
 }
+
+/// With the class held, PERM's range at a depth is the core's scatter about
+/// its class's relation: log10 k normal with the class's RMS s, so
+/// log10(P10 / P90) = s · (z0.9 − z0.1) = 2.5631 s (standard normal table:
+/// z0.9 = 1.28155). Averaged over the classed depths of a well (each depth
+/// its own draws), within 3 %; P50 at the relation itself, within s / 5.
+#[test]
+fn perm_range_with_fixed_classes_is_the_cores_scatter() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("out");
+    let cfg = demo_config_edited(dir.path(), |t| {
+        t.replace(
+            "realisations = 200",
+            "realisations = 200\ndepth-percentiles = true\nclasses = \"fixed\"",
+        )
+    });
+    run_summary(&cfg, &out);
+    let model: serde_json::Value = serde_json::from_slice(
+        &std::fs::read(out.join("saturation/saturation-model.json")).expect("model"),
+    )
+    .expect("json");
+    assert_eq!(model["perm_method"], "fzi");
+    let scatter = |class: f64| {
+        model["perm_by_class"]
+            .as_array()
+            .expect("classes")
+            .iter()
+            .find(|c| c["class"].as_f64() == Some(class))
+            .and_then(|c| c["fzi_rms_log10"].as_f64())
+            .expect("scatter")
+    };
+    let (h, rows) = read_table(&out.join("wells/tarnby-2.csv"));
+    let (class, perm) = (col(&h, "CLASS"), col(&h, "PERM"));
+    assert_eq!(&h[perm + 1..perm + 4], ["PERM_P90", "PERM_P50", "PERM_P10"]);
+    let (mut ratio, mut mid, mut n) = (0.0, 0.0, 0.0);
+    for r in &rows {
+        let (c, k, p90, p50, p10) = (
+            num(&r[class]),
+            num(&r[perm]),
+            num(&r[perm + 1]),
+            num(&r[perm + 2]),
+            num(&r[perm + 3]),
+        );
+        if !(c >= 1.0 && k > 0.0 && p90 > 0.0) {
+            continue;
+        }
+        let s = scatter(c);
+        ratio += (p10 / p90).log10() / s;
+        mid += (p50 / k).log10().abs() / s;
+        n += 1.0;
+    }
+    assert!(n > 300.0, "{n} classed depths");
+    let (ratio, mid) = (ratio / n, mid / n);
+    assert!((ratio - 2.5631).abs() < 0.03 * 2.5631, "{ratio}");
+    assert!(mid < 0.2, "{mid}");
+}
