@@ -213,6 +213,23 @@ pub fn run_summary(cfg: &Path, out: &Path) -> serde_json::Value {
         .expect("json")
 }
 
+/// Two folders' files (as [`files`] reads them) are the same, byte for byte.
+#[track_caller]
+pub fn assert_same(
+    expected: &std::collections::BTreeMap<PathBuf, Vec<u8>>,
+    got: &std::collections::BTreeMap<PathBuf, Vec<u8>>,
+    what: &str,
+) {
+    assert_eq!(
+        expected.keys().collect::<Vec<_>>(),
+        got.keys().collect::<Vec<_>>(),
+        "{what}: the same files"
+    );
+    for (k, v) in expected {
+        assert!(got[k] == *v, "{} differs ({what})", k.display());
+    }
+}
+
 /// Every file under `dir` (relative path → bytes), except hidden ones
 /// (temporary files) and run-manifest.json, whose times change from run
 /// to run.

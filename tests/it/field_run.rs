@@ -15,14 +15,7 @@ fn assert_same_files(expected: &BTreeMap<PathBuf, Vec<u8>>, dir: &Path, what: &s
         .into_iter()
         .filter(|(k, _)| !k.starts_with("shards"))
         .collect();
-    assert_eq!(
-        expected.keys().collect::<Vec<_>>(),
-        got.keys().collect::<Vec<_>>(),
-        "{what}"
-    );
-    for (k, v) in expected {
-        assert!(got[k] == *v, "{} differs ({what})", k.display());
-    }
+    crate::common::assert_same(expected, &got, what);
 }
 
 /// The demo run with 1 thread and with 4 threads, into the same folder one

@@ -6,7 +6,7 @@
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
-use crate::common::{demo_config_edited, files, flowzone, root, run_config};
+use crate::common::{assert_same, demo_config_edited, files, flowzone, root, run_config};
 
 fn copy_dir(from: &Path, to: &Path) {
     std::fs::create_dir_all(to).expect("dir");
@@ -34,18 +34,6 @@ fn ok(run: &std::process::Output) -> String {
     let err = String::from_utf8_lossy(&run.stderr).into_owned();
     assert!(run.status.success(), "{err}");
     err
-}
-
-#[track_caller]
-fn assert_same(a: &BTreeMap<PathBuf, Vec<u8>>, b: &BTreeMap<PathBuf, Vec<u8>>, what: &str) {
-    assert_eq!(
-        a.keys().collect::<Vec<_>>(),
-        b.keys().collect::<Vec<_>>(),
-        "{what}: the same files"
-    );
-    for (k, v) in a {
-        assert!(b[k] == *v, "{} differs ({what})", k.display());
-    }
 }
 
 fn manifest_outputs(out: &Path) -> Vec<String> {
