@@ -60,7 +60,8 @@ pub struct RunSummary {
     pub timings: RunTimings,
 }
 
-/// The Monte Carlo's part of the run summary, and `field/hpt-drivers.csv`.
+/// The Monte Carlo's part of the run summary, and `field/hpt-drivers.csv`
+/// (and `hpt-swh-drivers.csv`).
 fn uncertainty_summary(
     config: &Config,
     out: &Path,
@@ -71,8 +72,12 @@ fn uncertainty_summary(
         .iter()
         .map(|r| r.view.hpt_realisations.as_slice())
         .collect();
-    let drivers = crate::uncertainty::drivers(samples, &wells);
-    let path = crate::uncertainty::write_drivers(&drivers, &out.join("field"))?;
+    let wells_swh: Vec<&[(String, Vec<f64>)]> = reports
+        .iter()
+        .map(|r| r.view.hpt_swh_realisations.as_slice())
+        .collect();
+    let drivers = crate::uncertainty::drivers(samples, &wells, &wells_swh);
+    let paths = crate::uncertainty::write_drivers(&drivers, &out.join("field"))?;
     let u = &config.uncertainty;
     Ok(crate::uncertainty::UncertaintySummary {
         realisations: u.realisations,
@@ -91,7 +96,7 @@ fn uncertainty_summary(
             .collect(),
         convention: crate::uncertainty::CONVENTION.into(),
         drivers,
-        outputs: vec![output::shown(out, &path)],
+        outputs: paths.iter().map(|p| output::shown(out, p)).collect(),
     })
 }
 
@@ -409,6 +414,7 @@ fn one_well(path: &Path, stem: &str, models: &Models<'_>, out_dir: &Path) -> Wel
                 .map(|(z, _)| z.clone())
                 .zip(u.hpt.iter().cloned())
                 .collect();
+            report.view.hpt_swh_realisations = u.hpt_swh.clone();
         }
         Ok(())
     })();

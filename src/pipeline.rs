@@ -280,6 +280,9 @@ pub struct WellView {
     /// HPT per zone and Monte Carlo realisation, `(zone, values)`, for the
     /// field's ranking of what drives it (empty without a Monte Carlo).
     pub hpt_realisations: Vec<(String, Vec<f64>)>,
+    /// HPT from SWH per zone and realisation, likewise (empty without a
+    /// saturation-height Monte Carlo).
+    pub hpt_swh_realisations: Vec<(String, Vec<f64>)>,
 }
 
 impl WellReport {

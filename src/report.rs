@@ -403,6 +403,8 @@ pub struct FieldPage<'a> {
     pub views: field_views::Views<'a>,
     /// The Monte Carlo's drivers of each zone's HPT, ranked (empty without one).
     pub drivers: &'a [crate::uncertainty::Driver],
+    /// The Monte Carlo's realisations (0 without one).
+    pub realisations: usize,
 }
 
 /// Write the field page, `report/index.html`; returns its path relative to `out`.
@@ -589,10 +591,29 @@ fn uncertainty_section(h: &mut String, p: &FieldPage<'_>) {
     h.push_str("<h2 id=\"uncertainty\">Uncertainty</h2>\n");
     let _ = writeln!(
         h,
-        "<p class=\"note\">Monte Carlo over the parameters the config gives as distributions, the class at each depth (drawn from its probabilities, bed by bed, unless <code>[uncertainty] classes = \"fixed\"</code>) and each compartment's free water level (normal, with the pressure fit's standard error or the config's <code>fwl-sd</code>); the logs, zone tops and cutoffs are held. {}. The zone summary below and <a href=\"../field/zone-summary.csv\">field/zone-summary.csv</a> give each zone's P90, P50, P10 and mean, of HPT from the logs' SW and, where a saturation-height model is run, of HPT from its SWH (which carries the free water level's spread); <a href=\"../field/hpt-drivers.csv\">field/hpt-drivers.csv</a> ranks the parameters by their hold on HPT from SW. The ranges reflect only the stated input uncertainties.</p>",
+        "<p class=\"note\">Monte Carlo over the parameters the config gives as distributions, the class at each depth (drawn from its probabilities, bed by bed, unless <code>[uncertainty] classes = \"fixed\"</code>) and each compartment's free water level (normal, with the pressure fit's standard error or the config's <code>fwl-sd</code>); the logs, zone tops and cutoffs are held. {}. The zone summary below and <a href=\"../field/zone-summary.csv\">field/zone-summary.csv</a> give each zone's P90, P50, P10 and mean, of HPT from the logs' SW and, where a saturation-height model is run, of HPT from its SWH (which carries the free water level's spread); <a href=\"../field/hpt-drivers.csv\">field/hpt-drivers.csv</a> ranks the parameters by their hold on HPT from SW, and <code>field/hpt-swh-drivers.csv</code> (the second chart, when drawn) ranks them with each compartment's free water level by their hold on HPT from SWH. The ranges reflect only the stated input uncertainties.</p>",
         escape(crate::uncertainty::CONVENTION)
     );
-    plot(h, &plots::tornado::tornado(p.drivers));
+    for (quantity, what, short) in [
+        ("HPT", "hydrocarbon pore thickness", "HPT"),
+        (
+            "HPT_SWH",
+            "hydrocarbon pore thickness from the saturation-height model",
+            "HPT from SWH",
+        ),
+    ] {
+        let of: Vec<&crate::uncertainty::Driver> = p
+            .drivers
+            .iter()
+            .filter(|d| d.quantity == quantity)
+            .collect();
+        if !of.is_empty() {
+            plot(
+                h,
+                &plots::tornado::tornado(&of, what, short, p.realisations),
+            );
+        }
+    }
 }
 
 /// The field page's saturation steps, the first [`MAX_TABLE_ROWS`].

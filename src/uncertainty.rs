@@ -168,6 +168,9 @@ pub struct WellUncertainty {
     pub zones: Vec<(String, ZoneRanges)>,
     /// HPT per zone and realisation, `hpt[zone][r]`, depth unit.
     pub hpt: Vec<Vec<f64>>,
+    /// HPT from SWH per zone and realisation, `(zone, values)` (empty
+    /// without a saturation-height Monte Carlo).
+    pub hpt_swh: Vec<(String, Vec<f64>)>,
     /// With `depth-percentiles`: SW at every depth, P90, P50 and P10
     /// (NaN where the deterministic run has no SW).
     #[serde(skip)]
@@ -274,11 +277,12 @@ pub fn run_well(
             perm.filter(|_| draws.is_some()),
         )
     }) {
-        for (zone, r) in zones {
-            if let Some((_, z)) = u.zones.iter_mut().find(|(name, _)| *name == zone) {
-                z.hpt_swh = Some(r);
+        for (zone, values) in &zones {
+            if let Some((_, z)) = u.zones.iter_mut().find(|(name, _)| name == zone) {
+                z.hpt_swh = Some(Range::of(values));
             }
         }
+        u.hpt_swh = zones;
         u.swh_depth = depth;
     }
     u
@@ -400,6 +404,7 @@ fn ranges(per_zone: &[(String, Vec<[f64; 4]>)]) -> WellUncertainty {
             })
             .collect(),
         hpt: per_zone.iter().map(|(_, rows)| pick(rows, 3)).collect(),
+        hpt_swh: Vec::new(),
         sw_depth: None,
         perm_depth: None,
         swh_depth: None,
@@ -550,16 +555,17 @@ pub fn run_well_chain(
     u
 }
 
-/// Per zone the range of HPT from SWH, and SWH's P90, P50 and P10 per depth.
-type SwhRanges = (Vec<(String, Range)>, Option<[Vec<f64>; 3]>);
+/// Per zone HPT from SWH in every realisation, and SWH's P90, P50 and P10
+/// per depth.
+type SwhRanges = (Vec<(String, Vec<f64>)>, Option<[Vec<f64>; 3]>);
 
 /// The saturation-height side of the Monte Carlo: SWH at every depth in
 /// every realisation, from the well's compartment's FWL in that realisation
 /// ([`Samples::fwl`]; its FWL when not sampled) and the realisation's classes
 /// (`draws`) with their permeability (`perm`, else the run's PERM), at the
 /// run's PHIE; the same function as the run's SWH
-/// ([`crate::sat_height::SatHeightModel::swh`]). Returns per zone the range
-/// of the HPT the zone summary gives with SWH in SW's place, and with
+/// ([`crate::sat_height::SatHeightModel::swh`]). Returns per zone the HPT
+/// the zone summary gives with SWH in SW's place in every realisation, and with
 /// `depth-percentiles` SWH's P90, P50 and P10 per depth. `None` when neither
 /// the FWL nor the classes vary, or the well is in no compartment.
 fn swh_monte_carlo(
@@ -660,8 +666,7 @@ fn swh_monte_carlo(
             }
         }
     }
-    let ranges = hpt.into_iter().map(|(z, v)| (z, Range::of(&v))).collect();
-    Some((ranges, keep.then(|| depth_percentiles(&all, rr))))
+    Some((hpt, keep.then(|| depth_percentiles(&all, rr))))
 }
 
 /// One driver of a zone's field-wide HPT: a variable and the Spearman rank
@@ -674,21 +679,69 @@ pub struct Driver {
     pub parameter: String,
     /// Spearman's rank correlation with the zone's HPT, -1 to 1.
     pub rank_correlation: f64,
+    /// What it drives: `HPT` (from the logs' SW) or `HPT_SWH` (from the
+    /// saturation-height model's SWH).
+    pub quantity: String,
 }
 
 /// The drivers of each zone's HPT, strongest first: per zone, the rank
 /// correlation of every variable with the zone's HPT summed over the wells
-/// in each realisation. `wells`: each well's HPT per zone and realisation.
-/// A variable that does not change the zone's HPT (or a zone whose HPT does
-/// not vary) gets a correlation of 0.
-pub fn drivers(samples: &Samples, wells: &[&[(String, Vec<f64>)]]) -> Vec<Driver> {
+/// in each realisation. `wells`: each well's HPT per zone and realisation;
+/// `wells_swh` likewise its HPT from SWH, ranked against the parameters and
+/// each compartment's free water level (quantity `HPT_SWH`; none when no
+/// well has it). A variable that does not change the zone's HPT (or a zone
+/// whose HPT does not vary) gets a correlation of 0.
+pub fn drivers(
+    samples: &Samples,
+    wells: &[&[(String, Vec<f64>)]],
+    wells_swh: &[&[(String, Vec<f64>)]],
+) -> Vec<Driver> {
+    let params: Vec<(&str, &[f64])> = samples
+        .vars
+        .iter()
+        .zip(&samples.values)
+        .map(|(v, x)| (v.name.as_str(), x.as_slice()))
+        .collect();
+    let fwl_names: Vec<String> = samples
+        .fwl
+        .iter()
+        .map(|f| format!("compartments.{}.fwl-tvdss", f.compartment))
+        .collect();
+    let with_fwl: Vec<(&str, &[f64])> = params
+        .iter()
+        .copied()
+        .chain(
+            fwl_names
+                .iter()
+                .zip(&samples.fwl)
+                .map(|(n, f)| (n.as_str(), f.values.as_slice())),
+        )
+        .collect();
+    let mut out = rank_drivers("HPT", &params, wells, samples.realisations);
+    out.extend(rank_drivers(
+        "HPT_SWH",
+        &with_fwl,
+        wells_swh,
+        samples.realisations,
+    ));
+    out
+}
+
+/// Per zone, each of `vars` ranked by its Spearman correlation with the
+/// zone's `quantity` summed over `wells`, strongest first.
+fn rank_drivers(
+    quantity: &str,
+    vars: &[(&str, &[f64])],
+    wells: &[&[(String, Vec<f64>)]],
+    realisations: usize,
+) -> Vec<Driver> {
     let mut totals: Vec<(String, Vec<f64>)> = Vec::new();
     for w in wells {
         for (zone, hpt) in w.iter() {
             let slot = match totals.iter().position(|(z, _)| z == zone) {
                 Some(i) => i,
                 None => {
-                    totals.push((zone.clone(), vec![0.0; samples.realisations]));
+                    totals.push((zone.clone(), vec![0.0; realisations]));
                     totals.len() - 1
                 }
             };
@@ -701,16 +754,15 @@ pub fn drivers(samples: &Samples, wells: &[&[(String, Vec<f64>)]]) -> Vec<Driver
     }
     let mut out = Vec::new();
     for (zone, total) in &totals {
-        let mut ds: Vec<Driver> = samples
-            .vars
+        let mut ds: Vec<Driver> = vars
             .iter()
-            .zip(&samples.values)
-            .map(|(v, x)| {
+            .map(|(name, x)| {
                 let rho = crate::stats::rank_correlation(x, total);
                 Driver {
                     zone: zone.clone(),
-                    parameter: v.name.clone(),
+                    parameter: (*name).to_string(),
                     rank_correlation: if rho.is_finite() { rho } else { 0.0 },
+                    quantity: quantity.to_string(),
                 }
             })
             .collect();
@@ -738,9 +790,11 @@ pub struct UncertaintySummary {
     pub variables: Vec<(String, crate::stats::dist::Dist)>,
     /// The percentile convention, in words.
     pub convention: String,
-    /// Per zone, every variable's rank correlation with the zone's HPT.
+    /// Per zone, every variable's rank correlation with the zone's HPT
+    /// (quantity `HPT`) and, with a saturation-height model, with its HPT
+    /// from SWH, the free water levels included (quantity `HPT_SWH`).
     pub drivers: Vec<Driver>,
-    /// hpt-drivers.csv.
+    /// hpt-drivers.csv, and hpt-swh-drivers.csv when written.
     pub outputs: Vec<String>,
 }
 
@@ -748,20 +802,42 @@ pub struct UncertaintySummary {
 pub const CONVENTION: &str = "P90 is the value exceeded in 90 % of the realisations (the 10th percentile), P10 the value exceeded in 10 %; for net pay and HPT, P90 is the low case and P10 the high case; for SW the low case is its P10 (the highest SW)";
 
 /// Write `field/hpt-drivers.csv` (ZONE, PARAMETER, RANK_CORRELATION, RANK):
-/// per zone, each variable's rank correlation with the zone's HPT, strongest first.
+/// per zone, each variable's rank correlation with the zone's HPT, strongest
+/// first; and, when there are drivers of HPT from SWH, `hpt-swh-drivers.csv`
+/// with the same columns. Returns the paths written.
 pub fn write_drivers(
     drivers: &[Driver],
     dir: &std::path::Path,
-) -> Result<std::path::PathBuf, crate::output::OutputError> {
-    let path = dir.join("hpt-drivers.csv");
-    let io = |source| crate::output::OutputError::Io {
-        path: path.clone(),
-        source,
-    };
+) -> Result<Vec<std::path::PathBuf>, crate::output::OutputError> {
     std::fs::create_dir_all(dir).map_err(|source| crate::output::OutputError::Io {
         path: dir.to_path_buf(),
         source,
     })?;
+    let mut written = Vec::new();
+    for (quantity, name) in [
+        ("HPT", "hpt-drivers.csv"),
+        ("HPT_SWH", "hpt-swh-drivers.csv"),
+    ] {
+        let of: Vec<&Driver> = drivers.iter().filter(|d| d.quantity == quantity).collect();
+        if of.is_empty() && quantity != "HPT" {
+            continue;
+        }
+        let path = dir.join(name);
+        write_driver_table(&of, &path)?;
+        written.push(path);
+    }
+    Ok(written)
+}
+
+/// One drivers table as CSV, ranked within each zone.
+fn write_driver_table(
+    drivers: &[&Driver],
+    path: &std::path::Path,
+) -> Result<(), crate::output::OutputError> {
+    let io = |source| crate::output::OutputError::Io {
+        path: path.to_path_buf(),
+        source,
+    };
     // quoted where a field needs it (parameter names hold quotes)
     let mut csv = csv::Writer::from_writer(Vec::new());
     let mut rank = 0;
@@ -793,11 +869,10 @@ pub fn write_drivers(
     let text = csv
         .into_inner()
         .map_err(|e| io(std::io::Error::other(e.to_string())))?;
-    crate::output::write_atomic(&path, |w| {
+    crate::output::write_atomic(path, |w| {
         use std::io::Write as _;
         w.write_all(&text).map_err(io)
-    })?;
-    Ok(path)
+    })
 }
 
 #[cfg(test)]

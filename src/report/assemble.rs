@@ -36,6 +36,7 @@ pub fn well_view(w: &Interpreted) -> crate::pipeline::WellView {
         profile: crate::well::profile::profile(&out.table, &out.zone_of, &names),
         location: crate::input::location::from_items(&out.table.well_items),
         hpt_realisations: Vec::new(),
+        hpt_swh_realisations: Vec::new(),
     }
 }
 
@@ -264,6 +265,7 @@ pub fn field_page(
         rw_ohmm: field_archie.rw_ohmm.unwrap_or(f64::NAN),
         views: crate::report::field_views::build(config, sat, reports),
         drivers,
+        realisations: config.uncertainty.realisations,
     };
     crate::report::write_field_page(out, &page)
 }

@@ -86,12 +86,13 @@ fn report_pages_render_in_a_browser() {
     // the five field crossplots, each with data (the demo has core,
     // capillary plugs, pressures, a trained predictor and a field Rw), the
     // base map, per compartment (East, Main) a cross-section and an FWL
-    // chart, and the Monte Carlo's tornado chart
-    assert_eq!(dom.matches("<svg").count(), 5 + 1 + 2 * 2 + 1, "plots");
+    // chart, and the Monte Carlo's two tornado charts (HPT from SW, and HPT
+    // from SWH with the free water levels)
+    assert_eq!(dom.matches("<svg").count(), 5 + 1 + 2 * 2 + 2, "plots");
     assert_eq!(
         dom.matches("<g class=\"tornado-zone\">").count(),
-        3,
-        "a tornado per zone"
+        2 * 3,
+        "a tornado per zone, in each chart"
     );
     for group in [
         "class=\"points\"",

@@ -249,3 +249,44 @@ fn perm_range_with_fixed_classes_is_the_cores_scatter() {
     assert!((ratio - 2.5631).abs() < 0.03 * 2.5631, "{ratio}");
     assert!(mid < 0.2, "{mid}");
 }
+
+/// With a 2 m standard deviation on Main's free water level, the FWL leads
+/// the ranking of what drives HPT from SWH in both reservoir zones, with
+/// the physical sign: a deeper FWL (larger TVDSS) puts every depth higher
+/// above it, so SWH falls and HPT rises (Leverett J grows with height). The
+/// report draws a second tornado for it.
+#[test]
+fn the_free_water_level_drives_hpt_from_swh() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("out");
+    let cfg = demo_config_edited(dir.path(), |t| {
+        t.replace(
+            "[compartments.\"Main\"]",
+            "[compartments.\"Main\"]\nfwl-sd = 2.0",
+        )
+    });
+    let summary = run_summary(&cfg, &out);
+    let (h, rows) = read_table(&out.join("field/hpt-swh-drivers.csv"));
+    let (z, p, rho, rank) = (
+        col(&h, "ZONE"),
+        col(&h, "PARAMETER"),
+        col(&h, "RANK_CORRELATION"),
+        col(&h, "RANK"),
+    );
+    for zone in ["Upper Kell", "Lower Kell"] {
+        let first = rows
+            .iter()
+            .find(|r| r[z] == zone && r[rank] == "1")
+            .expect("ranked");
+        assert_eq!(first[p], "compartments.Main.fwl-tvdss", "{zone}");
+        assert!(num(&first[rho]) > 0.9, "{first:?}");
+    }
+    // HPT from the logs' SW is not driven by the FWL: it is not ranked there
+    let (dh, drows) = read_table(&out.join("field/hpt-drivers.csv"));
+    let dp = col(&dh, "PARAMETER");
+    assert!(drows.iter().all(|r| !r[dp].contains("fwl")));
+    let outputs = summary["uncertainty"]["outputs"].to_string();
+    assert!(outputs.contains("field/hpt-swh-drivers.csv"), "{outputs}");
+    let page = std::fs::read_to_string(out.join("report/index.html")).expect("page");
+    assert!(page.contains("pore thickness from the saturation-height model</text>"));
+}

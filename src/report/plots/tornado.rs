@@ -16,8 +16,14 @@ const ROW_H: f64 = 18.0;
 pub const TOP: usize = 10;
 
 /// The tornado chart of every zone's drivers (`drivers` as ranked by
-/// [`crate::uncertainty::drivers`]), as an SVG document.
-pub fn tornado(drivers: &[Driver]) -> String {
+/// [`crate::uncertainty::drivers`], of one quantity), as an SVG document.
+/// `what` names the quantity in the title (`hydrocarbon pore thickness`),
+/// `short` on the axis (`HPT`). A grey band marks the correlations within
+/// chance of none over `realisations`: |ρ| < 1.96/√(n − 1), Spearman's ρ
+/// having variance 1/(n − 1) between independent samples (Kendall & Stuart,
+/// from memory).
+pub fn tornado(drivers: &[&Driver], what: &str, short_name: &str, realisations: usize) -> String {
+    let band = noise_band(realisations);
     let mut zones: Vec<&str> = Vec::new();
     for d in drivers {
         if !zones.contains(&d.zone.as_str()) {
@@ -28,20 +34,20 @@ pub fn tornado(drivers: &[Driver]) -> String {
         .iter()
         .map(|z| drivers.iter().filter(|d| d.zone == *z).count().min(TOP) + 2)
         .sum();
-    let height = 70.0 + ROW_H * rows as f64 + 40.0;
+    let height = 70.0 + ROW_H * rows as f64 + 56.0;
     let mut s = Svg::new(W, height);
     s.group("tornado", None);
     s.text(
         20.0,
         20.0,
-        "What drives each zone's hydrocarbon pore thickness",
+        &format!("What drives each zone's {what}"),
         15.0,
         Anchor::Start,
     );
     s.text_styled(
         20.0,
         36.0,
-        "Spearman rank correlation of each input with the zone's HPT summed over the wells, across the realisations",
+        &format!("Spearman rank correlation of each input with the zone's {short_name} summed over the wells, across the realisations"),
         10.0,
         Anchor::Start,
         palette::FRAME,
@@ -55,10 +61,21 @@ pub fn tornado(drivers: &[Driver]) -> String {
         y += ROW_H;
         let mine: Vec<&Driver> = drivers
             .iter()
+            .copied()
             .filter(|d| d.zone == *zone)
             .take(TOP)
             .collect();
         let top = y - 4.0;
+        if band > 0.0 && !mine.is_empty() {
+            s.rect_faint(
+                xs.px(-band),
+                y - ROW_H / 2.0,
+                xs.px(band) - xs.px(-band),
+                ROW_H * mine.len() as f64,
+                palette::SHADE,
+                0.5,
+            );
+        }
         for d in &mine {
             let rho = d.rank_correlation;
             let colour = if rho >= 0.0 {
@@ -123,14 +140,35 @@ pub fn tornado(drivers: &[Driver]) -> String {
     s.text(
         (L + R) / 2.0,
         y + 24.0,
-        "lowers HPT ← rank correlation → raises HPT",
+        &format!("lowers {short_name} ← rank correlation → raises {short_name}"),
         10.0,
         Anchor::Middle,
     );
+    if band > 0.0 {
+        s.text(
+            (L + R) / 2.0,
+            y + 40.0,
+            &format!(
+                "grey band: |ρ| < {band:.2}, within chance of no relation over {realisations} realisations"
+            ),
+            9.0,
+            Anchor::Middle,
+        );
+    }
     super::palette_note(&mut s, R + 10.0, 62.0);
     s.end_group();
     s.end_group();
     s.finish()
+}
+
+/// Half-width of the band of rank correlations within chance of none over
+/// `n` realisations (two-sided 95 %): 1.96/√(n − 1); 0 below 3.
+pub fn noise_band(n: usize) -> f64 {
+    if n < 3 {
+        0.0
+    } else {
+        1.96 / ((n - 1) as f64).sqrt()
+    }
 }
 
 /// A parameter's full key name without the `parameters.` prefix.
@@ -147,6 +185,7 @@ mod tests {
             zone: zone.into(),
             parameter: p.into(),
             rank_correlation: r,
+            quantity: "HPT".into(),
         }
     }
 
@@ -163,7 +202,8 @@ mod tests {
                 0.5 - 0.01 * f64::from(i),
             )
         }));
-        let svg = tornado(&drivers);
+        let refs: Vec<&Driver> = drivers.iter().collect();
+        let svg = tornado(&refs, "hydrocarbon pore thickness", "HPT", 200);
         assert_eq!(svg.matches("<g class=\"tornado-zone\">").count(), 2);
         assert_eq!(svg.matches("<g class=\"driver\">").count(), 2 + TOP);
         assert!(svg.contains("<title>parameters.field.rw-ohmm: rank correlation -0.60</title>"));
@@ -177,5 +217,39 @@ mod tests {
         );
         assert!(svg.contains(&format!("<rect x=\"{}\"", crate::report::svg::num(zero))));
         assert!(!svg.contains(">field.k11<"), "beyond the top {TOP}");
+        // the chance band: 1.96/√199 = 0.1389 either side of zero, one per zone
+        assert!((noise_band(200) - 0.138_94).abs() < 1e-5);
+        let band_left = zero - noise_band(200) * (R - L) / 2.0;
+        assert_eq!(
+            svg.matches(&format!(
+                "<rect x=\"{}\"",
+                crate::report::svg::num(band_left)
+            ))
+            .count(),
+            2
+        );
+        assert!(svg.contains("within chance of no relation over 200 realisations"));
+    }
+
+    /// Spearman's ρ between independent samples has variance 1/(n − 1)
+    /// (Kendall & Stuart, from memory): over 2000 pairs of independent
+    /// shuffles of 200, about 5 % fall outside the band.
+    #[test]
+    fn about_one_in_twenty_independent_correlations_fall_outside_the_band() {
+        use rand::SeedableRng;
+        use rand::seq::SliceRandom;
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(3);
+        let n = 200;
+        let x: Vec<f64> = (0..n).map(f64::from).collect();
+        let mut outside = 0;
+        for _ in 0..2000 {
+            let mut y = x.clone();
+            y.shuffle(&mut rng);
+            if crate::stats::rank_correlation(&x, &y).abs() >= noise_band(200) {
+                outside += 1;
+            }
+        }
+        // binomial(2000, 0.05): mean 100, sd 9.7
+        assert!((70..=130).contains(&outside), "{outside}");
     }
 }
