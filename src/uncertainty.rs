@@ -201,19 +201,13 @@ impl PermModel<'_> {
         if !(class >= 1.0 && phie > 0.0) {
             return f64::NAN;
         }
-        self.by_class
-            .iter()
-            .find(|c| f64::from(c.class) == class)
+        self.relation(class)
             .map_or(f64::NAN, |c| c.perm(self.method, phie))
     }
 
-    /// The scatter of log10 k about class `class`'s relation (its RMS on
-    /// the core), 0 for no class.
-    fn scatter(&self, class: f64) -> f64 {
-        self.by_class
-            .iter()
-            .find(|c| f64::from(c.class) == class)
-            .map_or(0.0, |c| c.scatter_log10(self.method))
+    /// Class `class`'s fitted relation, if the model has one.
+    fn relation(&self, class: f64) -> Option<&crate::classes::perm::ClassPerm> {
+        self.by_class.iter().find(|c| f64::from(c.class) == class)
     }
 
     /// PERM at every depth in realisation `r` of `rr`, into `all[i·rr + r]`:
@@ -238,7 +232,13 @@ impl PermModel<'_> {
         for (i, (&c, &phi)) in class.iter().zip(phie).enumerate() {
             let (u1, u2): (f64, f64) = (rng.random(), rng.random());
             let z = (-2.0 * (1.0 - u1).ln()).sqrt() * (std::f64::consts::TAU * u2).cos();
-            all[i * rr + r] = self.at(c, phi) * 10f64.powf(self.scatter(c) * z);
+            // one lookup of the class's relation gives its k and its scatter
+            all[i * rr + r] = match self.relation(c).filter(|_| c >= 1.0 && phi > 0.0) {
+                Some(rel) => {
+                    rel.perm(self.method, phi) * 10f64.powf(rel.scatter_log10(self.method) * z)
+                }
+                None => f64::NAN,
+            };
         }
     }
 }
